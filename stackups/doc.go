@@ -1,0 +1,3 @@
+// Package stackups decodes board stackups from TOML and carries the
+// embedded laminate presets.
+package stackups

@@ -1,0 +1,264 @@
+// Package units reads and writes the quantities a board designer types:
+// lengths ("0.8mm", "35um", "20mil", copper weight "1oz"), frequencies
+// ("2.45GHz"), electrical lengths ("90deg", "0.25wl") and complex impedances
+// ("18-j22"). Values come back in SI units (metres, hertz, ohms) or, for
+// electrical lengths, in degrees. Like strconv, every parser returns
+// (value, error) and the error names the text it could not read.
+package units
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"math/cmplx"
+	"strconv"
+	"strings"
+	"unicode"
+)
+
+// CopperOunceThickness is the thickness of one ounce per square foot of
+// copper foil: 1.37 mil = 34.8 µm (IPC-4562 nominal, from memory; boards are
+// commonly quoted as 35 µm per ounce).
+const CopperOunceThickness = 34.8e-6
+
+// NumError records a failed parse, in the manner of strconv.NumError.
+type NumError struct {
+	Quantity string // what was being read: "length", "frequency", ...
+	Text     string // the text that could not be read
+	Err      error  // the reason
+}
+
+func (e *NumError) Error() string {
+	return fmt.Sprintf("cannot read %q as a %s: %v", e.Text, e.Quantity, e.Err)
+}
+
+func (e *NumError) Unwrap() error { return e.Err }
+
+// Reasons carried by NumError.Err.
+var (
+	ErrSyntax   = errors.New("not a number")
+	ErrNoUnit   = errors.New("a unit is needed")
+	ErrUnit     = errors.New("unknown unit")
+	ErrNotFinit = errors.New("not a finite value")
+)
+
+// split separates "0.8 mm" into 0.8 and "mm". The number is the longest
+// prefix that strconv accepts as a float.
+func split(s string) (float64, string, error) {
+	s = strings.TrimSpace(s)
+	end := 0
+	for end < len(s) {
+		c := s[end]
+		if (c >= '0' && c <= '9') || c == '.' || c == '+' || c == '-' {
+			end++
+			continue
+		}
+		if (c == 'e' || c == 'E') && end+1 < len(s) {
+			n := s[end+1]
+			if (n >= '0' && n <= '9') || ((n == '+' || n == '-') && end+2 < len(s) && s[end+2] >= '0' && s[end+2] <= '9') {
+				end += 2
+				continue
+			}
+		}
+		break
+	}
+	if end == 0 {
+		return 0, "", ErrSyntax
+	}
+	v, err := strconv.ParseFloat(s[:end], 64)
+	if err != nil {
+		return 0, "", ErrSyntax
+	}
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return 0, "", ErrNotFinit
+	}
+	return v, strings.TrimSpace(s[end:]), nil
+}
+
+var lengthUnits = map[string]float64{
+	"m":    1,
+	"cm":   1e-2,
+	"mm":   1e-3,
+	"um":   1e-6,
+	"µm":   1e-6, // micro sign
+	"μm":   1e-6, // Greek mu
+	"nm":   1e-9,
+	"mil":  25.4e-6,
+	"mils": 25.4e-6,
+	"thou": 25.4e-6,
+	"in":   25.4e-3,
+}
+
+// ParseLength reads a length with its unit (m, cm, mm, um, µm, nm, mil, in)
+// and returns metres. A bare number is refused: "0.8" could be millimetres
+// or mils.
+func ParseLength(s string) (float64, error) {
+	v, u, err := split(s)
+	if err != nil {
+		return 0, &NumError{"length", s, err}
+	}
+	if u == "" {
+		return 0, &NumError{"length", s, fmt.Errorf("%w (for example %gmm)", ErrNoUnit, v)}
+	}
+	f, ok := lengthUnits[strings.ToLower(u)]
+	if !ok {
+		f, ok = lengthUnits[u]
+	}
+	if !ok {
+		return 0, &NumError{"length", s, fmt.Errorf("%w %q (use m, mm, um, mil or in)", ErrUnit, u)}
+	}
+	return v * f, nil
+}
+
+// ParseCopperThickness reads a copper thickness as a length or as a foil
+// weight in ounces per square foot ("1oz", "0.5oz"), and returns metres.
+func ParseCopperThickness(s string) (float64, error) {
+	v, u, err := split(s)
+	if err != nil {
+		return 0, &NumError{"copper thickness", s, err}
+	}
+	if strings.EqualFold(u, "oz") {
+		return v * CopperOunceThickness, nil
+	}
+	m, err := ParseLength(s)
+	if err != nil {
+		var ne *NumError
+		if errors.As(err, &ne) {
+			ne.Quantity = "copper thickness"
+			if errors.Is(ne.Err, ErrUnit) {
+				ne.Err = fmt.Errorf("%w %q (use mm, um, mil or oz)", ErrUnit, u)
+			}
+		}
+		return 0, err
+	}
+	return m, nil
+}
+
+var frequencyUnits = map[string]float64{
+	"hz":  1,
+	"khz": 1e3,
+	"mhz": 1e6,
+	"ghz": 1e9,
+	"thz": 1e12,
+}
+
+// ParseFrequency reads a frequency with its unit (Hz, kHz, MHz, GHz) and
+// returns hertz. Unit case is ignored.
+func ParseFrequency(s string) (float64, error) {
+	v, u, err := split(s)
+	if err != nil {
+		return 0, &NumError{"frequency", s, err}
+	}
+	if u == "" {
+		return 0, &NumError{"frequency", s, fmt.Errorf("%w (for example %gGHz)", ErrNoUnit, v)}
+	}
+	f, ok := frequencyUnits[strings.ToLower(u)]
+	if !ok {
+		return 0, &NumError{"frequency", s, fmt.Errorf("%w %q (use Hz, kHz, MHz or GHz)", ErrUnit, u)}
+	}
+	return v * f, nil
+}
+
+// ParseElectricalLength reads an electrical length in degrees ("90deg",
+// "90°"), wavelengths ("0.25wl", "0.25λ") or radians ("1.571rad") and
+// returns degrees.
+func ParseElectricalLength(s string) (float64, error) {
+	v, u, err := split(s)
+	if err != nil {
+		return 0, &NumError{"electrical length", s, err}
+	}
+	switch strings.ToLower(u) {
+	case "deg", "°", "degrees":
+		return v, nil
+	case "wl", "λ", "lambda":
+		return v * 360, nil
+	case "rad":
+		return v * 180 / math.Pi, nil
+	case "":
+		return 0, &NumError{"electrical length", s, fmt.Errorf("%w (for example %gdeg or %gwl)", ErrNoUnit, v, v)}
+	}
+	return 0, &NumError{"electrical length", s, fmt.Errorf("%w %q (use deg, wl or rad)", ErrUnit, u)}
+}
+
+// ParseImpedance reads a complex impedance in ohms written as "50",
+// "18-j22", "18-22j", "18 + j 22", "18-j22ohm" or "18-j22Ω".
+func ParseImpedance(s string) (complex128, error) {
+	t := strings.Map(func(r rune) rune {
+		if unicode.IsSpace(r) {
+			return -1
+		}
+		return r
+	}, s)
+	for _, suffix := range []string{"ohms", "ohm", "Ω", "Ω"} {
+		t = strings.TrimSuffix(t, suffix)
+	}
+	if t == "" {
+		return 0, &NumError{"impedance", s, ErrSyntax}
+	}
+	// Find the sign that starts the imaginary part: the last + or - that is
+	// not at the start and not part of an exponent.
+	cut := -1
+	for i := len(t) - 1; i > 0; i-- {
+		if (t[i] == '+' || t[i] == '-') && t[i-1] != 'e' && t[i-1] != 'E' {
+			cut = i
+			break
+		}
+	}
+	re, im := t, ""
+	if cut > 0 {
+		re, im = t[:cut], t[cut:]
+	} else if strings.ContainsAny(t, "jJ") {
+		re, im = "", t
+	}
+	var z complex128
+	if re != "" {
+		r, err := strconv.ParseFloat(re, 64)
+		if err != nil {
+			return 0, &NumError{"impedance", s, ErrSyntax}
+		}
+		z += complex(r, 0)
+	}
+	if im != "" {
+		sign := 1.0
+		body := im
+		if body[0] == '+' || body[0] == '-' {
+			if body[0] == '-' {
+				sign = -1
+			}
+			body = body[1:]
+		}
+		switch {
+		case strings.HasPrefix(body, "j") || strings.HasPrefix(body, "J"):
+			body = body[1:]
+		case strings.HasSuffix(body, "j") || strings.HasSuffix(body, "J"):
+			body = body[:len(body)-1]
+		default:
+			return 0, &NumError{"impedance", s, fmt.Errorf("%w: the imaginary part needs a j", ErrSyntax)}
+		}
+		x := 1.0
+		if body != "" {
+			var err error
+			x, err = strconv.ParseFloat(body, 64)
+			if err != nil {
+				return 0, &NumError{"impedance", s, ErrSyntax}
+			}
+		}
+		z += complex(0, sign*x)
+	}
+	if cmplx.IsInf(z) || cmplx.IsNaN(z) {
+		return 0, &NumError{"impedance", s, ErrNotFinit}
+	}
+	return z, nil
+}
+
+// FormatImpedance writes z as "18-j22" with the given number of decimals,
+// the form ParseImpedance reads.
+func FormatImpedance(z complex128, decimals int) string {
+	sign := "+"
+	im := imag(z)
+	if im < 0 || (im == 0 && math.Signbit(im)) {
+		sign = "-"
+		im = -im
+	}
+	return strconv.FormatFloat(real(z), 'f', decimals, 64) + sign + "j" + strconv.FormatFloat(im, 'f', decimals, 64)
+}
