@@ -1,0 +1,315 @@
+package geom
+
+import (
+	"fmt"
+	"math"
+)
+
+// NetRF is the name of the matching network's copper net; NetGround is the
+// name of the ground plane and the vias' far side.
+const (
+	NetRF     = "RF"
+	NetGround = "GND"
+)
+
+// MaxViaPadRatio bounds a via pad's diameter to this many stub widths. A
+// pad much wider than its stub is no longer a small load at the stub's end:
+// the width step and the pad's own capacitance move the short-circuit
+// plane by an amount the via and open-end corrections do not model, and the
+// pad starts to crowd the neighbouring copper. Three widths is common
+// practice, no source.
+const MaxViaPadRatio = 3.0
+
+// KeepOutHeights is the keep-out distance around the RF copper in
+// dielectric heights: other top copper closer than about three heights
+// couples into a microstrip's fringing field. Common practice, no source.
+const KeepOutHeights = 3.0
+
+// Build lays out the network described by s. Every length is rounded once
+// to whole nanometres. A malformed Spec returns a *SpecError and no layout.
+func Build(s Spec) (Layout, error) {
+	if err := check(s); err != nil {
+		return Layout{}, err
+	}
+	n := len(s.Segments)
+
+	// Through line, relative to its centre line y = 0.
+	type seg struct {
+		x0, x1, lo, hi int64
+	}
+	segs := make([]seg, n)
+	var x int64
+	for i, g := range s.Segments {
+		w, l := Nanometres(g.Width), Nanometres(g.Length)
+		segs[i] = seg{x, x + l, -(w / 2), -(w / 2) + w}
+		x += l
+	}
+	boardX := x
+	padW, padL := Nanometres(s.PortPad.Width), Nanometres(s.PortPad.Length)
+	hasPad := padW > 0
+
+	up, down := int64(0), int64(0) // copper extent above and below y = 0
+	for _, g := range segs {
+		up, down = maxI(up, g.hi), maxI(down, -g.lo)
+	}
+	if hasPad {
+		up, down = maxI(up, -(padW/2)+padW), maxI(down, padW/2)
+	}
+
+	type stub struct {
+		r      Rect // drawn copper, from the centre line to the end
+		ref    int64
+		end    int64
+		xs     [2]int64 // x extent including the via pad
+		cx     int64
+		viaY   int64
+		drill  int64
+		viaPad int64
+	}
+	stubs := make([]stub, len(s.Stubs))
+	for k, t := range s.Stubs {
+		w, l := Nanometres(t.Width), Nanometres(t.Length)
+		a, b := segs[t.At], segs[t.At+1]
+		x0 := a.x1 - w/2
+		st := stub{cx: x0 + w/2, xs: [2]int64{x0, x0 + w}}
+		if t.Side > 0 {
+			st.ref = maxI(a.hi, b.hi)
+			st.end = st.ref + l
+			st.r = Rect{Point{x0, 0}, Point{x0 + w, st.end}}
+			up = maxI(up, st.end)
+		} else {
+			st.ref = minI(a.lo, b.lo)
+			st.end = st.ref - l
+			st.r = Rect{Point{x0, st.end}, Point{x0 + w, 0}}
+			down = maxI(down, -st.end)
+		}
+		if t.Via != nil {
+			st.drill, st.viaPad = Nanometres(t.Via.Drill), Nanometres(t.Via.Pad)
+			st.viaY = st.end - int64(t.Side)*(st.viaPad/2)
+			st.xs = [2]int64{minI(x0, st.cx-st.viaPad/2), maxI(x0+w, st.cx-st.viaPad/2+st.viaPad)}
+		}
+		field := fmt.Sprintf("Stubs[%d]", k)
+		// The stub must stay on the two segments that meet at its tee.
+		if st.xs[0] < a.x0 || st.xs[1] > b.x1 {
+			return Layout{}, specErr(field, ErrOverlap,
+				"stub %q (x %s..%s mm) reaches beyond segments %q and %q (x %s..%s mm)",
+				t.ID, mm(st.xs[0]), mm(st.xs[1]), s.Segments[t.At].ID, s.Segments[t.At+1].ID, mm(a.x0), mm(b.x1))
+		}
+		if hasPad && (st.xs[0] < padL || st.xs[1] > boardX-padL) {
+			return Layout{}, specErr(field, ErrOverlap,
+				"stub %q (x %s..%s mm) overlaps a port pad (x 0..%s and %s..%s mm)",
+				t.ID, mm(st.xs[0]), mm(st.xs[1]), mm(padL), mm(boardX-padL), mm(boardX))
+		}
+		for j := 0; j < k; j++ {
+			if s.Stubs[j].Side != t.Side {
+				continue
+			}
+			o := stubs[j]
+			if st.xs[0] <= o.xs[1] && o.xs[0] <= st.xs[1] {
+				return Layout{}, specErr(field, ErrOverlap,
+					"stub %q (x %s..%s mm) overlaps or touches stub %q (x %s..%s mm) on the same side",
+					t.ID, mm(st.xs[0]), mm(st.xs[1]), s.Stubs[j].ID, mm(o.xs[0]), mm(o.xs[1]))
+			}
+		}
+		stubs[k] = st
+	}
+
+	margin := Nanometres(s.Margin)
+	boardY := up + down + 2*margin
+	if mx := Nanometres(s.MaxBoard[0]); mx > 0 && boardX > mx {
+		return Layout{}, specErr("MaxBoard[0]", ErrNoFit,
+			"the through line is %s mm long, the limit is %s mm", mm(boardX), mm(mx))
+	}
+	if my := Nanometres(s.MaxBoard[1]); my > 0 && boardY > my {
+		return Layout{}, specErr("MaxBoard[1]", ErrNoFit,
+			"the board needs %s mm in y (copper %s mm + 2 × %s mm margin), the limit is %s mm; "+
+				"stubs are laid out straight (mitred bends are not implemented): shorten the stubs, "+
+				"put them on both sides or reduce the margin",
+			mm(boardY), mm(up+down), mm(margin), mm(my))
+	}
+
+	// Shift everything so the board's lower-left corner is the origin.
+	yc := margin + down
+	sh := func(r Rect) Rect {
+		r.Min.Y += yc
+		r.Max.Y += yc
+		return r
+	}
+	board := Rect{Point{0, 0}, Point{boardX, boardY}}
+	l := Layout{
+		Name:   s.Name,
+		Board:  board.Polygon(),
+		Ground: board.Polygon(),
+	}
+	l.Marks.CentreY = yc
+	l.Marks.Ports = [2]Point{{0, yc}, {boardX, yc}}
+
+	var copper, mask, keep []Rect
+	for i, g := range segs {
+		r := sh(Rect{Point{g.x0, g.lo}, Point{g.x1, g.hi}})
+		copper = append(copper, r)
+		l.Marks.Elements = append(l.Marks.Elements, Element{s.Segments[i].ID, KindSegment, r})
+	}
+	for k, st := range stubs {
+		t := s.Stubs[k]
+		r := sh(st.r)
+		copper = append(copper, r)
+		ext := r
+		if t.Side > 0 {
+			ext.Min.Y = st.ref + yc
+		} else {
+			ext.Max.Y = st.ref + yc
+		}
+		l.Marks.Elements = append(l.Marks.Elements, Element{t.ID, KindStub, ext})
+		l.Marks.Tees = append(l.Marks.Tees, Tee{
+			StubID: t.ID, Center: Point{st.cx, yc}, RefY: st.ref + yc, EndY: st.end + yc,
+		})
+		if t.Via != nil {
+			c := Point{st.cx, st.viaY + yc}
+			l.Vias = append(l.Vias, Via{Net: NetRF, Center: c, Drill: st.drill, Pad: st.viaPad})
+			l.Pads = append(l.Pads, Pad{Net: NetRF, Function: ViaPad, Center: c, W: st.viaPad, H: st.viaPad, Round: true})
+			sq := Rect{Point{c.X - st.viaPad/2, c.Y - st.viaPad/2}, Point{c.X - st.viaPad/2 + st.viaPad, c.Y - st.viaPad/2 + st.viaPad}}
+			mask = append(mask, sq)
+			keep = append(keep, sq)
+		}
+	}
+	outline := Union(copper)
+	if len(outline) != 1 {
+		return Layout{}, specErr("Segments", ErrOverlap, "the copper is not one simple polygon (%d loops)", len(outline))
+	}
+	l.Copper = []Net{{Name: NetRF, Outline: outline[0]}}
+	mask = append(mask, copper...)
+	keep = append(keep, copper...)
+
+	var padRects []Rect
+	if hasPad {
+		for _, cx := range []int64{padL / 2, boardX - padL + padL/2} {
+			c := Point{cx, yc}
+			l.Pads = append(l.Pads, Pad{Net: NetRF, Function: ComponentPad, Center: c, W: padL, H: padW})
+			padRects = append(padRects, Rect{Point{cx - padL/2, yc - padW/2}, Point{cx - padL/2 + padL, yc - padW/2 + padW}})
+		}
+	}
+	mask = append(mask, padRects...)
+	keep = append(keep, padRects...)
+	if s.Mask == "cover" {
+		mask = padRects
+	}
+	l.MaskOpenings = grownUnion(mask, Nanometres(s.MaskExpansion), board)
+	ko := margin
+	if s.Height > 0 {
+		ko = Nanometres(KeepOutHeights * s.Height)
+	}
+	l.KeepOut = grownUnion(keep, ko, board)
+	return l, nil
+}
+
+// grownUnion grows every rectangle by d, clips it to the board and returns
+// the union.
+func grownUnion(rs []Rect, d int64, board Rect) []Polygon {
+	g := make([]Rect, 0, len(rs))
+	for _, r := range rs {
+		g = append(g, r.Inset(d).Intersect(board))
+	}
+	return Union(g)
+}
+
+// check refuses non-positive or non-finite sizes, stubs at no boundary and
+// vias that do not fit their stub.
+func check(s Spec) error {
+	pos := func(field string, v float64) error {
+		if !(v > 0) || math.IsInf(v, 0) || Nanometres(v) <= 0 {
+			return specErr(field, ErrSize, "%g m", v)
+		}
+		return nil
+	}
+	nonNeg := func(field string, v float64) error {
+		if !(v >= 0) || math.IsInf(v, 0) {
+			return specErr(field, ErrSize, "%g m must be zero or positive", v)
+		}
+		return nil
+	}
+	if len(s.Segments) == 0 {
+		return specErr("Segments", ErrRange, "at least one segment is needed")
+	}
+	for i, g := range s.Segments {
+		f := fmt.Sprintf("Segments[%d]", i)
+		if err := pos(f+".Width", g.Width); err != nil {
+			return err
+		}
+		if err := pos(f+".Length", g.Length); err != nil {
+			return err
+		}
+	}
+	for k, t := range s.Stubs {
+		f := fmt.Sprintf("Stubs[%d]", k)
+		if t.At < 0 || t.At > len(s.Segments)-2 {
+			return specErr(f+".At", ErrRange, "stub %q: At = %d, but the boundaries between %d segments are 0..%d",
+				t.ID, t.At, len(s.Segments), len(s.Segments)-2)
+		}
+		if t.Side != 1 && t.Side != -1 {
+			return specErr(f+".Side", ErrRange, "stub %q: Side = %d, want +1 or -1", t.ID, t.Side)
+		}
+		if err := pos(f+".Width", t.Width); err != nil {
+			return err
+		}
+		if err := pos(f+".Length", t.Length); err != nil {
+			return err
+		}
+		if v := t.Via; v != nil {
+			if err := pos(f+".Via.Drill", v.Drill); err != nil {
+				return err
+			}
+			if err := pos(f+".Via.Pad", v.Pad); err != nil {
+				return err
+			}
+			switch {
+			case v.Pad <= v.Drill:
+				return specErr(f+".Via.Pad", ErrVia, "stub %q: pad %g m is not wider than the drill %g m", t.ID, v.Pad, v.Drill)
+			case v.Pad > MaxViaPadRatio*t.Width:
+				return specErr(f+".Via.Pad", ErrVia, "stub %q: pad %g m exceeds %g × the stub width %g m", t.ID, v.Pad, MaxViaPadRatio, t.Width)
+			case v.Pad > t.Length:
+				return specErr(f+".Via.Pad", ErrVia, "stub %q: pad %g m is longer than the stub %g m and would reach the through line", t.ID, v.Pad, t.Length)
+			}
+		}
+	}
+	p := s.PortPad
+	if p.Width != 0 || p.Length != 0 {
+		if err := pos("PortPad.Width", p.Width); err != nil {
+			return err
+		}
+		if err := pos("PortPad.Length", p.Length); err != nil {
+			return err
+		}
+		var total float64
+		for _, g := range s.Segments {
+			total += g.Length
+		}
+		if 2*p.Length > total {
+			return specErr("PortPad.Length", ErrOverlap, "two port pads of %g m do not fit a %g m line", p.Length, total)
+		}
+	}
+	if err := nonNeg("Margin", s.Margin); err != nil {
+		return err
+	}
+	if err := nonNeg("MaxBoard[0]", s.MaxBoard[0]); err != nil {
+		return err
+	}
+	if err := nonNeg("MaxBoard[1]", s.MaxBoard[1]); err != nil {
+		return err
+	}
+	if err := nonNeg("Height", s.Height); err != nil {
+		return err
+	}
+	if err := nonNeg("MaskExpansion", s.MaskExpansion); err != nil {
+		return err
+	}
+	switch s.Mask {
+	case "", "open", "cover":
+	default:
+		return specErr("Mask", ErrRange, "%q, want \"open\" or \"cover\"", s.Mask)
+	}
+	return nil
+}
+
+// mm formats nanometres as millimetres for error messages.
+func mm(nm int64) string { return FormatMM(nm) }

@@ -1,0 +1,16 @@
+// Package geom lays out one microstrip matching network as board geometry:
+// the through line from the load port to the source port along +x, the
+// shunt stubs, the via pads and drills of shorted stubs, the port pads, the
+// board outline, the ground plane, the solder-mask openings and the
+// keep-out.
+//
+// Build takes a Spec in float64 metres and converts every length once, by
+// rounding, to int64 nanometres; from then on all geometry is exact integer
+// arithmetic, so that the writers in package export can print coordinates
+// as millimetres with six decimals without any floating-point step.
+//
+// The copper of a net is the union of axis-aligned rectangles, computed
+// exactly on the integer grid by a small rectilinear union (see Union).
+// Stubs are straight; a stub that does not fit a board size limit is
+// refused (see ErrNoFit) rather than bent.
+package geom

@@ -1,0 +1,86 @@
+package geom
+
+// Layout is the board geometry of one network, in nanometres, origin at the
+// lower-left corner of the board.
+type Layout struct {
+	Name         string
+	Board        Polygon // board outline, a rectangle
+	Copper       []Net   // top copper, one merged outline per net
+	Pads         []Pad   // flashed top-copper pads
+	Vias         []Via   // plated through holes to the ground plane
+	Ground       Polygon // bottom copper plane
+	MaskOpenings []Polygon
+	KeepOut      []Polygon // where no other copper may go on the top layer
+	Marks        Marks
+}
+
+// Net is the merged top copper of one net: a single simple polygon without
+// holes.
+type Net struct {
+	Name    string
+	Outline Polygon
+}
+
+// Pad functions, named after the Gerber aperture functions they become.
+const (
+	ComponentPad = "ComponentPad"
+	ViaPad       = "ViaPad"
+)
+
+// Pad is a flashed pad: a W×H rectangle, or a circle of diameter W when
+// Round.
+type Pad struct {
+	Net      string
+	Function string // ComponentPad or ViaPad
+	Center   Point
+	W, H     int64
+	Round    bool
+}
+
+// Via is a plated through hole.
+type Via struct {
+	Net    string
+	Center Point
+	Drill  int64 // finished hole diameter, nm
+	Pad    int64 // top pad diameter, nm
+}
+
+// Marks are the positions a drawing dimensions and a report checks.
+type Marks struct {
+	// Ports are the load port (x = 0) and the source port on the through
+	// line's centre line.
+	Ports [2]Point
+	// CentreY is the y of the through line's centre line.
+	CentreY int64
+	// Tees has one entry per stub, in Spec order.
+	Tees []Tee
+	// Elements has the extent of every segment, then every stub, in Spec
+	// order.
+	Elements []Element
+}
+
+// Tee locates one stub.
+type Tee struct {
+	StubID string
+	// Center is where the stub's centre line crosses the through line's
+	// centre line.
+	Center Point
+	// RefY is the y of the through line's edge from which the stub's drawn
+	// length is measured (its reference plane); EndY is the y of the stub's
+	// end.
+	RefY, EndY int64
+}
+
+// Element kinds.
+const (
+	KindSegment = "segment"
+	KindStub    = "stub"
+)
+
+// Element is the rectangle a segment or stub occupies. A stub's rectangle
+// runs from its reference plane to its end.
+type Element struct {
+	ID   string
+	Kind string // KindSegment or KindStub
+	Rect Rect
+}

@@ -1,0 +1,63 @@
+package geom
+
+// Spec describes one matching network to lay out. Lengths are metres.
+type Spec struct {
+	Name string
+	// Segments make the through line, from the load port (x = 0) toward
+	// the source port (+x). The feed lines at the ports are segments too.
+	Segments []Segment
+	// Stubs are the shunt stubs, perpendicular to the through line.
+	Stubs []Stub
+	// PortPad is a rectangular pad flashed at each port end of the through
+	// line; the zero value means none.
+	PortPad PadSpec
+	// Margin is the board margin around the copper in ±y. In x the through
+	// line's ends touch the board edge (edge launch).
+	Margin float64
+	// MaxBoard is an optional board size limit (x, y); 0 means unlimited.
+	MaxBoard [2]float64
+	// Height is the dielectric thickness. It bounds the keep-out (3·Height)
+	// and would size mitred bends.
+	Height float64
+	// Mask is "open" (a solder-mask window over the RF copper, grown by
+	// MaskExpansion) or "cover" (mask over the RF copper; the port pads are
+	// always open). The empty string means "open".
+	Mask          string
+	MaskExpansion float64
+}
+
+// Segment is one piece of the through line.
+type Segment struct {
+	ID     string
+	Width  float64 // across the line (y), m
+	Length float64 // along the line (x), m
+}
+
+// Stub is a shunt stub.
+type Stub struct {
+	ID string
+	// At places the stub's centre line at the boundary after Segments[At];
+	// it must be a boundary between two segments.
+	At    int
+	Width float64 // along x, m
+	// Length is the drawn copper from the through line's edge to the
+	// stub's end, m. The edge is that of the wider of the two segments
+	// that meet at the tee.
+	Length float64
+	Side   int // +1: the stub goes toward +y; −1: toward −y
+	// Via, when not nil, shorts the stub's end to ground.
+	Via *ViaSpec
+}
+
+// ViaSpec is the via at the end of a shorted stub. Its round pad is centred
+// on the stub's centre line with its far edge on the stub's end.
+type ViaSpec struct {
+	Drill float64 // finished hole diameter, m
+	Pad   float64 // pad diameter, m
+}
+
+// PadSpec is a rectangular port pad: Length along the line (x) from the
+// board edge, Width across it (y).
+type PadSpec struct {
+	Width, Length float64
+}
