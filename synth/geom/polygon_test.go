@@ -58,10 +58,10 @@ func TestNanometres(t *testing.T) {
 		m    float64
 		want int64
 	}{
-		{1.8e-3, 1800000},    // exact: 1.8 mm
-		{0.1e-9 * 4, 0},      // rounds down below half a nanometre
-		{25.4e-6, 25400},     // exact: one mil is 25.4 µm
-		{-0.6e-9, -1},        // rounds to nearest, away from zero at .6
+		{1.8e-3, 1800000}, // exact: 1.8 mm
+		{0.1e-9 * 4, 0},   // rounds down below half a nanometre
+		{25.4e-6, 25400},  // exact: one mil is 25.4 µm
+		{-0.6e-9, -1},     // rounds to nearest, away from zero at .6
 		{0.3e-3 + 1e-12, 300000},
 	}
 	for _, tt := range tests {
