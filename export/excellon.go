@@ -1,0 +1,69 @@
+package export
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"strings"
+
+	"stubcraft/synth/geom"
+)
+
+// WriteExcellon writes the plated through holes of the layout as an
+// Excellon drill file, in the IPC-NC-349 conventions that board fabs read:
+// an M48 header with "METRIC,TZ" and a tool table ("T01C0.400"), "%" to end
+// the header, G90 (absolute) and G05 (drill mode), the hits, M30.
+//
+// Every coordinate and tool size is written in millimetres with an explicit
+// decimal point (at least three decimals, trailing zeros beyond them
+// dropped, exact to the nanometre), so the zero-suppression mode stated in
+// the header (TZ: trailing zeros kept) never has to be applied by a reader.
+// Tools are numbered by ascending diameter. The output depends only on the
+// arguments.
+func WriteExcellon(w io.Writer, l geom.Layout, meta Meta) error {
+	var sizes []int64
+	for _, v := range l.Vias {
+		if v.Drill <= 0 {
+			return fmt.Errorf("export: via at %v has drill %d nm", v.Center, v.Drill)
+		}
+		sizes = addSize(sizes, v.Drill)
+	}
+	if len(sizes) > 99 {
+		return fmt.Errorf("export: %d drill sizes, Excellon tools go to T99", len(sizes))
+	}
+	b := bufio.NewWriter(w)
+	p := func(format string, a ...any) { fmt.Fprintf(b, format+"\n", a...) }
+	p("M48")
+	p("; %s %s %s, plated through holes", commentText(Application), commentText(meta.version()), commentText(l.Name))
+	p("; created %s", meta.creationDate())
+	p("FMAT,2")
+	p("METRIC,TZ")
+	for i, d := range sizes {
+		p("T%02dC%s", i+1, drillMM(d))
+	}
+	p("%%")
+	p("G90")
+	p("G05")
+	for i, d := range sizes {
+		p("T%02d", i+1)
+		for _, v := range l.Vias {
+			if v.Drill == d {
+				p("X%sY%s", drillMM(v.Center.X), drillMM(v.Center.Y))
+			}
+		}
+	}
+	p("M30")
+	if err := b.Flush(); err != nil {
+		return fmt.Errorf("export: writing Excellon drill file: %w", err)
+	}
+	return nil
+}
+
+// drillMM prints nanometres as millimetres with at least three decimals.
+func drillMM(nm int64) string {
+	s := geom.FormatMM(nm) // six decimals
+	for k := 0; k < 3 && strings.HasSuffix(s, "0"); k++ {
+		s = s[:len(s)-1]
+	}
+	return s
+}
