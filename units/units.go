@@ -29,8 +29,14 @@ type NumError struct {
 }
 
 func (e *NumError) Error() string {
-	return fmt.Sprintf("cannot read %q as a %s: %v", e.Text, e.Quantity, e.Err)
+	article := "a"
+	if e.Quantity != "" && strings.ContainsRune("aeiou", rune(e.Quantity[0])) {
+		article = "an"
+	}
+	return fmt.Sprintf("cannot read %q as %s %s: %v", e.Text, article, e.Quantity, e.Err)
 }
+
+// Unwrap returns the reason, so that errors.Is(err, ErrUnit) and the like work.
 
 func (e *NumError) Unwrap() error { return e.Err }
 
@@ -66,6 +72,9 @@ func split(s string) (float64, string, error) {
 		return 0, "", ErrSyntax
 	}
 	v, err := strconv.ParseFloat(s[:end], 64)
+	if errors.Is(err, strconv.ErrRange) && math.IsInf(v, 0) {
+		return 0, "", ErrNotFinit
+	}
 	if err != nil {
 		return 0, "", ErrSyntax
 	}
@@ -75,18 +84,34 @@ func split(s string) (float64, string, error) {
 	return v, strings.TrimSpace(s[end:]), nil
 }
 
-var lengthUnits = map[string]float64{
-	"m":    1,
-	"cm":   1e-2,
-	"mm":   1e-3,
-	"um":   1e-6,
-	"µm":   1e-6, // micro sign
-	"μm":   1e-6, // Greek mu
-	"nm":   1e-9,
-	"mil":  25.4e-6,
-	"mils": 25.4e-6,
-	"thou": 25.4e-6,
-	"in":   25.4e-3,
+// lengthUnit returns the size in metres of the length unit u, already in
+// lower case. A switch rather than a map keeps the table read-only.
+func lengthUnit(u string) (float64, bool) {
+	switch u {
+	case "m":
+		return 1, true
+	case "cm":
+		return 1e-2, true
+	case "mm":
+		return 1e-3, true
+	case "um", "µm", "μm": // ASCII, micro sign, Greek mu
+		return 1e-6, true
+	case "nm":
+		return 1e-9, true
+	case "mil", "mils", "thou":
+		return 25.4e-6, true
+	case "in":
+		return 25.4e-3, true
+	}
+	return 0, false
+}
+
+// finite reports an overflow of value × unit as a NumError.
+func finite(quantity, text string, v float64) (float64, error) {
+	if math.IsInf(v, 0) || math.IsNaN(v) {
+		return 0, &NumError{quantity, text, ErrNotFinit}
+	}
+	return v, nil
 }
 
 // ParseLength reads a length with its unit (m, cm, mm, um, µm, nm, mil, in)
@@ -100,14 +125,14 @@ func ParseLength(s string) (float64, error) {
 	if u == "" {
 		return 0, &NumError{"length", s, fmt.Errorf("%w (for example %gmm)", ErrNoUnit, v)}
 	}
-	f, ok := lengthUnits[strings.ToLower(u)]
+	f, ok := lengthUnit(strings.ToLower(u))
 	if !ok {
-		f, ok = lengthUnits[u]
+		f, ok = lengthUnit(u)
 	}
 	if !ok {
 		return 0, &NumError{"length", s, fmt.Errorf("%w %q (use m, mm, um, mil or in)", ErrUnit, u)}
 	}
-	return v * f, nil
+	return finite("length", s, v*f)
 }
 
 // ParseCopperThickness reads a copper thickness as a length or as a foil
@@ -118,7 +143,7 @@ func ParseCopperThickness(s string) (float64, error) {
 		return 0, &NumError{"copper thickness", s, err}
 	}
 	if strings.EqualFold(u, "oz") {
-		return v * CopperOunceThickness, nil
+		return finite("copper thickness", s, v*CopperOunceThickness)
 	}
 	m, err := ParseLength(s)
 	if err != nil {
@@ -134,12 +159,22 @@ func ParseCopperThickness(s string) (float64, error) {
 	return m, nil
 }
 
-var frequencyUnits = map[string]float64{
-	"hz":  1,
-	"khz": 1e3,
-	"mhz": 1e6,
-	"ghz": 1e9,
-	"thz": 1e12,
+// frequencyUnit returns the size in hertz of the frequency unit u, already
+// in lower case.
+func frequencyUnit(u string) (float64, bool) {
+	switch u {
+	case "hz":
+		return 1, true
+	case "khz":
+		return 1e3, true
+	case "mhz":
+		return 1e6, true
+	case "ghz":
+		return 1e9, true
+	case "thz":
+		return 1e12, true
+	}
+	return 0, false
 }
 
 // ParseFrequency reads a frequency with its unit (Hz, kHz, MHz, GHz) and
@@ -152,11 +187,11 @@ func ParseFrequency(s string) (float64, error) {
 	if u == "" {
 		return 0, &NumError{"frequency", s, fmt.Errorf("%w (for example %gGHz)", ErrNoUnit, v)}
 	}
-	f, ok := frequencyUnits[strings.ToLower(u)]
+	f, ok := frequencyUnit(strings.ToLower(u))
 	if !ok {
 		return 0, &NumError{"frequency", s, fmt.Errorf("%w %q (use Hz, kHz, MHz or GHz)", ErrUnit, u)}
 	}
-	return v * f, nil
+	return finite("frequency", s, v*f)
 }
 
 // ParseElectricalLength reads an electrical length in degrees ("90deg",
@@ -171,17 +206,37 @@ func ParseElectricalLength(s string) (float64, error) {
 	case "deg", "°", "degrees":
 		return v, nil
 	case "wl", "λ", "lambda":
-		return v * 360, nil
+		return finite("electrical length", s, v*360)
 	case "rad":
-		return v * 180 / math.Pi, nil
+		return finite("electrical length", s, v*(180/math.Pi))
 	case "":
 		return 0, &NumError{"electrical length", s, fmt.Errorf("%w (for example %gdeg or %gwl)", ErrNoUnit, v, v)}
 	}
 	return 0, &NumError{"electrical length", s, fmt.Errorf("%w %q (use deg, wl or rad)", ErrUnit, u)}
 }
 
+// decimal reads a plain decimal number such as "18", "-2.5" or "1e-3". It
+// refuses what strconv.ParseFloat would also take but a board designer does
+// not write: hexadecimal, underscores, "inf" and "nan".
+func decimal(s string) (float64, error) {
+	if s == "" || strings.IndexFunc(s, func(r rune) bool {
+		return !strings.ContainsRune("0123456789.eE+-", r)
+	}) >= 0 {
+		return 0, ErrSyntax
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if errors.Is(err, strconv.ErrRange) && math.IsInf(v, 0) {
+		return 0, ErrNotFinit
+	}
+	if err != nil {
+		return 0, ErrSyntax
+	}
+	return v, nil
+}
+
 // ParseImpedance reads a complex impedance in ohms written as "50",
-// "18-j22", "18-22j", "18 + j 22", "18-j22ohm" or "18-j22Ω".
+// "18-j22", "18-22j", "18 + j 22", "18-j22ohm" or "18-j22Ω". A j without a
+// number stands for j1, as in "18+j".
 func ParseImpedance(s string) (complex128, error) {
 	t := strings.Map(func(r rune) rune {
 		if unicode.IsSpace(r) {
@@ -212,9 +267,9 @@ func ParseImpedance(s string) (complex128, error) {
 	}
 	var z complex128
 	if re != "" {
-		r, err := strconv.ParseFloat(re, 64)
+		r, err := decimal(re)
 		if err != nil {
-			return 0, &NumError{"impedance", s, ErrSyntax}
+			return 0, &NumError{"impedance", s, err}
 		}
 		z += complex(r, 0)
 	}
@@ -238,9 +293,9 @@ func ParseImpedance(s string) (complex128, error) {
 		x := 1.0
 		if body != "" {
 			var err error
-			x, err = strconv.ParseFloat(body, 64)
+			x, err = decimal(body)
 			if err != nil {
-				return 0, &NumError{"impedance", s, ErrSyntax}
+				return 0, &NumError{"impedance", s, err}
 			}
 		}
 		z += complex(0, sign*x)

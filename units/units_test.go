@@ -1,0 +1,288 @@
+package units
+
+import (
+	"errors"
+	"math"
+	"math/cmplx"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// closeTo reports whether got equals want to within a few units in the last
+// place: the parsers multiply a decimal by a unit factor, and the product
+// and the decimal literal of the exact answer may round differently.
+func closeTo(got, want float64) bool {
+	if got == want {
+		return true
+	}
+	return math.Abs(got-want) <= 4e-16*math.Abs(want)
+}
+
+// parser adapts the real-valued parsers to one signature for the tables.
+type parser struct {
+	name string
+	fn   func(string) (float64, error)
+}
+
+// parsers returns the four real-valued parsers, named for messages.
+func parsers() (length, copper, frequency, electrical parser) {
+	return parser{"ParseLength", ParseLength},
+		parser{"ParseCopperThickness", ParseCopperThickness},
+		parser{"ParseFrequency", ParseFrequency},
+		parser{"ParseElectricalLength", ParseElectricalLength}
+}
+
+func TestParseGood(t *testing.T) {
+	length, copper, frequency, electrical := parsers()
+	tests := []struct {
+		p      parser
+		in     string
+		want   float64
+		source string
+	}{
+		{frequency, "2.45GHz", 2.45e9, "SI prefix giga = 1e9 (BIPM SI Brochure, 9th ed.)"},
+		{frequency, "2.45 GHz", 2.45e9, "SI prefix giga; space before the unit"},
+		{frequency, "2.45ghz", 2.45e9, "SI prefix giga; case ignored by design (doc comment)"},
+		{frequency, "100MHz", 100e6, "SI prefix mega = 1e6"},
+		{frequency, "10kHz", 1e4, "SI prefix kilo = 1e3"},
+		{frequency, "50Hz", 50, "hertz"},
+		{frequency, "1THz", 1e12, "SI prefix tera = 1e12"},
+		{frequency, "1e-3GHz", 1e6, "SI prefix giga, exponent form"},
+		{length, "0.8mm", 0.8e-3, "SI prefix milli = 1e-3"},
+		{length, "35um", 35e-6, "SI prefix micro = 1e-6, ASCII u"},
+		{length, "35µm", 35e-6, "SI prefix micro, U+00B5 micro sign"},
+		{length, "35μm", 35e-6, "SI prefix micro, U+03BC Greek mu"},
+		{length, "20mil", 508e-6, "1 mil = 0.001 in = 25.4 µm exactly (international inch, 1959)"},
+		{length, "20 mils", 508e-6, "1 mil = 25.4 µm exactly"},
+		{length, "1in", 25.4e-3, "1 in = 25.4 mm exactly (international inch, 1959)"},
+		{length, "1.5cm", 15e-3, "SI prefix centi = 1e-2"},
+		{length, "500nm", 500e-9, "SI prefix nano = 1e-9"},
+		{length, "1e-3m", 1e-3, "metre, exponent form"},
+		{length, "1.5e+2mm", 0.15, "SI prefix milli, signed exponent"},
+		{length, "1E2mm", 0.1, "SI prefix milli, capital exponent"},
+		{length, " 0.8 mm ", 0.8e-3, "SI prefix milli; surrounding space ignored"},
+		{length, "2MM", 2e-3, "SI prefix milli; unit case ignored by design (doc comment)"},
+		{copper, "35um", 35e-6, "SI prefix micro"},
+		{copper, "1oz", 34.8e-6, "1 oz/ft² foil = 1.37 mil = 34.8 µm (IPC-4562 nominal, from memory)"},
+		{copper, "0.5oz", 17.4e-6, "half of 34.8 µm (IPC-4562 nominal, from memory)"},
+		{copper, "2 OZ", 69.6e-6, "twice 34.8 µm; unit case ignored"},
+		{copper, "1.4mil", 35.56e-6, "1 mil = 25.4 µm exactly"},
+		{electrical, "90deg", 90, "degrees as given"},
+		{electrical, "90°", 90, "degrees as given, degree sign"},
+		{electrical, "0.25wl", 90, "one wavelength is 360° (exact)"},
+		{electrical, "0.25λ", 90, "one wavelength is 360° (exact)"},
+		{electrical, "0.125 lambda", 45, "one wavelength is 360° (exact)"},
+		{electrical, "3.141592653589793rad", 180, "π rad = 180° (exact)"},
+		{electrical, "-45deg", -45, "degrees as given; sign kept"},
+	}
+	for _, tt := range tests {
+		got, err := tt.p.fn(tt.in)
+		if err != nil {
+			t.Errorf("%s(%q): %v (want %g; %s)", tt.p.name, tt.in, err, tt.want, tt.source)
+			continue
+		}
+		if !closeTo(got, tt.want) {
+			t.Errorf("%s(%q) = %.17g, want %.17g (%s)", tt.p.name, tt.in, got, tt.want, tt.source)
+		}
+	}
+}
+
+func TestParseBad(t *testing.T) {
+	length, copper, frequency, electrical := parsers()
+	tests := []struct {
+		p    parser
+		in   string
+		want error // the reason carried in NumError.Err
+	}{
+		{length, "", ErrSyntax},
+		{length, "mm", ErrSyntax},
+		{length, "3", ErrNoUnit},
+		{length, "3 furlongs", ErrUnit},
+		{length, "NaN mm", ErrSyntax},
+		{length, "Inf mm", ErrSyntax},
+		{length, "1e999mm", ErrNotFinit},
+		{length, "-1e999mm", ErrNotFinit},
+		{length, "1.2.3mm", ErrSyntax},
+		{length, "0x10mm", ErrUnit},
+		{length, "2.45GHz", ErrUnit},
+		{length, "1oz", ErrUnit},
+		{copper, "", ErrSyntax},
+		{copper, "1", ErrNoUnit},
+		{copper, "1 pound", ErrUnit},
+		{copper, "1e999oz", ErrNotFinit},
+		{frequency, "", ErrSyntax},
+		{frequency, "GHz", ErrSyntax},
+		{frequency, "3", ErrNoUnit},
+		{frequency, "3 furlongs", ErrUnit},
+		{frequency, "NaN GHz", ErrSyntax},
+		{frequency, "1e999GHz", ErrNotFinit},
+		{frequency, "1e300THz", ErrNotFinit}, // the number is finite, the product is not
+		{frequency, "0.8mm", ErrUnit},
+		{electrical, "", ErrSyntax},
+		{electrical, "90", ErrNoUnit},
+		{electrical, "90 furlongs", ErrUnit},
+		{electrical, "NaN deg", ErrSyntax},
+		{electrical, "1e999deg", ErrNotFinit},
+		{electrical, "1e307wl", ErrNotFinit},
+		{electrical, "1e307rad", ErrNotFinit},
+	}
+	for _, tt := range tests {
+		got, err := tt.p.fn(tt.in)
+		if err == nil {
+			t.Errorf("%s(%q) = %g, want an error", tt.p.name, tt.in, got)
+			continue
+		}
+		checkNumError(t, tt.p.name, tt.in, err, tt.want)
+	}
+}
+
+// checkNumError checks that err is a *NumError naming the text in, whose
+// reason is want, and whose message quotes the text.
+func checkNumError(t *testing.T, name, in string, err, want error) {
+	t.Helper()
+	var ne *NumError
+	if !errors.As(err, &ne) {
+		t.Errorf("%s(%q): error %v is a %T, want *NumError", name, in, err, err)
+		return
+	}
+	if ne.Text != in {
+		t.Errorf("%s(%q): NumError.Text = %q", name, in, ne.Text)
+	}
+	if !errors.Is(err, want) {
+		t.Errorf("%s(%q): error %q, want reason %q", name, in, err, want)
+	}
+	if !strings.Contains(err.Error(), strconv.Quote(in)) {
+		t.Errorf("%s(%q): message %q does not quote the text", name, in, err)
+	}
+}
+
+func TestNumErrorMessage(t *testing.T) {
+	tests := []struct {
+		err  *NumError
+		want string
+	}{
+		{&NumError{"length", "3", ErrNoUnit}, `cannot read "3" as a length: a unit is needed`},
+		{&NumError{"impedance", "x", ErrSyntax}, `cannot read "x" as an impedance: not a number`},
+		{&NumError{"electrical length", "", ErrSyntax}, `cannot read "" as an electrical length: not a number`},
+	}
+	for _, tt := range tests {
+		if got := tt.err.Error(); got != tt.want {
+			t.Errorf("Error() = %q, want %q", got, tt.want)
+		}
+	}
+}
+
+func TestParseImpedanceGood(t *testing.T) {
+	tests := []struct {
+		in   string
+		want complex128 // each row: the complex number as written (exact)
+	}{
+		{"18-j22", complex(18, -22)},
+		{"18-22j", complex(18, -22)},
+		{"18 + j 22", complex(18, 22)},
+		{"18+j22", complex(18, 22)},
+		{"18+22J", complex(18, 22)},
+		{"50", complex(50, 0)},
+		{"-j5", complex(0, -5)},
+		{"j5", complex(0, 5)},
+		{"5j", complex(0, 5)},
+		{"-5j", complex(0, -5)},
+		{"+j5", complex(0, 5)},
+		{"-18-j22", complex(-18, -22)},
+		{"18+j", complex(18, 1)}, // a bare j is j1 (doc comment)
+		{"1e-3+j1e-3", complex(1e-3, 1e-3)},
+		{"1e+3-j1e+3", complex(1e3, -1e3)},
+		{"1.5e2-j2.5E-1", complex(150, -0.25)},
+		{"18-j22ohm", complex(18, -22)},
+		{"18-j22 ohms", complex(18, -22)},
+		{"18-j22Ω", complex(18, -22)}, // U+03A9 Greek capital omega
+		{"18-j22Ω", complex(18, -22)}, // U+2126 ohm sign
+		{"50 Ω", complex(50, 0)},
+	}
+	for _, tt := range tests {
+		got, err := ParseImpedance(tt.in)
+		if err != nil {
+			t.Errorf("ParseImpedance(%q): %v", tt.in, err)
+			continue
+		}
+		if got != tt.want {
+			t.Errorf("ParseImpedance(%q) = %v, want %v", tt.in, got, tt.want)
+		}
+	}
+}
+
+func TestParseImpedanceBad(t *testing.T) {
+	tests := []struct {
+		in   string
+		want error
+	}{
+		{"", ErrSyntax},
+		{"   ", ErrSyntax},
+		{"ohm", ErrSyntax},
+		{"18-k22", ErrSyntax},
+		{"18+5", ErrSyntax},
+		{"18--j22", ErrSyntax},
+		{"18-j-22", ErrSyntax},
+		{"j5j", ErrSyntax},
+		{"18e-j", ErrSyntax},
+		{"-", ErrSyntax},
+		{"NaN", ErrSyntax},
+		{"Inf", ErrSyntax},
+		{"18-jinf", ErrSyntax},
+		{"0x12", ErrSyntax},
+		{"1e999", ErrNotFinit},
+		{"18-j1e999", ErrNotFinit},
+		{"1e999j", ErrNotFinit},
+	}
+	for _, tt := range tests {
+		got, err := ParseImpedance(tt.in)
+		if err == nil {
+			t.Errorf("ParseImpedance(%q) = %v, want an error", tt.in, got)
+			continue
+		}
+		checkNumError(t, "ParseImpedance", tt.in, err, tt.want)
+	}
+}
+
+func TestFormatImpedance(t *testing.T) {
+	tests := []struct {
+		z        complex128
+		decimals int
+		want     string // the "18-j22" form of the doc comment
+	}{
+		{complex(18, -22), 1, "18.0-j22.0"},
+		{complex(18, 22), 0, "18+j22"},
+		{complex(50, 0), 2, "50.00+j0.00"},
+		{complex(50, math.Copysign(0, -1)), 0, "50-j0"},
+		{complex(-3.25, 1.5), 2, "-3.25+j1.50"},
+	}
+	for _, tt := range tests {
+		if got := FormatImpedance(tt.z, tt.decimals); got != tt.want {
+			t.Errorf("FormatImpedance(%v, %d) = %q, want %q", tt.z, tt.decimals, got, tt.want)
+		}
+	}
+}
+
+func TestFormatImpedanceRoundTrip(t *testing.T) {
+	zs := []complex128{
+		complex(18, -22), complex(50, 0), complex(0, -5), complex(1e-3, 1e3),
+		complex(-7.125, 0.5), complex(123.456789, -987.654321), complex(1e6, -1e-6),
+	}
+	for _, z := range zs {
+		for _, dec := range []int{0, 3, 6} {
+			s := FormatImpedance(z, dec)
+			got, err := ParseImpedance(s)
+			if err != nil {
+				t.Errorf("ParseImpedance(FormatImpedance(%v, %d) = %q): %v", z, dec, s, err)
+				continue
+			}
+			// Rounding to dec decimals moves each part by at most half a unit
+			// in the last written place (exact bound of decimal rounding).
+			tol := 0.5*math.Pow(10, -float64(dec)) + 1e-9*cmplx.Abs(z)
+			if math.Abs(real(got)-real(z)) > tol || math.Abs(imag(got)-imag(z)) > tol {
+				t.Errorf("round trip of %v with %d decimals: %q read back as %v", z, dec, s, got)
+			}
+		}
+	}
+}
