@@ -242,3 +242,5 @@ func BenchmarkLineCascade(b *testing.B) {
 		_ = a.S(50)
 	}
 }
+
+func complexInf() complex128 { return cmplx.Inf() }
