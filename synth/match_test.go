@@ -33,12 +33,12 @@ func TestSolveShuntStubPozarExample(t *testing.T) {
 	}
 }
 
-// abcd is the test's own 2×2 complex chain matrix, written apart from the
+// matchABCD is the test's own 2×2 complex chain matrix, written apart from the
 // production code so that the closure check below is independent of it.
-type abcd [2][2]complex128
+type matchABCD [2][2]complex128
 
-func (m abcd) mul(n abcd) abcd {
-	var p abcd
+func (m matchABCD) mul(n matchABCD) matchABCD {
+	var p matchABCD
 	for i := 0; i < 2; i++ {
 		for j := 0; j < 2; j++ {
 			p[i][j] = m[i][0]*n[0][j] + m[i][1]*n[1][j]
@@ -47,31 +47,31 @@ func (m abcd) mul(n abcd) abcd {
 	return p
 }
 
-// tline is a lossless line of impedance z and electrical length deg
+// matchTLine is a lossless line of impedance z and electrical length deg
 // (the textbook chain matrix: cos θ, jZ sin θ; j sin θ / Z, cos θ; exact).
-func tline(z, deg float64) abcd {
+func matchTLine(z, deg float64) matchABCD {
 	th := deg * math.Pi / 180
 	zc := complex(z, 0)
-	return abcd{
+	return matchABCD{
 		{complex(math.Cos(th), 0), complex(0, math.Sin(th)) * zc},
 		{complex(0, math.Sin(th)) / zc, complex(math.Cos(th), 0)},
 	}
 }
 
-// shuntY is a shunt admittance (exact).
-func shuntY(y complex128) abcd { return abcd{{1, 0}, {y, 1}} }
+// matchShuntY is a shunt admittance (exact).
+func matchShuntY(y complex128) matchABCD { return matchABCD{{1, 0}, {y, 1}} }
 
-// stubY returns a stub's input admittance from its own chain matrix: an
+// matchStubY returns a stub's input admittance from its own chain matrix: an
 // open end gives Zin = A/C, a short Zin = B/D.
-func stubY(z, deg float64, end StubEnd) complex128 {
-	m := tline(z, deg)
+func matchStubY(z, deg float64, end StubEnd) complex128 {
+	m := matchTLine(z, deg)
 	if end == Open {
 		return m[1][0] / m[0][0]
 	}
 	return m[1][1] / m[0][1]
 }
 
-func inputGamma(m abcd, zLoad complex128, z0 float64) float64 {
+func matchInputGamma(m matchABCD, zLoad complex128, z0 float64) float64 {
 	zin := (m[0][0]*zLoad + m[0][1]) / (m[1][0]*zLoad + m[1][1])
 	return cmplx.Abs((zin - complex(z0, 0)) / (zin + complex(z0, 0)))
 }
@@ -114,8 +114,8 @@ func TestSolveShuntStubClosure(t *testing.T) {
 				if !(s.LineDeg > 0 && s.LineDeg <= 180 && s.StubDeg > 0 && s.StubDeg <= 180) {
 					t.Errorf("%s, %v, solution %d: lengths %g°, %g° outside (0, 180]", c.name, end, i+1, s.LineDeg, s.StubDeg)
 				}
-				m := shuntY(stubY(c.stubZ0, s.StubDeg, end)).mul(tline(c.lineZ0, s.LineDeg))
-				if g := inputGamma(m, c.zl, c.z0); !(g < 1e-9) {
+				m := matchShuntY(matchStubY(c.stubZ0, s.StubDeg, end)).mul(matchTLine(c.lineZ0, s.LineDeg))
+				if g := matchInputGamma(m, c.zl, c.z0); !(g < 1e-9) {
 					t.Errorf("%s, %v, solution %d (%+v): |Γin| = %.3g, want < 1e-9", c.name, end, i+1, s, g)
 				}
 			}

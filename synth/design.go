@@ -1,0 +1,185 @@
+package synth
+
+import (
+	"fmt"
+	"path/filepath"
+	"strconv"
+	"strings"
+)
+
+// Design is a decoded design file: what is to be matched, at what
+// frequency, on which board, and how the rest of the pipeline is to lay
+// out, check and sweep it. Every quantity is SI (Hz, ohm, m) and every
+// tolerance a fraction (0.05 for "5%"). Exactly one of Match and Sections
+// says what the network is.
+type Design struct {
+	Name    string  // design name, for artefact titles
+	Freq    float64 // design frequency, Hz
+	Z0      float64 // reference impedance of the feed lines and the source, ohm
+	Stackup string  // stackup preset name or path, as written (see StackupRef)
+	Load    LoadSpec
+
+	// Match asks for a single-shunt-stub solution; nil when Sections
+	// gives the network explicitly.
+	Match *MatchSpec
+	// Sections is an explicit electrical network, from the load toward
+	// the source; nil when Match is set.
+	Sections []Section
+
+	Layout    LayoutSpec
+	Fab       FabSpec
+	Sweep     SweepSpec
+	Tolerance ToleranceSpec
+
+	Source string // the file's name for messages, as given to DecodeDesign
+	Dir    string // the directory of the design file; relative paths start there
+
+	// lines and values remember where each key was written and how, so
+	// that Validate can point at it. Read only after decoding.
+	lines  map[string]int
+	values map[string]string
+}
+
+// LoadSpec is the load to be matched: a fixed impedance, or a one-port
+// Touchstone file when Touchstone is not empty.
+type LoadSpec struct {
+	Impedance  complex128 // ohm, used when Touchstone is ""
+	Touchstone string     // path of an .s1p file, resolved against Design.Dir
+}
+
+// MatchSpec asks for a matching network to be solved at the design
+// frequency.
+type MatchSpec struct {
+	Topology string  // "shunt-stub", the only one for now (see Topologies)
+	End      StubEnd // stub termination
+	Pick     string  // "shortest", "1" or "2", as read by Pick
+	StubZ0   float64 // stub impedance, ohm (default: the design z0)
+	LineZ0   float64 // series line impedance, ohm (default: the design z0)
+}
+
+// Topologies returns the matching topologies a MatchSpec may name.
+func Topologies() []string { return []string{"shunt-stub"} }
+
+// SectionKind says what a Section is.
+type SectionKind int
+
+// Section kinds. The zero value is no kind, so a forgotten kind is noticed.
+const (
+	SeriesLine SectionKind = iota + 1 // a length of line in series
+	ShuntStub                         // a stub to ground in shunt at this point
+)
+
+// String returns "line" or "stub", the words of a design file.
+func (k SectionKind) String() string {
+	switch k {
+	case SeriesLine:
+		return "line"
+	case ShuntStub:
+		return "stub"
+	}
+	return "SectionKind(" + strconv.Itoa(int(k)) + ")"
+}
+
+// ParseSectionKind reads "line" or "stub".
+func ParseSectionKind(s string) (SectionKind, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "line":
+		return SeriesLine, nil
+	case "stub":
+		return ShuntStub, nil
+	}
+	return 0, fmt.Errorf("unknown section kind %q (use line or stub)", s)
+}
+
+// Section is one element of an electrical network: a series line, or a
+// shunt stub with its termination.
+type Section struct {
+	Kind      SectionKind
+	End       StubEnd // stub termination; 0 for a line
+	Z0        float64 // characteristic impedance, ohm
+	LengthDeg float64 // electrical length at the design frequency, degrees
+}
+
+// LayoutSpec says how the copper is to be drawn.
+type LayoutSpec struct {
+	FeedLength float64    // feed line at each port, m
+	StubSide   string     // "up" or "down": the side of the through line the stub goes
+	Margin     float64    // board margin around the copper, m
+	Mask       string     // "open": a solder-mask window over the RF copper; "cover"
+	MaxBoard   [2]float64 // largest board, width and height, m; zero: no limit
+	ViaDrill   float64    // drill of the via of a shorted stub, m
+	ViaPad     float64    // pad around that via, m
+}
+
+// FabSpec holds the board maker's limits.
+type FabSpec struct {
+	MinWidth float64 // narrowest track, m
+}
+
+// SweepSpec is the frequency sweep of the reports.
+type SweepSpec struct {
+	Start, Stop float64 // Hz
+	Points      int
+	Span        float64 // fraction of the design frequency each side, when given as a span; 0 otherwise
+}
+
+// ToleranceSpec is the Monte Carlo yield analysis: how many boards to draw
+// and the spread of each quantity, as one standard deviation.
+type ToleranceSpec struct {
+	Samples   int     // boards drawn; 0 turns the analysis off
+	Seed      int64   // random seed, for repeatable runs
+	Er        float64 // relative spread of the permittivity (0.05 = 5 %)
+	Thickness float64 // relative spread of the dielectric thickness
+	Width     float64 // absolute spread of the etched width, m
+	Copper    float64 // relative spread of the copper thickness
+}
+
+// Defaults of the optional tables (common practice, no source: values a
+// small board house commonly quotes).
+
+// DefaultLayout returns the layout used when a design file has none.
+func DefaultLayout() LayoutSpec {
+	return LayoutSpec{FeedLength: 5e-3, StubSide: "up", Margin: 5e-3, Mask: "open", ViaDrill: 0.3e-3, ViaPad: 0.6e-3}
+}
+
+// DefaultFab returns the board maker's limits used when a design file
+// gives none.
+func DefaultFab() FabSpec { return FabSpec{MinWidth: 0.15e-3} }
+
+// DefaultSweepSpan is the sweep span, each side of the design frequency,
+// used when a design file gives no sweep.
+const DefaultSweepSpan = 0.3
+
+// DefaultSweepPoints is the number of sweep points used when a design file
+// gives none.
+const DefaultSweepPoints = 401
+
+// DefaultSweep returns the sweep used around freqHz when a design file
+// gives none: ±30 %, 401 points.
+func DefaultSweep(freqHz float64) SweepSpec {
+	return SweepSpec{
+		Start:  freqHz * (1 - DefaultSweepSpan),
+		Stop:   freqHz * (1 + DefaultSweepSpan),
+		Points: DefaultSweepPoints,
+		Span:   DefaultSweepSpan,
+	}
+}
+
+// DefaultTolerance returns the tolerance analysis used when a design file
+// gives none.
+func DefaultTolerance() ToleranceSpec {
+	return ToleranceSpec{Samples: 1000, Seed: 1, Er: 0.05, Thickness: 0.10, Width: 20e-6, Copper: 0.10}
+}
+
+// StackupRef returns the stackup reference to load: a preset name as
+// written, or a path (one that ends in ".toml" or holds a path separator)
+// resolved against Dir when relative.
+func (d Design) StackupRef() string {
+	s := d.Stackup
+	if strings.HasSuffix(strings.ToLower(s), ".toml") || strings.ContainsAny(s, `/\`) {
+		if !filepath.IsAbs(s) && d.Dir != "" {
+			return filepath.Join(d.Dir, s)
+		}
+	}
+	return s
+}

@@ -1,0 +1,443 @@
+package synth
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"path/filepath"
+	"reflect"
+	"strconv"
+	"strings"
+
+	"github.com/BurntSushi/toml"
+
+	"stubcraft/units"
+)
+
+// The file as the TOML reader sees it. Leaf values are `any` so that a
+// value of the wrong kind is reported by this package, with its key and
+// line, in the same words as every other fault.
+type designRaw struct {
+	Name      any                 `toml:"name"`
+	Frequency any                 `toml:"frequency"`
+	Z0        any                 `toml:"z0"`
+	Stackup   any                 `toml:"stackup"`
+	Load      *designRawLoad      `toml:"load"`
+	Match     *designRawMatch     `toml:"match"`
+	Section   []designRawSection  `toml:"section"`
+	Layout    *designRawLayout    `toml:"layout"`
+	Fab       *designRawFab       `toml:"fab"`
+	Sweep     *designRawSweep     `toml:"sweep"`
+	Tolerance *designRawTolerance `toml:"tolerance"`
+}
+
+type designRawLoad struct {
+	Impedance  any `toml:"impedance"`
+	Touchstone any `toml:"touchstone"`
+}
+
+type designRawMatch struct {
+	Topology any `toml:"topology"`
+	Stub     any `toml:"stub"`
+	Pick     any `toml:"pick"`
+	StubZ0   any `toml:"stub_z0"`
+	LineZ0   any `toml:"line_z0"`
+}
+
+type designRawSection struct {
+	Kind   any `toml:"kind"`
+	End    any `toml:"end"`
+	Z0     any `toml:"z0"`
+	Length any `toml:"length"`
+}
+
+type designRawLayout struct {
+	FeedLength any `toml:"feed_length"`
+	StubSide   any `toml:"stub_side"`
+	Margin     any `toml:"margin"`
+	Mask       any `toml:"mask"`
+	MaxBoard   any `toml:"max_board"`
+	ViaDrill   any `toml:"via_drill"`
+	ViaPad     any `toml:"via_pad"`
+}
+
+type designRawFab struct {
+	MinWidth any `toml:"min_width"`
+}
+
+type designRawSweep struct {
+	Span   any `toml:"span"`
+	Start  any `toml:"start"`
+	Stop   any `toml:"stop"`
+	Points any `toml:"points"`
+}
+
+type designRawTolerance struct {
+	Samples   any `toml:"samples"`
+	Seed      any `toml:"seed"`
+	Er        any `toml:"er"`
+	Thickness any `toml:"thickness"`
+	Width     any `toml:"width"`
+	Copper    any `toml:"copper"`
+}
+
+// DecodeDesign reads a design file. source names it in error messages
+// (usually the file name as the user typed it) and dir is the directory
+// that relative paths in it start from. Unknown keys are errors. Every
+// error is a *DesignError. The design returned has passed Validate.
+func DecodeDesign(r io.Reader, source, dir string) (Design, error) {
+	b, err := io.ReadAll(r)
+	if err != nil {
+		return Design{}, &DesignError{Source: source, Err: fmt.Errorf("reading the design: %w", err)}
+	}
+	text := string(b)
+	var raw designRaw
+	md, err := toml.Decode(text, &raw)
+	if err != nil {
+		return Design{}, designDecodeFailure(source, err)
+	}
+	lines := designScanKeys(text)
+	if und := md.Undecoded(); len(und) > 0 {
+		k := und[0]
+		return Design{}, &DesignError{
+			Source: source,
+			Line:   designFindLine(lines, k),
+			Key:    designIndexedPath(lines, k),
+			Err:    fmt.Errorf("%w (%s)", ErrUnknownKey, designKnownKeys(k)),
+		}
+	}
+	dd := &designDecoder{source: source, lines: lines, values: map[string]string{}}
+	d := dd.design(&raw, dir)
+	if dd.err != nil {
+		return Design{}, dd.err
+	}
+	d.lines, d.values = lines, dd.values
+	if err := d.Validate(); err != nil {
+		return Design{}, err
+	}
+	return d, nil
+}
+
+// designKnownKeys says which keys the table of an unknown key takes.
+func designKnownKeys(k toml.Key) string {
+	t := reflect.TypeOf(designRaw{})
+	table := "the top level"
+	for _, part := range k[:len(k)-1] {
+		f, ok := designField(t, part)
+		if !ok {
+			return "not a table of a design file"
+		}
+		t = f.Type
+		for t.Kind() == reflect.Pointer || t.Kind() == reflect.Slice {
+			t = t.Elem()
+		}
+		table = "[" + part + "]"
+	}
+	if t.Kind() != reflect.Struct {
+		return "not a table of a design file"
+	}
+	var names []string
+	for i := 0; i < t.NumField(); i++ {
+		names = append(names, t.Field(i).Tag.Get("toml"))
+	}
+	return table + " takes " + strings.Join(names, ", ")
+}
+
+func designField(t reflect.Type, name string) (reflect.StructField, bool) {
+	if t.Kind() != reflect.Struct {
+		return reflect.StructField{}, false
+	}
+	for i := 0; i < t.NumField(); i++ {
+		if t.Field(i).Tag.Get("toml") == name {
+			return t.Field(i), true
+		}
+	}
+	return reflect.StructField{}, false
+}
+
+// designDecoder converts the raw file into a Design, keeping the first
+// fault.
+type designDecoder struct {
+	source string
+	lines  map[string]int
+	values map[string]string
+	err    error
+}
+
+func (dd *designDecoder) fail(path string, v any, err error) {
+	if dd.err == nil {
+		dd.err = &DesignError{Source: dd.source, Line: designLineOf(dd.lines, path), Key: path, Value: designValueText(v), Err: err}
+	}
+}
+
+// designRead converts the value v of key path with conv, unless it is absent
+// (v == nil), in which case it reports whether the key was present. A
+// missing required key is a fault whose reason gives an example.
+func designRead[T any](dd *designDecoder, path string, v any, conv func(any) (T, error), dst *T, example string) bool {
+	if v == nil {
+		if example != "" {
+			dd.fail(path, nil, fmt.Errorf("%w; for example %s", ErrMissingKey, example))
+		}
+		return false
+	}
+	x, err := conv(v)
+	if err != nil {
+		dd.fail(path, v, err)
+		return false
+	}
+	dd.values[path] = designValueText(v)
+	*dst = x
+	return true
+}
+
+func (dd *designDecoder) design(raw *designRaw, dir string) Design {
+	d := Design{Source: dd.source, Dir: dir}
+	designRead(dd, "name", raw.Name, designString, &d.Name, `name = "sensor-antenna-match"`)
+	designRead(dd, "frequency", raw.Frequency, designFrequency, &d.Freq, `frequency = "2.45GHz"`)
+	designRead(dd, "z0", raw.Z0, designOhms, &d.Z0, `z0 = 50`)
+	designRead(dd, "stackup", raw.Stackup, designString, &d.Stackup, `stackup = "my-board.toml"`)
+
+	if raw.Load == nil {
+		dd.fail("load", nil, fmt.Errorf("%w; for example [load] impedance = \"22-j31\"", ErrMissingKey))
+	} else {
+		hasZ := designRead(dd, "load.impedance", raw.Load.Impedance, designImpedance, &d.Load.Impedance, "")
+		hasTS := designRead(dd, "load.touchstone", raw.Load.Touchstone, designString, &d.Load.Touchstone, "")
+		switch {
+		case hasZ && hasTS:
+			dd.fail("load.touchstone", raw.Load.Touchstone, errors.New("give either load.impedance or load.touchstone, not both"))
+		case !hasZ && !hasTS && dd.err == nil:
+			dd.fail("load", nil, fmt.Errorf("%w: the load needs impedance = \"22-j31\" or touchstone = \"antenna.s1p\"", ErrMissingKey))
+		case hasTS && d.Load.Touchstone != "" && !filepath.IsAbs(d.Load.Touchstone) && dir != "":
+			d.Load.Touchstone = filepath.Join(dir, d.Load.Touchstone)
+		}
+	}
+
+	switch {
+	case raw.Match != nil && len(raw.Section) > 0:
+		dd.fail("match", nil, errors.New("give either a [match] table or [[section]] tables, not both"))
+	case raw.Match != nil:
+		d.Match = dd.match(raw.Match, d.Z0)
+	case len(raw.Section) > 0:
+		for i, rs := range raw.Section {
+			d.Sections = append(d.Sections, dd.section(i+1, rs, d.Z0))
+		}
+	default:
+		if dd.err == nil {
+			dd.fail("match", nil, fmt.Errorf("%w: the design needs a [match] table or [[section]] tables", ErrMissingKey))
+		}
+	}
+
+	d.Layout = DefaultLayout()
+	if l := raw.Layout; l != nil {
+		designRead(dd, "layout.feed_length", l.FeedLength, designLength, &d.Layout.FeedLength, "")
+		designRead(dd, "layout.stub_side", l.StubSide, designString, &d.Layout.StubSide, "")
+		designRead(dd, "layout.margin", l.Margin, designLength, &d.Layout.Margin, "")
+		designRead(dd, "layout.mask", l.Mask, designString, &d.Layout.Mask, "")
+		designRead(dd, "layout.max_board", l.MaxBoard, designBoardSize, &d.Layout.MaxBoard, "")
+		designRead(dd, "layout.via_drill", l.ViaDrill, designLength, &d.Layout.ViaDrill, "")
+		designRead(dd, "layout.via_pad", l.ViaPad, designLength, &d.Layout.ViaPad, "")
+	}
+	d.Fab = DefaultFab()
+	if f := raw.Fab; f != nil {
+		designRead(dd, "fab.min_width", f.MinWidth, designLength, &d.Fab.MinWidth, "")
+	}
+	d.Sweep = DefaultSweep(d.Freq)
+	if s := raw.Sweep; s != nil {
+		hasSpan := designRead(dd, "sweep.span", s.Span, designPercent, &d.Sweep.Span, "")
+		hasStart := designRead(dd, "sweep.start", s.Start, designFrequency, &d.Sweep.Start, "")
+		hasStop := designRead(dd, "sweep.stop", s.Stop, designFrequency, &d.Sweep.Stop, "")
+		designRead(dd, "sweep.points", s.Points, designInt, &d.Sweep.Points, "")
+		switch {
+		case hasSpan && (hasStart || hasStop):
+			dd.fail("sweep.span", s.Span, errors.New("give either span or start and stop, not both"))
+		case hasStart != hasStop:
+			dd.fail("sweep", nil, fmt.Errorf("%w: start and stop go together", ErrMissingKey))
+		case hasSpan:
+			d.Sweep.Start, d.Sweep.Stop = d.Freq*(1-d.Sweep.Span), d.Freq*(1+d.Sweep.Span)
+		case hasStart:
+			d.Sweep.Span = 0
+		}
+	}
+	d.Tolerance = DefaultTolerance()
+	if t := raw.Tolerance; t != nil {
+		designRead(dd, "tolerance.samples", t.Samples, designInt, &d.Tolerance.Samples, "")
+		var seed int
+		if designRead(dd, "tolerance.seed", t.Seed, designInt, &seed, "") {
+			d.Tolerance.Seed = int64(seed)
+		}
+		designRead(dd, "tolerance.er", t.Er, designPercent, &d.Tolerance.Er, "")
+		designRead(dd, "tolerance.thickness", t.Thickness, designPercent, &d.Tolerance.Thickness, "")
+		designRead(dd, "tolerance.width", t.Width, designLength, &d.Tolerance.Width, "")
+		designRead(dd, "tolerance.copper", t.Copper, designPercent, &d.Tolerance.Copper, "")
+	}
+	return d
+}
+
+func (dd *designDecoder) match(rm *designRawMatch, z0 float64) *MatchSpec {
+	m := &MatchSpec{Pick: "shortest", StubZ0: z0, LineZ0: z0}
+	designRead(dd, "match.topology", rm.Topology, designString, &m.Topology, `topology = "shunt-stub"`)
+	designRead(dd, "match.stub", rm.Stub, designStubEnd, &m.End, `stub = "open"`)
+	designRead(dd, "match.pick", rm.Pick, designPick, &m.Pick, "")
+	designRead(dd, "match.stub_z0", rm.StubZ0, designOhms, &m.StubZ0, "")
+	designRead(dd, "match.line_z0", rm.LineZ0, designOhms, &m.LineZ0, "")
+	return m
+}
+
+func (dd *designDecoder) section(n int, rs designRawSection, z0 float64) Section {
+	p := "section[" + strconv.Itoa(n) + "]."
+	s := Section{Z0: z0}
+	designRead(dd, p+"kind", rs.Kind, designSectionKind, &s.Kind, `kind = "line"`)
+	if s.Kind == ShuntStub {
+		designRead(dd, p+"end", rs.End, designStubEnd, &s.End, `end = "open"`)
+	} else if rs.End != nil && dd.err == nil {
+		dd.fail(p+"end", rs.End, errors.New("only a stub has an end; a line section takes kind, z0 and length"))
+	}
+	designRead(dd, p+"z0", rs.Z0, designOhms, &s.Z0, "")
+	designRead(dd, p+"length", rs.Length, designElectricalLength, &s.LengthDeg, `length = "0.25wl"`)
+	return s
+}
+
+// Converters of single values. Each says what it wanted when the value is
+// of the wrong kind.
+
+func designString(v any) (string, error) {
+	s, ok := v.(string)
+	if !ok {
+		return "", errors.New("want a string in quotes")
+	}
+	if strings.TrimSpace(s) == "" {
+		return "", errors.New("must not be empty")
+	}
+	return s, nil
+}
+
+// designQuantity reads a quantity that must be written as a string with
+// its unit.
+func designQuantity(v any, parse func(string) (float64, error), example string) (float64, error) {
+	s, ok := v.(string)
+	if !ok {
+		return 0, fmt.Errorf("write it as a string with its unit, for example %q", example)
+	}
+	return parse(s)
+}
+
+func designFrequency(v any) (float64, error) {
+	return designQuantity(v, units.ParseFrequency, "2.45GHz")
+}
+
+func designLength(v any) (float64, error) { return designQuantity(v, units.ParseLength, "5mm") }
+
+func designElectricalLength(v any) (float64, error) {
+	return designQuantity(v, units.ParseElectricalLength, "0.25wl")
+}
+
+// designPercent reads "5%" as 0.05.
+func designPercent(v any) (float64, error) {
+	s, ok := v.(string)
+	if !ok || !strings.HasSuffix(strings.TrimSpace(s), "%") {
+		return 0, errors.New(`write it as a percentage, for example "5%"`)
+	}
+	f, err := strconv.ParseFloat(strings.TrimSpace(strings.TrimSuffix(strings.TrimSpace(s), "%")), 64)
+	if err != nil || math.IsInf(f, 0) || math.IsNaN(f) {
+		return 0, fmt.Errorf("cannot read %q as a percentage", s)
+	}
+	return f / 100, nil
+}
+
+// designNumber reads a TOML integer or float.
+func designNumber(v any) (float64, bool) {
+	switch x := v.(type) {
+	case int64:
+		return float64(x), true
+	case float64:
+		return x, true
+	}
+	return 0, false
+}
+
+// designOhms reads a real impedance: 50, 50.0 or "50ohm".
+func designOhms(v any) (float64, error) {
+	if f, ok := designNumber(v); ok {
+		return f, nil
+	}
+	s, ok := v.(string)
+	if !ok {
+		return 0, errors.New("want an impedance in ohms, for example 50")
+	}
+	z, err := units.ParseImpedance(s)
+	if err != nil {
+		return 0, err
+	}
+	if imag(z) != 0 {
+		return 0, errors.New("a characteristic impedance is real")
+	}
+	return real(z), nil
+}
+
+// designImpedance reads a complex impedance: "22-j31" or a number.
+func designImpedance(v any) (complex128, error) {
+	if f, ok := designNumber(v); ok {
+		return complex(f, 0), nil
+	}
+	s, ok := v.(string)
+	if !ok {
+		return 0, errors.New(`want an impedance in ohms, for example "22-j31"`)
+	}
+	return units.ParseImpedance(s)
+}
+
+func designInt(v any) (int, error) {
+	n, ok := v.(int64)
+	if !ok {
+		return 0, errors.New("want a whole number")
+	}
+	if n > math.MaxInt32 || n < math.MinInt32 {
+		return 0, errors.New("out of range")
+	}
+	return int(n), nil
+}
+
+func designStubEnd(v any) (StubEnd, error) {
+	s, ok := v.(string)
+	if !ok {
+		return 0, errors.New(`want "open" or "short"`)
+	}
+	return ParseStubEnd(s)
+}
+
+func designSectionKind(v any) (SectionKind, error) {
+	s, ok := v.(string)
+	if !ok {
+		return 0, errors.New(`want "line" or "stub"`)
+	}
+	return ParseSectionKind(s)
+}
+
+// designPick reads "shortest", "1", "2", 1 or 2.
+func designPick(v any) (string, error) {
+	switch x := v.(type) {
+	case int64:
+		return strconv.FormatInt(x, 10), nil
+	case string:
+		return strings.ToLower(strings.TrimSpace(x)), nil
+	}
+	return "", errors.New(`want "shortest", 1 or 2`)
+}
+
+// designBoardSize reads ["60mm", "40mm"].
+func designBoardSize(v any) ([2]float64, error) {
+	a, ok := v.([]any)
+	if !ok || len(a) != 2 {
+		return [2]float64{}, errors.New(`want a width and a height, for example ["60mm", "40mm"]`)
+	}
+	var out [2]float64
+	for i, e := range a {
+		m, err := designLength(e)
+		if err != nil {
+			return [2]float64{}, err
+		}
+		out[i] = m
+	}
+	return out, nil
+}

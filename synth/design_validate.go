@@ -1,0 +1,304 @@
+package synth
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+	"strconv"
+	"strings"
+)
+
+// Line impedances a design may ask for, ohm. Printed microstrip outside
+// this range is either too wide to be a line or too narrow to etch on
+// ordinary boards (common practice, no source).
+const (
+	MinLineZ0 = 10.0
+	MaxLineZ0 = 200.0
+)
+
+// designCheck collects the first fault found by Validate.
+type designCheck struct {
+	d   *Design
+	err error
+}
+
+// fail records a fault at key path; fallback is the value in TOML syntax
+// when the design was not decoded from a file (or the key was defaulted).
+func (c *designCheck) fail(path, fallback string, format string, args ...any) {
+	if c.err != nil {
+		return
+	}
+	value, ok := c.d.values[path]
+	if !ok {
+		value = fallback
+	}
+	c.err = &DesignError{Source: c.d.Source, Line: designLineOf(c.d.lines, path), Key: path, Value: value, Err: fmt.Errorf(format, args...)}
+}
+
+func (c *designCheck) failErr(path, fallback string, err error) {
+	c.fail(path, fallback, "%w", err)
+}
+
+func designFinite(v float64) bool { return !math.IsNaN(v) && !math.IsInf(v, 0) }
+
+func designQuote(v float64, unit string) string {
+	return strconv.Quote(strconv.FormatFloat(v, 'g', -1, 64) + unit)
+}
+
+func designMM(v float64) string { return designQuote(v*1e3, "mm") }
+
+func designOhmText(v float64) string { return strconv.FormatFloat(v, 'g', -1, 64) }
+
+func designPct(v float64) string { return designQuote(v*100, "%") }
+
+// checkZ0 checks a line impedance against MinLineZ0..MaxLineZ0.
+func (c *designCheck) checkZ0(path string, z float64, what string) {
+	if !(z >= MinLineZ0 && z <= MaxLineZ0) {
+		c.fail(path, designOhmText(z), "the %s must be between %g and %g ohm for a printable microstrip", what, MinLineZ0, MaxLineZ0)
+	}
+}
+
+// Validate checks that every value of d is usable: the frequency and
+// impedances in range, exactly one of Match and Sections, a load that the
+// asked-for topology can match, consistent layout, sweep and tolerances.
+// Faults are *DesignError values; for a decoded design they carry the line
+// of the key at fault.
+func (d Design) Validate() error {
+	c := &designCheck{d: &d}
+	if strings.TrimSpace(d.Name) == "" {
+		c.fail("name", "", "%w; for example name = \"sensor-antenna-match\"", ErrMissingKey)
+	}
+	if !(d.Freq > 0) || !designFinite(d.Freq) {
+		c.fail("frequency", designQuote(d.Freq, "Hz"), "the design frequency must be positive")
+	}
+	c.checkZ0("z0", d.Z0, "reference impedance")
+	if strings.TrimSpace(d.Stackup) == "" {
+		c.fail("stackup", "", "%w; name a preset or a stackup file", ErrMissingKey)
+	}
+	zText := strconv.Quote(matchZText(d.Load.Impedance))
+	if d.Load.Touchstone == "" {
+		z := d.Load.Impedance
+		switch {
+		case cmplx.IsNaN(z) || cmplx.IsInf(z):
+			c.fail("load.impedance", zText, "the load impedance must be finite")
+		case real(z) < 0:
+			c.fail("load.impedance", zText, "the load has a negative resistance (an active load); a passive match cannot be made for it")
+		}
+	}
+	switch {
+	case d.Match != nil && len(d.Sections) > 0:
+		c.fail("match", "", "give either a [match] table or [[section]] tables, not both")
+	case d.Match != nil:
+		c.checkMatch(*d.Match)
+	case len(d.Sections) > 0:
+		for i, s := range d.Sections {
+			c.checkSection(i+1, s)
+		}
+	default:
+		c.fail("match", "", "%w: the design needs a [match] table or [[section]] tables", ErrMissingKey)
+	}
+	if c.err == nil && d.Match != nil && d.Load.Touchstone == "" {
+		m := *d.Match
+		if _, err := SolveShuntStubZ(d.Load.Impedance, d.Z0, m.LineZ0, m.StubZ0, m.End); err != nil {
+			c.failErr("load.impedance", zText, fmt.Errorf("topology %s: %w", m.Topology, err))
+		}
+	}
+	c.checkLayout(d.Layout)
+	if !(d.Fab.MinWidth > 0) || !designFinite(d.Fab.MinWidth) {
+		c.fail("fab.min_width", designMM(d.Fab.MinWidth), "the narrowest track must be a positive length")
+	}
+	c.checkSweep(d.Sweep, d.Freq)
+	c.checkTolerance(d.Tolerance)
+	return c.err
+}
+
+func (c *designCheck) checkMatch(m MatchSpec) {
+	if m.Topology != "shunt-stub" {
+		c.fail("match.topology", strconv.Quote(m.Topology), "unknown topology (the topologies are: %s)", strings.Join(Topologies(), ", "))
+	}
+	if m.End != Open && m.End != Short {
+		c.fail("match.stub", "", "the stub end must be open or short")
+	}
+	if _, err := Pick([]StubSolution{{}, {}}, m.Pick); err != nil {
+		c.failErr("match.pick", strconv.Quote(m.Pick), err)
+	}
+	c.checkZ0("match.stub_z0", m.StubZ0, "stub impedance")
+	c.checkZ0("match.line_z0", m.LineZ0, "line impedance")
+}
+
+func (c *designCheck) checkSection(n int, s Section) {
+	p := "section[" + strconv.Itoa(n) + "]."
+	switch s.Kind {
+	case SeriesLine:
+		if s.End != 0 {
+			c.fail(p+"end", strconv.Quote(s.End.String()), "only a stub has an end")
+		}
+	case ShuntStub:
+		if s.End != Open && s.End != Short {
+			c.fail(p+"end", "", "a stub's end must be open or short")
+		}
+	default:
+		c.fail(p+"kind", "", "unknown section kind (use line or stub)")
+	}
+	c.checkZ0(p+"z0", s.Z0, "section impedance")
+	if !(s.LengthDeg > 0) || !designFinite(s.LengthDeg) {
+		c.fail(p+"length", designQuote(s.LengthDeg, "deg"), "the electrical length must be positive")
+	}
+}
+
+func (c *designCheck) checkLayout(l LayoutSpec) {
+	if !(l.FeedLength > 0) || !designFinite(l.FeedLength) {
+		c.fail("layout.feed_length", designMM(l.FeedLength), "the feed length must be positive")
+	}
+	if l.StubSide != "up" && l.StubSide != "down" {
+		c.fail("layout.stub_side", strconv.Quote(l.StubSide), "use up or down")
+	}
+	if !(l.Margin >= 0) || !designFinite(l.Margin) {
+		c.fail("layout.margin", designMM(l.Margin), "the margin must not be negative")
+	}
+	if l.Mask != "open" && l.Mask != "cover" {
+		c.fail("layout.mask", strconv.Quote(l.Mask), "use open (a window over the RF copper) or cover")
+	}
+	if l.MaxBoard != [2]float64{} {
+		for _, v := range l.MaxBoard {
+			if !(v > 0) || !designFinite(v) {
+				c.fail("layout.max_board", fmt.Sprintf("[%s, %s]", designMM(l.MaxBoard[0]), designMM(l.MaxBoard[1])), "the largest board needs a positive width and height")
+			}
+		}
+	}
+	if !(l.ViaDrill > 0) || !designFinite(l.ViaDrill) {
+		c.fail("layout.via_drill", designMM(l.ViaDrill), "the via drill must be positive")
+	}
+	if !(l.ViaPad > l.ViaDrill) || !designFinite(l.ViaPad) {
+		c.fail("layout.via_pad", designMM(l.ViaPad), "the via pad must be larger than the drill (%gmm)", l.ViaDrill*1e3)
+	}
+}
+
+// MaxSweepPoints is the most points a sweep may have.
+const MaxSweepPoints = 100001
+
+func (c *designCheck) checkSweep(s SweepSpec, f0 float64) {
+	if s.Span != 0 && !(s.Span > 0 && s.Span < 1) {
+		c.fail("sweep.span", designPct(s.Span), "the span must be more than 0%% and less than 100%%")
+	}
+	if !(s.Start > 0) || !(s.Stop > s.Start) || !designFinite(s.Stop) {
+		c.fail("sweep.start", designQuote(s.Start, "Hz"), "the sweep needs 0 < start < stop (stop = %gHz)", s.Stop)
+	}
+	if !(s.Start <= f0 && f0 <= s.Stop) {
+		c.fail("sweep.start", designQuote(s.Start, "Hz"), "the sweep must include the design frequency %gHz (stop = %gHz)", f0, s.Stop)
+	}
+	if s.Points < 2 || s.Points > MaxSweepPoints {
+		c.fail("sweep.points", strconv.Itoa(s.Points), "the sweep needs 2 to %d points", MaxSweepPoints)
+	}
+}
+
+// MaxToleranceSamples is the most boards a tolerance analysis may draw.
+const MaxToleranceSamples = 1000000
+
+func (c *designCheck) checkTolerance(t ToleranceSpec) {
+	if t.Samples < 0 || t.Samples > MaxToleranceSamples {
+		c.fail("tolerance.samples", strconv.Itoa(t.Samples), "use 0 (no analysis) to %d samples", MaxToleranceSamples)
+	}
+	for _, f := range []struct {
+		key string
+		v   float64
+	}{{"tolerance.er", t.Er}, {"tolerance.thickness", t.Thickness}, {"tolerance.copper", t.Copper}} {
+		if !(f.v >= 0 && f.v < 1) {
+			c.fail(f.key, designPct(f.v), "a spread must be from 0%% to less than 100%%")
+		}
+	}
+	if !(t.Width >= 0) || !designFinite(t.Width) {
+		c.fail("tolerance.width", designMM(t.Width), "the width spread must not be negative")
+	}
+}
+
+// Electrical returns the design's electrical network at the design
+// frequency, from the load toward the source, and notes for the report.
+// zLoadAtF0 is the load impedance at d.Freq (Load.Impedance, or the
+// Touchstone data read by the caller). For a [match] design it is the
+// picked single-shunt-stub solution as a series line then a shunt stub;
+// for [[section]] tables it is those sections, and a note gives the match
+// they reach. An already matched load is an error wrapping ErrMatched.
+func (d Design) Electrical(zLoadAtF0 complex128) ([]Section, []string, error) {
+	if err := d.Validate(); err != nil {
+		return nil, nil, err
+	}
+	g, _, rl := LoadReport(zLoadAtF0, d.Z0)
+	notes := []string{fmt.Sprintf("load %s ohm at %.6g GHz on %g ohm: |Γ| = %.4f, return loss %.2f dB",
+		matchZText(zLoadAtF0), d.Freq/1e9, d.Z0, g, rl)}
+	if d.Match != nil {
+		m := *d.Match
+		sols, err := SolveShuntStubZ(zLoadAtF0, d.Z0, m.LineZ0, m.StubZ0, m.End)
+		if err != nil {
+			return nil, nil, fmt.Errorf("%s: %w", d.Source, err)
+		}
+		s, err := Pick(sols, m.Pick)
+		if err != nil {
+			return nil, nil, fmt.Errorf("%s: match.pick: %w", d.Source, err)
+		}
+		n := 1
+		for i := range sols {
+			if sols[i] == s {
+				n = i + 1
+				break
+			}
+		}
+		notes = append(notes, fmt.Sprintf("shunt-stub solution %d of %d (pick %s): line %.4f λ (%.2f°) of %g ohm, %s stub %.4f λ (%.2f°) of %g ohm",
+			n, len(sols), m.Pick, s.LineWL(), s.LineDeg, s.LineZ0, s.End, s.StubWL(), s.StubDeg, s.StubZ0))
+		return []Section{
+			{Kind: SeriesLine, Z0: s.LineZ0, LengthDeg: s.LineDeg},
+			{Kind: ShuntStub, End: s.End, Z0: s.StubZ0, LengthDeg: s.StubDeg},
+		}, notes, nil
+	}
+	if cmplx.IsNaN(zLoadAtF0) || cmplx.IsInf(zLoadAtF0) || real(zLoadAtF0) < 0 {
+		return nil, nil, fmt.Errorf("%s: load %s ohm: %w", d.Source, matchZText(zLoadAtF0), ErrBadLoad)
+	}
+	secs := append([]Section(nil), d.Sections...)
+	for i, s := range secs {
+		if s.LengthDeg > 180 {
+			notes = append(notes, fmt.Sprintf("section %d is %.1f° long: more than half a wavelength, which only narrows the bandwidth", i+1, s.LengthDeg))
+		}
+	}
+	zin := SectionsInput(secs, zLoadAtF0)
+	gin, _, rlin := LoadReport(zin, d.Z0)
+	if cmplx.IsInf(zin) {
+		gin, rlin = 1, 0
+	}
+	notes = append(notes, fmt.Sprintf("the given sections present %s ohm at the input: |Γ| = %.4f, return loss %.2f dB",
+		matchZText(zin), gin, rlin))
+	return secs, notes, nil
+}
+
+// SectionsInput returns the impedance looking into lossless sections (from
+// the load toward the source) that end in zLoad, at the frequency their
+// electrical lengths are given for. An open circuit comes back as complex
+// infinity.
+func SectionsInput(secs []Section, zLoad complex128) complex128 {
+	z := zLoad
+	for _, s := range secs {
+		th := s.LengthDeg * math.Pi / 180
+		cs, sn := complex(math.Cos(th), 0), complex(0, math.Sin(th))
+		zc := complex(s.Z0, 0)
+		switch s.Kind {
+		case SeriesLine:
+			if cmplx.IsInf(z) {
+				z = zc * cs / sn
+				continue
+			}
+			z = zc * (z*cs + zc*sn) / (zc*cs + z*sn)
+		case ShuntStub:
+			// The stub's input impedance as num/den, so that the
+			// parallel combination stays finite at 90° and 180°.
+			num, den := zc*cs, sn // open: Zs·cos/(j sin)
+			if s.End == Short {
+				num, den = zc*sn, cs // short: j Zs sin/cos
+			}
+			if cmplx.IsInf(z) {
+				z = num / den
+				continue
+			}
+			z = z * num / (z*den + num)
+		}
+	}
+	return z
+}
