@@ -1,0 +1,56 @@
+package fieldsolve
+
+import "sync"
+
+// Cache keeps the results of solves within one run, so that a cross-section
+// met again (in a sweep, a synthesis or a Monte Carlo draw that repeats) is
+// not solved twice. The zero value is not usable; make one with NewCache. A
+// nil *Cache solves every time. It is safe for concurrent use; two goroutines
+// asking for the same new cross-section at once may both solve it.
+type Cache struct {
+	mu sync.Mutex
+	m  map[cacheKey]Result
+}
+
+type cacheKey struct {
+	cs       CrossSection
+	tol      float64
+	maxCells int
+}
+
+// NewCache returns an empty cache.
+func NewCache() *Cache { return &Cache{m: make(map[cacheKey]Result)} }
+
+// Solve returns the cached result for cs and the accuracy options of opt, or
+// solves it and stores the result. Failed solves are not stored.
+// opt.Progress is called only when a solve is run.
+func (c *Cache) Solve(cs CrossSection, opt Options) (Result, error) {
+	if c == nil {
+		return Solve(cs, opt)
+	}
+	k := cacheKey{cs, opt.Tolerance, opt.MaxCells}
+	c.mu.Lock()
+	r, ok := c.m[k]
+	c.mu.Unlock()
+	if ok {
+		return r, nil
+	}
+	r, err := Solve(cs, opt)
+	if err != nil {
+		return r, err
+	}
+	c.mu.Lock()
+	c.m[k] = r
+	c.mu.Unlock()
+	return r, nil
+}
+
+// Len returns the number of cached results.
+func (c *Cache) Len() int {
+	if c == nil {
+		return 0
+	}
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	return len(c.m)
+}
