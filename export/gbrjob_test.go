@@ -1,0 +1,100 @@
+package export
+
+import (
+	"bytes"
+	"encoding/json"
+	"testing"
+)
+
+func refStack() JobStack {
+	return JobStack{DielectricName: "glass epoxy", Er: 4.4, LossTangent: 0.02, DielectricThickness: 0.8e-3,
+		CopperThickness: 35e-6, Mask: true, MaskThickness: 20e-6, MaskEr: 3.5}
+}
+
+// TestGerberJob decodes the job file and checks its keys and values against
+// the Gerber Job format of the Gerber Layer Format Specification (key
+// names from memory of the specification) and the sizes worked by hand.
+func TestGerberJob(t *testing.T) {
+	l := build(t, refSpec())
+	var b bytes.Buffer
+	if err := WriteGerberJob(&b, l, refMeta(), refStack()); err != nil {
+		t.Fatal(err)
+	}
+	var j struct {
+		Header struct {
+			GenerationSoftware struct{ Vendor, Application, Version string }
+			CreationDate       string
+		}
+		GeneralSpecs struct {
+			ProjectId      struct{ Name, GUID, Revision string }
+			Size           struct{ X, Y float64 }
+			LayerNumber    int
+			BoardThickness float64
+		}
+		FilesAttributes []struct{ Path, FileFunction, FilePolarity string }
+		MaterialStackup []struct {
+			Type                                       string
+			Thickness, DielectricConstant, LossTangent float64
+			Material, Name                             string
+		}
+	}
+	dec := json.NewDecoder(&b)
+	dec.DisallowUnknownFields()
+	if err := dec.Decode(&j); err != nil {
+		t.Fatal(err)
+	}
+	h, g := j.Header, j.GeneralSpecs
+	if h.GenerationSoftware.Application != "stubcraft" || h.GenerationSoftware.Version != "0.1" || h.CreationDate != "2024-01-02T03:04:05+01:00" {
+		t.Errorf("header %+v", h)
+	}
+	// By hand: board 17.2 × 13.8 mm; thickness 0.8 + 2 × 0.035 = 0.87 mm.
+	if g.Size.X != 17.2 || g.Size.Y != 13.8 || g.LayerNumber != 2 || g.BoardThickness != 0.87 ||
+		g.ProjectId.GUID != "f205030f-a43b-5ed3-9ef1-747cc36142ae" {
+		t.Errorf("general specs %+v", g)
+	}
+	wantFiles := []string{"Copper,L1,Top", "Copper,L2,Bot", "Soldermask,Top", "Profile,NP", "Plated,1,2,PTH"}
+	if len(j.FilesAttributes) != len(wantFiles) {
+		t.Fatalf("files %+v", j.FilesAttributes)
+	}
+	for i, f := range j.FilesAttributes {
+		if f.FileFunction != wantFiles[i] || f.Path == "" {
+			t.Errorf("file %d = %+v, want function %s", i, f, wantFiles[i])
+		}
+	}
+	wantStack := []struct {
+		typ       string
+		thick, er float64
+		lossTan   float64
+	}{
+		{"SolderMask", 0.02, 3.5, 0},
+		{"Copper", 0.035, 0, 0},
+		{"Dielectric", 0.8, 4.4, 0.02},
+		{"Copper", 0.035, 0, 0},
+	}
+	if len(j.MaterialStackup) != len(wantStack) {
+		t.Fatalf("stack-up %+v", j.MaterialStackup)
+	}
+	for i, w := range wantStack {
+		m := j.MaterialStackup[i]
+		if m.Type != w.typ || m.Thickness != w.thick || m.DielectricConstant != w.er || m.LossTangent != w.lossTan {
+			t.Errorf("layer %d = %+v, want %+v", i, m, w)
+		}
+	}
+}
+
+func TestGerberJobRefuses(t *testing.T) {
+	l := build(t, refSpec())
+	for _, edit := range []func(*JobStack){
+		func(s *JobStack) { s.Er = 0 },
+		func(s *JobStack) { s.DielectricThickness = -1 },
+		func(s *JobStack) { s.CopperThickness = 0 },
+		func(s *JobStack) { s.MaskThickness = 0 },
+		func(s *JobStack) { s.LossTangent = -0.1 },
+	} {
+		s := refStack()
+		edit(&s)
+		if err := WriteGerberJob(&bytes.Buffer{}, l, refMeta(), s); err == nil {
+			t.Errorf("stack %+v: no error", s)
+		}
+	}
+}
