@@ -9,6 +9,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -37,7 +38,7 @@ func render(t *testing.T, files map[string][]byte, order ...string) image.Image 
 		t.Skip("gerbv not on PATH (apt-get install gerbv): skipping the independent-reader check")
 	}
 	dir := t.TempDir()
-	args := []string{"-x", "png", "--dpi=" + itoa(dpi), "--border=0", "-b", "#000000"}
+	args := []string{"-x", "png", "--dpi=" + strconv.Itoa(dpi), "--border=0", "-b", "#000000"}
 	colours := []string{"#FF0000FF", "#00FF00FF", "#0000FFFF"}
 	var paths []string
 	attrs := 0

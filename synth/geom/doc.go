@@ -11,6 +11,13 @@
 //
 // The copper of a net is the union of axis-aligned rectangles, computed
 // exactly on the integer grid by a small rectilinear union (see Union).
+// The via pad of a shorted stub is not merged into the copper polygon: it
+// is a flashed round pad (a Pad with Function ViaPad) centred on the stub's
+// centre line with its far edge on the stub's end. A flash is exact, where a
+// polygon would approximate the circle, and it is what board fabs recognise
+// as a via pad; where the pad is wider than the stub, the copper is the
+// union of the polygon and the circle (the writers' tests measure both).
+//
 // Stubs are straight; a stub that does not fit a board size limit is
 // refused (see ErrNoFit) rather than bent.
 package geom
