@@ -1,0 +1,101 @@
+package export
+
+import (
+	"bufio"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+
+	"stubcraft/physical"
+)
+
+// WriteTouchstone writes t as a Touchstone 1.1 file (Touchstone File Format
+// Specification 1.1, EIA/IBIS 2002): each comment as a "!" line, the option
+// line "# Hz S RI R <Z0>", then one record per frequency. A one- or
+// two-port record is one line, the two-port in the order S11 S21 S12 S22;
+// with three or more ports each matrix row starts a new line and carries
+// at most four pairs per line, as the specification asks. Numbers are
+// written in the shortest form that reads back to the same float64, so a
+// file read with physical.ReadTouchstone gives t back exactly.
+func WriteTouchstone(w io.Writer, t *physical.Touchstone, comments []string) error {
+	if err := checkTouchstone(t); err != nil {
+		return fmt.Errorf("touchstone: %w", err)
+	}
+	bw := bufio.NewWriter(w)
+	for _, c := range comments {
+		for _, line := range strings.Split(c, "\n") {
+			bw.WriteString("! " + strings.TrimRight(line, "\r") + "\n")
+		}
+	}
+	fmt.Fprintf(bw, "# Hz S RI R %s\n", touchNum(t.Z0))
+	n := t.Ports
+	for k, f := range t.Freqs {
+		s := t.S[k]
+		bw.WriteString(strconv.FormatFloat(f, 'f', -1, 64)) // plain Hz, shortest exact
+		switch n {
+		case 1:
+			touchPairs(bw, s[0])
+		case 2:
+			touchPairs(bw, s[0], s[2], s[1], s[3])
+		default:
+			for i := 0; i < n; i++ {
+				row := s[i*n : (i+1)*n]
+				for j := 0; j < n; j += 4 {
+					if i > 0 || j > 0 {
+						bw.WriteString("\n ")
+					}
+					touchPairs(bw, row[j:min(j+4, n)]...)
+				}
+			}
+		}
+		bw.WriteString("\n")
+	}
+	if err := bw.Flush(); err != nil {
+		return fmt.Errorf("touchstone: %w", err)
+	}
+	return nil
+}
+
+// checkTouchstone rejects a value that would not make a readable file.
+func checkTouchstone(t *physical.Touchstone) error {
+	if t == nil {
+		return fmt.Errorf("no network")
+	}
+	if t.Ports < 1 {
+		return fmt.Errorf("port count %d, need at least 1", t.Ports)
+	}
+	if !(t.Z0 > 0) || math.IsInf(t.Z0, 0) {
+		return fmt.Errorf("reference impedance %g ohm, need a positive finite value", t.Z0)
+	}
+	if len(t.Freqs) == 0 || len(t.Freqs) != len(t.S) {
+		return fmt.Errorf("%d frequencies and %d matrices, need as many and at least one", len(t.Freqs), len(t.S))
+	}
+	for k, f := range t.Freqs {
+		if math.IsNaN(f) || math.IsInf(f, 0) || f < 0 || (k > 0 && !(f > t.Freqs[k-1])) {
+			return fmt.Errorf("frequency %d (%g Hz) is not finite, non-negative and increasing", k, f)
+		}
+		if len(t.S[k]) != t.Ports*t.Ports {
+			return fmt.Errorf("frequency %d has %d S values, want %d", k, len(t.S[k]), t.Ports*t.Ports)
+		}
+		for _, v := range t.S[k] {
+			if math.IsNaN(real(v)) || math.IsNaN(imag(v)) || math.IsInf(real(v), 0) || math.IsInf(imag(v), 0) {
+				return fmt.Errorf("frequency %d (%g Hz) has a value that is not finite", k, f)
+			}
+		}
+	}
+	return nil
+}
+
+// touchPairs writes " re im" for each value.
+func touchPairs(bw *bufio.Writer, vs ...complex128) {
+	for _, v := range vs {
+		bw.WriteString(" " + touchNum(real(v)) + " " + touchNum(imag(v)))
+	}
+}
+
+// touchNum formats v in the shortest form that parses back to v.
+func touchNum(v float64) string {
+	return strconv.FormatFloat(v, 'g', -1, 64)
+}
