@@ -16,6 +16,6 @@ func newRootCmd() *cobra.Command {
 		SilenceUsage:  true,
 		SilenceErrors: true,
 	}
-	root.AddCommand()
+	root.AddCommand(newTraceCmd(), newStackupsCmd(), newSolveCmd(), newBuildCmd(), newCompareCmd(), newXsectCmd())
 	return root
 }

@@ -1,0 +1,212 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"strings"
+	"text/tabwriter"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"stubcraft/export"
+	"stubcraft/physical"
+	"stubcraft/synth"
+	"stubcraft/synth/geom"
+)
+
+func cautionText() string {
+	var b strings.Builder
+	b.WriteString("RF safety:\n")
+	for _, c := range export.Cautions() {
+		b.WriteString("  - " + c + "\n")
+	}
+	return b.String()
+}
+
+func newBuildCmd() *cobra.Command {
+	var (
+		outDir, stackupArg, pageArg, scaleArg string
+		force, noTolerance, asJSON             bool
+		samples                                int
+	)
+	cmd := &cobra.Command{
+		Use:   "build [design.toml]",
+		Short: "Build a design into corrected copper, fab files and a drawing",
+		Long: `Build a design file (or, with no file, the embedded demo): solve or take
+the electrical network, size every line on the stackup, correct the
+lengths for open ends, T-junctions and vias, re-centre the layout in the
+full model, sweep the band, run the tolerance analysis, and write the
+report, Touchstone files, Gerber X2 artwork, drill and job files and the
+dimensioned drawing into the output directory. An existing directory is
+replaced only with --force; nothing is written when any step fails.
+
+` + cautionText(),
+		Example: `  stubcraft build -o out
+  stubcraft build design.toml -o out --force --page letter`,
+		Args: cobra.MaximumNArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			path := ""
+			if len(args) == 1 {
+				path = args[0]
+			}
+			d, st, load, err := loadDesign(path, stackupArg)
+			if err != nil {
+				return err
+			}
+			if cmd.Flags().Changed("samples") {
+				if samples < 0 {
+					return fmt.Errorf("--samples %d: must not be negative", samples)
+				}
+				d.Tolerance.Samples = samples
+			}
+			page, err := parsePage(pageArg, scaleArg)
+			if err != nil {
+				return err
+			}
+			res, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: load, SkipTolerance: noTolerance})
+			if err != nil {
+				return fmt.Errorf("%s: %w", designName(path), err)
+			}
+			lay, err := geom.Build(res.GeomSpec())
+			if err != nil {
+				return fmt.Errorf("%s: layout: %w", designName(path), err)
+			}
+			created, err := creationTime()
+			if err != nil {
+				return err
+			}
+			rep := export.NewReport(res, version)
+			files, err := artefacts(res, rep, lay, created, page)
+			if err != nil {
+				return err
+			}
+			if err := writeDir(outDir, force, files); err != nil {
+				return err
+			}
+			if asJSON {
+				return export.WriteReport(cmd.OutOrStdout(), rep)
+			}
+			return printSummary(cmd.OutOrStdout(), rep, outDir, files)
+		},
+	}
+	f := cmd.Flags()
+	f.StringVarP(&outDir, "out", "o", "stubcraft-out", "output directory")
+	f.BoolVar(&force, "force", false, "replace an existing output directory")
+	f.StringVar(&stackupArg, "stackup", "", "build on this stackup instead of the design's (preset name or TOML path)")
+	f.BoolVar(&noTolerance, "no-tolerance", false, "skip the Monte Carlo tolerance analysis")
+	f.IntVar(&samples, "samples", 0, "Monte Carlo samples (overrides the design file)")
+	f.StringVar(&pageArg, "page", "a4", "drawing page size: a4 or letter")
+	f.StringVar(&scaleArg, "fit", "scale", `when the board does not fit the page at 1:1: "scale" (a stated smaller scale) or "tile" (1:1 across pages)`)
+	f.BoolVar(&asJSON, "json", false, "print the report JSON instead of the summary")
+	_ = cmd.RegisterFlagCompletionFunc("stackup", completeStackup)
+	_ = cmd.RegisterFlagCompletionFunc("page", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
+		return []string{"a4", "letter"}, cobra.ShellCompDirectiveNoFileComp
+	})
+	return cmd
+}
+
+func designName(path string) string {
+	if path == "" {
+		return "demo design"
+	}
+	return path
+}
+
+// artefacts lists every file of a build's output directory.
+func artefacts(res *synth.Result, rep export.Report, lay geom.Layout, created time.Time, page pageSpec) ([]artefact, error) {
+	meta := export.Meta{ProjectName: res.Design.Name, Version: version, Created: created}
+	base := res.Design.Name
+	files := []artefact{
+		{"report.json", func(w io.Writer) error { return export.WriteReport(w, rep) }},
+		{"network.s2p", func(w io.Writer) error { return export.WriteTouchstone(w, networkTouchstone(res), touchstoneComments(res, "the matching network: port 1 the source side, port 2 the load port")) }},
+		{"matched.s1p", func(w io.Writer) error { return export.WriteTouchstone(w, inputTouchstone(res), touchstoneComments(res, "the input of the matched load")) }},
+	}
+	for _, layer := range export.Layers() {
+		layer := layer
+		files = append(files, artefact{layer.FileName(base), func(w io.Writer) error { return export.WriteGerber(w, lay, layer, meta) }})
+	}
+	files = append(files,
+		artefact{export.ExcellonFileName(base), func(w io.Writer) error { return export.WriteExcellon(w, lay, meta) }},
+		artefact{export.JobFileName(base), func(w io.Writer) error { return export.WriteGerberJob(w, lay, meta, jobStack(res)) }},
+	)
+	files = append(files, drawingArtefacts(res, rep, lay, created, page)...)
+	return files, nil
+}
+
+func jobStack(res *synth.Result) export.JobStack {
+	st := res.Stackup
+	js := export.JobStack{DielectricName: st.Name, Er: st.Dielectric.Er, LossTangent: st.Dielectric.LossTangent,
+		DielectricThickness: st.Dielectric.Thickness, CopperThickness: st.Copper.Thickness}
+	if st.Mask != nil {
+		js.Mask, js.MaskThickness, js.MaskEr = true, st.Mask.Thickness, st.Mask.Er
+	}
+	return js
+}
+
+func touchstoneComments(res *synth.Result, what string) []string {
+	return []string{
+		fmt.Sprintf("stubcraft %s: %s", version, what),
+		fmt.Sprintf("design %s at %.6g GHz on %s, reference %g ohm", res.Design.Name, res.Design.Freq/1e9, res.Stackup.Name, res.Design.Z0),
+		"simulated, not measured: verify with a network analyser",
+	}
+}
+
+func networkTouchstone(res *synth.Result) *physical.Touchstone {
+	t := &physical.Touchstone{Ports: 2, Z0: res.Design.Z0}
+	for i, f := range res.Sweep.Freqs {
+		s := res.Sweep.Network[i]
+		t.Freqs = append(t.Freqs, f)
+		t.S = append(t.S, []complex128{s[0][0], s[0][1], s[1][0], s[1][1]})
+	}
+	return t
+}
+
+func inputTouchstone(res *synth.Result) *physical.Touchstone {
+	t := &physical.Touchstone{Ports: 1, Z0: res.Design.Z0}
+	for i, f := range res.Sweep.Freqs {
+		t.Freqs = append(t.Freqs, f)
+		t.S = append(t.S, []complex128{res.Sweep.S11[i]})
+	}
+	return t
+}
+
+// printSummary writes the human-readable account of a build.
+func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) error {
+	fmt.Fprintf(w, "%s at %.6g GHz, %g Ω, on %s (%s)\n", rep.Name, rep.FrequencyHz/1e9, rep.Z0Ohm, rep.Stackup.Name, rep.Model)
+	fmt.Fprintf(w, "load %.2f%+.2fj Ω: |Γ| %.3f, VSWR %.2f, return loss %.2f dB\n\n", rep.Load.ROhm, rep.Load.XOhm, rep.Load.GammaMag, rep.Load.VSWR, rep.Load.ReturnLossDB)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "element\trole\tend\tZ0 (Ω)\twidth (mm)\telectrical (°)\tline (mm)\topen end (mm)\ttee (mm)\tvia (mm)\tre-centre (mm)\tdrawn (mm)\t")
+	for _, e := range rep.Elements {
+		end := e.End
+		if end == "" {
+			end = "-"
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%.1f\t%.3f\t%.2f\t%.3f\t%+.3f\t%+.3f\t%+.3f\t%+.3f\t%.3f\t\n", e.ID, e.Role, end, e.Z0Ohm, e.WidthMM,
+			e.ElectricalDeg, e.LineLengthMM, e.OpenEndMM, e.TeeMM, e.ViaMM, e.RecentreMM, e.DrawnLengthMM)
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	fmt.Fprintf(w, "\n|S11| at f0: %.1f dB drawn (%.1f dB without the discontinuity corrections; %.1f dB before re-centring)\n",
+		rep.S11DBF0, rep.S11DBF0Uncorr, rep.Recentring.S11DBBefore)
+	if rep.Bandwidth10DBHz > 0 {
+		fmt.Fprintf(w, "band |S11| < −10 dB: %.4g–%.4g GHz (%.1f MHz)\n", rep.Band10DBHz[0]/1e9, rep.Band10DBHz[1]/1e9, rep.Bandwidth10DBHz/1e6)
+	}
+	if rep.Bandwidth20DBHz > 0 {
+		fmt.Fprintf(w, "band |S11| < −20 dB: %.4g–%.4g GHz (%.1f MHz)\n", rep.Band20DBHz[0]/1e9, rep.Band20DBHz[1]/1e9, rep.Bandwidth20DBHz/1e6)
+	}
+	fmt.Fprintf(w, "network loss at f0: %.3f dB\n", rep.NetworkLossDBF0)
+	if t := rep.Tolerance; t != nil {
+		fmt.Fprintf(w, "tolerance (%d boards, seed %d): |S11| at f0 median %.1f dB, 90th percentile %.1f dB, yield below %.0f dB %.1f %%\n",
+			t.Samples, t.Seed, t.P50S11DB, t.P90S11DB, t.YieldBelowDB, 100*t.Yield)
+	}
+	for _, n := range rep.Notes {
+		fmt.Fprintln(w, "note:", n)
+	}
+	for _, warn := range rep.Warnings {
+		fmt.Fprintln(w, "warning:", warn)
+	}
+	fmt.Fprintf(w, "\nwrote %d files to %s\n\n%s", len(files), dir, cautionText())
+	return nil
+}

@@ -1,0 +1,160 @@
+package main
+
+import (
+	"fmt"
+	"io"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/spf13/cobra"
+
+	"stubcraft/stackups"
+	"stubcraft/synth"
+	"stubcraft/units"
+)
+
+// compareRow is one stackup's outcome in "stubcraft compare".
+type compareRow struct {
+	Stackup        string    `json:"stackup"`
+	Model          string    `json:"line_model"`
+	WidthsMM       []float64 `json:"widths_mm"`
+	CopperLengthMM float64   `json:"copper_length_mm"`
+	CopperAreaMM2  float64   `json:"copper_area_mm2"`
+	InsertionDB    float64   `json:"network_loss_db_f0"`
+	S11DBF0        float64   `json:"s11_db_f0"`
+	P90S11DB       *float64  `json:"p90_s11_db,omitempty"`
+	MinWidthMM     float64   `json:"narrowest_mm"`
+	MeetsFab       bool      `json:"meets_fab_minimum"`
+	Error          string    `json:"error,omitempty"`
+}
+
+func newCompareCmd() *cobra.Command {
+	var (
+		list, minWidthArg string
+		noTolerance       bool
+		samples           int
+		asJSON            bool
+	)
+	cmd := &cobra.Command{
+		Use:   "compare [design.toml]",
+		Short: "Build one design on several laminates and compare them",
+		Long: `Build the design (or the embedded demo) on every embedded preset, or on the
+stackups listed with --stackups, and print for each: the widths, total
+copper length and area, the network's own loss at f0, |S11| at f0, the
+90th-percentile |S11| of the tolerance analysis, and whether every width
+meets the fab minimum. Nothing is written to disk.`,
+		Args: cobra.MaximumNArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			path := ""
+			if len(args) == 1 {
+				path = args[0]
+			}
+			d, _, load, err := loadDesign(path, "")
+			if err != nil {
+				return err
+			}
+			minWidth := d.Fab.MinWidth
+			if minWidthArg != "" {
+				if minWidth, err = units.ParseLength(minWidthArg); err != nil {
+					return fmt.Errorf("--min-width: %w", err)
+				}
+				if minWidth < 0 {
+					return fmt.Errorf("--min-width %q: must not be negative", minWidthArg)
+				}
+			}
+			if cmd.Flags().Changed("samples") {
+				if samples < 0 {
+					return fmt.Errorf("--samples %d: must not be negative", samples)
+				}
+				d.Tolerance.Samples = samples
+			}
+			var sts []stackups.Stackup
+			if list == "" {
+				sts = stackups.Presets()
+			} else {
+				for _, name := range strings.Split(list, ",") {
+					st, err := stackups.Load(strings.TrimSpace(name))
+					if err != nil {
+						return fmt.Errorf("--stackups: %w", err)
+					}
+					sts = append(sts, st)
+				}
+			}
+			cache := synth.NewSolverCache()
+			var rows []compareRow
+			for _, st := range sts {
+				rows = append(rows, compareOne(d, st, load, minWidth, noTolerance, cache))
+			}
+			if asJSON {
+				return printJSON(cmd.OutOrStdout(), rows)
+			}
+			return printCompare(cmd.OutOrStdout(), rows, minWidth)
+		},
+	}
+	f := cmd.Flags()
+	f.StringVar(&list, "stackups", "", "comma-separated preset names or TOML paths (default: every preset)")
+	f.StringVar(&minWidthArg, "min-width", "", `fab minimum track width, e.g. "0.15mm" (default: the design's [fab] min_width)`)
+	f.BoolVar(&noTolerance, "no-tolerance", false, "skip the tolerance analysis")
+	f.IntVar(&samples, "samples", 0, "Monte Carlo samples per stackup (overrides the design file)")
+	f.BoolVar(&asJSON, "json", false, "print JSON instead of a table")
+	return cmd
+}
+
+func compareOne(d synth.Design, st stackups.Stackup, load synth.Load, minWidth float64, noTol bool, cache *synth.SolverCache) compareRow {
+	row := compareRow{Stackup: st.Name}
+	res, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: load, SkipTolerance: noTol,
+		Lines: synth.LineMakerFor(st, cache)})
+	if err != nil {
+		row.Error = err.Error()
+		return row
+	}
+	row.Model = res.Model
+	row.MinWidthMM = -1
+	seen := map[float64]bool{}
+	for _, e := range res.Physical.Elements {
+		w := e.Width * 1e3
+		if !seen[w] {
+			seen[w] = true
+			row.WidthsMM = append(row.WidthsMM, w)
+		}
+		row.CopperLengthMM += e.DrawnLength * 1e3
+		row.CopperAreaMM2 += e.DrawnLength * e.Width * 1e6
+		if row.MinWidthMM < 0 || w < row.MinWidthMM {
+			row.MinWidthMM = w
+		}
+	}
+	row.MeetsFab = row.MinWidthMM*1e-3 >= minWidth
+	row.InsertionDB = res.LossF0DB
+	row.S11DBF0 = synth.S11DB(res.S11F0)
+	if res.Tolerance != nil {
+		p := res.Tolerance.P90
+		row.P90S11DB = &p
+	}
+	return row
+}
+
+func printCompare(w io.Writer, rows []compareRow, minWidth float64) error {
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintf(tw, "stackup\twidths (mm)\tcopper length (mm)\tcopper area (mm²)\tloss at f0 (dB)\t|S11| f0 (dB)\tp90 |S11| (dB)\tnarrowest (mm)\t≥ %.3f mm\n", minWidth*1e3)
+	for _, r := range rows {
+		if r.Error != "" {
+			fmt.Fprintf(tw, "%s\tfailed: %s\n", r.Stackup, r.Error)
+			continue
+		}
+		var ws []string
+		for _, v := range r.WidthsMM {
+			ws = append(ws, fmt.Sprintf("%.3f", v))
+		}
+		p90 := "-"
+		if r.P90S11DB != nil {
+			p90 = fmt.Sprintf("%.1f", *r.P90S11DB)
+		}
+		ok := "yes"
+		if !r.MeetsFab {
+			ok = "NO"
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%.2f\t%.2f\t%.3f\t%.1f\t%s\t%.3f\t%s\n", r.Stackup, strings.Join(ws, ", "), r.CopperLengthMM,
+			r.CopperAreaMM2, r.InsertionDB, r.S11DBF0, p90, r.MinWidthMM, ok)
+	}
+	return tw.Flush()
+}

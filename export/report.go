@@ -1,0 +1,273 @@
+package export
+
+import (
+	"encoding/json"
+	"io"
+	"math"
+	"math/cmplx"
+
+	"stubcraft/physical"
+	"stubcraft/synth"
+)
+
+// Report is the machine-readable account of a build, written as
+// report.json. Every key carries its unit.
+type Report struct {
+	Tool            string           `json:"tool"`
+	Version         string           `json:"version"`
+	Name            string           `json:"name"`
+	FrequencyHz     float64          `json:"frequency_hz"`
+	Z0Ohm           float64          `json:"z0_ohm"`
+	Model           string           `json:"line_model"`
+	Stackup         ReportStackup    `json:"stackup"`
+	Load            ReportLoad       `json:"load"`
+	Electrical      []ReportSection  `json:"electrical"`
+	Elements        []ReportElement  `json:"elements"`
+	StubFromLoadMM  []float64        `json:"stub_from_load_port_mm"`
+	S11DBF0         float64          `json:"s11_db_f0"`
+	S11DBF0Uncorr   float64          `json:"s11_db_f0_uncorrected"`
+	Recentring      ReportRecentring `json:"recentring"`
+	ReturnLossDBF0  float64          `json:"return_loss_db_f0"`
+	VSWRF0          float64          `json:"vswr_f0"`
+	NetworkLossDBF0 float64          `json:"network_loss_db_f0"`
+	Bandwidth10DBHz float64          `json:"bandwidth_10db_hz"`
+	Band10DBHz      [2]float64       `json:"band_10db_hz"`
+	Bandwidth20DBHz float64          `json:"bandwidth_20db_hz"`
+	Band20DBHz      [2]float64       `json:"band_20db_hz"`
+	Sweep           ReportSweep      `json:"sweep"`
+	Tolerance       *ReportTolerance `json:"tolerance,omitempty"`
+	Notes           []string         `json:"notes"`
+	Warnings        []string         `json:"warnings"`
+	Cautions        []string         `json:"cautions"`
+}
+
+// ReportStackup holds the values of the stackup used.
+type ReportStackup struct {
+	Name              string   `json:"name"`
+	Line              string   `json:"line"`
+	Er                float64  `json:"er"`
+	ErFrequencyHz     float64  `json:"er_frequency_hz,omitempty"`
+	LossTangent       float64  `json:"loss_tangent"`
+	ThicknessMM       float64  `json:"dielectric_thickness_mm"`
+	CopperThicknessUM float64  `json:"copper_thickness_um"`
+	RoughnessUM       float64  `json:"copper_roughness_um"`
+	ConductivitySPerM float64  `json:"copper_conductivity_s_per_m"`
+	MaskThicknessUM   *float64 `json:"mask_thickness_um,omitempty"`
+	MaskEr            *float64 `json:"mask_er,omitempty"`
+	GapMM             *float64 `json:"gcpw_gap_mm,omitempty"`
+}
+
+// ReportLoad is the load at f0.
+type ReportLoad struct {
+	Touchstone   string  `json:"touchstone,omitempty"`
+	ROhm         float64 `json:"r_ohm"`
+	XOhm         float64 `json:"x_ohm"`
+	GammaMag     float64 `json:"gamma_mag"`
+	VSWR         float64 `json:"vswr"`
+	ReturnLossDB float64 `json:"return_loss_db"`
+}
+
+// ReportSection is one section of the electrical solution.
+type ReportSection struct {
+	Kind  string  `json:"kind"`
+	End   string  `json:"end"`
+	Z0Ohm float64 `json:"z0_ohm"`
+	Deg   float64 `json:"electrical_deg"`
+	WL    float64 `json:"electrical_wl"`
+}
+
+// ReportElement is one element of the corrected physical network.
+type ReportElement struct {
+	ID            string  `json:"id"`
+	Role          string  `json:"role"`
+	End           string  `json:"end"`
+	Z0Ohm         float64 `json:"z0_ohm"`
+	Z0F0Ohm       float64 `json:"z0_model_f0_ohm"`
+	EpsEffF0      float64 `json:"eps_eff_f0"`
+	WidthMM       float64 `json:"width_mm"`
+	ElectricalDeg float64 `json:"electrical_deg"`
+	LineLengthMM  float64 `json:"line_length_mm"`
+	OpenEndMM     float64 `json:"open_end_mm"`
+	TeeMM         float64 `json:"tee_mm"`
+	ViaMM         float64 `json:"via_mm"`
+	RecentreMM    float64 `json:"recentre_mm"`
+	DrawnLengthMM float64 `json:"drawn_length_mm"`
+	AttachedTo    string  `json:"attached_to,omitempty"`
+}
+
+// ReportRecentring records the optimiser's work.
+type ReportRecentring struct {
+	S11DBBefore float64            `json:"s11_db_before"`
+	S11DBAfter  float64            `json:"s11_db_after"`
+	ChangesMM   map[string]float64 `json:"length_changes_mm"`
+	Evaluations int                `json:"evaluations"`
+}
+
+// ReportSweep is the band response, for plots and the Smith chart.
+type ReportSweep struct {
+	FreqHz []float64 `json:"freq_hz"`
+	S11DB  []float64 `json:"s11_db"`
+	S11Re  []float64 `json:"s11_re"`
+	S11Im  []float64 `json:"s11_im"`
+	LoadRe []float64 `json:"load_gamma_re"`
+	LoadIm []float64 `json:"load_gamma_im"`
+}
+
+// ReportTolerance is the Monte Carlo summary.
+type ReportTolerance struct {
+	Samples      int       `json:"samples"`
+	Seed         int64     `json:"seed"`
+	ErRel        float64   `json:"er_spread_rel"`
+	ThicknessRel float64   `json:"thickness_spread_rel"`
+	WidthUM      float64   `json:"width_spread_um"`
+	CopperRel    float64   `json:"copper_spread_rel"`
+	P50S11DB     float64   `json:"p50_s11_db"`
+	P90S11DB     float64   `json:"p90_s11_db"`
+	Yield        float64   `json:"yield"`
+	YieldBelowDB float64   `json:"yield_threshold_db"`
+	SamplesS11DB []float64 `json:"samples_s11_db"`
+}
+
+// NewReport gathers the report of a build.
+func NewReport(r *synth.Result, version string) Report {
+	d, st := r.Design, r.Stackup
+	rep := Report{
+		Tool: "stubcraft", Version: version, Name: d.Name, FrequencyHz: d.Freq, Z0Ohm: d.Z0, Model: r.Model,
+		S11DBF0: synth.S11DB(r.S11F0), S11DBF0Uncorr: synth.S11DB(r.Uncorr),
+		ReturnLossDBF0: -synth.S11DB(r.S11F0), VSWRF0: physical.VSWR(r.S11F0),
+		NetworkLossDBF0: r.LossF0DB,
+		Bandwidth10DBHz: r.BW10.Width(), Band10DBHz: [2]float64{r.BW10.Lo, r.BW10.Hi},
+		Bandwidth20DBHz: r.BW20.Width(), Band20DBHz: [2]float64{r.BW20.Lo, r.BW20.Hi},
+		Notes: nonNil(r.Notes), Warnings: nonNil(r.Warnings), Cautions: Cautions(),
+	}
+	rep.Stackup = ReportStackup{Name: st.Name, Line: st.Line, Er: st.Dielectric.Er, ErFrequencyHz: st.Dielectric.ErFrequency,
+		LossTangent: st.Dielectric.LossTangent, ThicknessMM: st.Dielectric.Thickness * 1e3,
+		CopperThicknessUM: st.Copper.Thickness * 1e6, RoughnessUM: st.Copper.Roughness * 1e6,
+		ConductivitySPerM: st.Copper.Conductivity}
+	if rep.Stackup.Line == "" {
+		rep.Stackup.Line = "microstrip"
+	}
+	if st.Mask != nil {
+		t, e := st.Mask.Thickness*1e6, st.Mask.Er
+		rep.Stackup.MaskThicknessUM, rep.Stackup.MaskEr = &t, &e
+	}
+	if st.Line == "gcpw" {
+		g := st.Gap * 1e3
+		rep.Stackup.GapMM = &g
+	}
+	g := physical.Reflection(r.LoadF0, d.Z0)
+	rep.Load = ReportLoad{Touchstone: d.Load.Touchstone, ROhm: real(r.LoadF0), XOhm: imag(r.LoadF0),
+		GammaMag: cmplx.Abs(g), VSWR: physical.VSWR(g), ReturnLossDB: physical.ReturnLossDB(g)}
+	for _, s := range r.Sections {
+		end := ""
+		if s.Kind == synth.ShuntStub {
+			end = s.End.String()
+		}
+		rep.Electrical = append(rep.Electrical, ReportSection{Kind: s.Kind.String(), End: end, Z0Ohm: s.Z0, Deg: s.LengthDeg, WL: s.LengthDeg / 360})
+	}
+	els := r.Physical.Elements
+	for _, e := range els {
+		re := ReportElement{ID: e.ID, Role: string(e.Role), Z0Ohm: e.Z0, Z0F0Ohm: e.Params.Z0, EpsEffF0: e.Params.EpsEff,
+			WidthMM: e.Width * 1e3, ElectricalDeg: e.ElectricalDeg, LineLengthMM: e.LineLength * 1e3,
+			OpenEndMM: e.OpenEnd * 1e3, TeeMM: e.Tee * 1e3, ViaMM: e.Via * 1e3, RecentreMM: e.Recentre * 1e3,
+			DrawnLengthMM: e.DrawnLength * 1e3}
+		if e.Role == synth.RoleStub {
+			re.End = e.End.String()
+			re.AttachedTo = throughID(els, e.At)
+		}
+		rep.Elements = append(rep.Elements, re)
+	}
+	rep.StubFromLoadMM = stubPositions(els)
+	rep.Recentring = ReportRecentring{S11DBBefore: synth.S11DB(r.Recentre.Before), S11DBAfter: synth.S11DB(r.Recentre.After),
+		ChangesMM: map[string]float64{}, Evaluations: r.Recentre.Evaluations}
+	for i, id := range r.Recentre.IDs {
+		rep.Recentring.ChangesMM[id] = r.Recentre.Changes[i] * 1e3
+	}
+	sw := r.Sweep
+	for i, f := range sw.Freqs {
+		rep.Sweep.FreqHz = append(rep.Sweep.FreqHz, f)
+		rep.Sweep.S11DB = append(rep.Sweep.S11DB, synth.S11DB(sw.S11[i]))
+		rep.Sweep.S11Re = append(rep.Sweep.S11Re, real(sw.S11[i]))
+		rep.Sweep.S11Im = append(rep.Sweep.S11Im, imag(sw.S11[i]))
+		gl := physical.Reflection(sw.ZLoad[i], d.Z0)
+		rep.Sweep.LoadRe = append(rep.Sweep.LoadRe, real(gl))
+		rep.Sweep.LoadIm = append(rep.Sweep.LoadIm, imag(gl))
+	}
+	if t := r.Tolerance; t != nil {
+		rep.Tolerance = &ReportTolerance{Samples: t.Spec.Samples, Seed: t.Spec.Seed, ErRel: t.Spec.Er,
+			ThicknessRel: t.Spec.Thickness, WidthUM: t.Spec.Width * 1e6, CopperRel: t.Spec.Copper,
+			P50S11DB: t.P50, P90S11DB: t.P90, Yield: t.Yield, YieldBelowDB: synth.YieldThresholdDB, SamplesS11DB: t.S11DB}
+	}
+	return rep
+}
+
+// throughID names the through element with index at among the through elements.
+func throughID(els []synth.Element, at int) string {
+	k := 0
+	for _, e := range els {
+		if e.Role == synth.RoleStub {
+			continue
+		}
+		if k == at {
+			return e.ID
+		}
+		k++
+	}
+	return ""
+}
+
+// stubPositions returns each stub's centre-line distance from the load
+// port along the through line, mm.
+func stubPositions(els []synth.Element) []float64 {
+	var cum []float64
+	x := 0.0
+	for _, e := range els {
+		if e.Role != synth.RoleStub {
+			x += e.DrawnLength
+			cum = append(cum, x)
+		}
+	}
+	var out []float64
+	for _, e := range els {
+		if e.Role == synth.RoleStub && e.At < len(cum) {
+			out = append(out, cum[e.At]*1e3)
+		}
+	}
+	return out
+}
+
+// WriteReport writes rep as indented JSON. Values that JSON cannot hold
+// (an infinite VSWR) are written as null by replacing them with NaN-free
+// sentinels first.
+func WriteReport(w io.Writer, rep Report) error {
+	clean(&rep)
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(rep)
+}
+
+// clean replaces infinities with the largest float so the JSON encoder
+// accepts the report; a perfect match gives an infinite return loss.
+func clean(rep *Report) {
+	fix := func(v *float64) {
+		if math.IsInf(*v, 1) {
+			*v = math.MaxFloat64
+		} else if math.IsInf(*v, -1) {
+			*v = -math.MaxFloat64
+		} else if math.IsNaN(*v) {
+			*v = 0
+		}
+	}
+	fix(&rep.VSWRF0)
+	fix(&rep.ReturnLossDBF0)
+	fix(&rep.NetworkLossDBF0)
+	fix(&rep.Load.VSWR)
+	fix(&rep.Load.ReturnLossDB)
+}
+
+func nonNil(s []string) []string {
+	if s == nil {
+		return []string{}
+	}
+	return s
+}

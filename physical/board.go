@@ -1,0 +1,226 @@
+package physical
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+)
+
+// LineMaker makes the line model of a strip of the given width on sub.
+// NewMicrostrip is one (wrapped by MicrostripMaker); a field-solver model
+// is another.
+type LineMaker func(width float64, sub Substrate) (LineModel, error)
+
+// MicrostripMaker is the LineMaker of the closed-form microstrip models.
+func MicrostripMaker(width float64, sub Substrate) (LineModel, error) {
+	return NewMicrostrip(width, sub)
+}
+
+// Trace is one straight piece of the through line, as drawn.
+type Trace struct {
+	Width  float64 // m
+	Length float64 // drawn, along the centre line, m
+}
+
+// Stub is a shunt stub as drawn, hung on the through line at the boundary
+// after Through[At] (the load side of the tee is Through[At]).
+type Stub struct {
+	At     int
+	Width  float64 // m
+	Length float64 // drawn, from the wider through arm's edge to the open end or to the via centre, m
+	Short  bool    // ends in a via to ground
+}
+
+// Via is the plated hole that grounds a shorted stub.
+type Via struct {
+	Drill float64 // finished hole diameter, m
+	Pad   float64 // pad diameter, m
+}
+
+// Board is a matching network as drawn in copper: the through line from
+// the load port (Through[0]) to the source port, the stubs on it and the
+// via used by shorted stubs. Every tee, open end and via is modelled from
+// this geometry at each frequency, so simulating a Board checks the
+// corrections rather than assuming them.
+type Board struct {
+	Sub     Substrate
+	Through []Trace
+	Stubs   []Stub
+	Via     Via
+}
+
+// Validate reports a board that cannot be simulated.
+func (b Board) Validate() error {
+	if len(b.Through) == 0 {
+		return fmt.Errorf("board: no through line")
+	}
+	for i, t := range b.Through {
+		if !(t.Width > 0) || !(t.Length >= 0) {
+			return fmt.Errorf("board: through line %d: width %g m, length %g m: sizes must be positive", i, t.Width, t.Length)
+		}
+	}
+	seen := map[int]bool{}
+	for i, s := range b.Stubs {
+		if s.At < 0 || s.At >= len(b.Through)-1 {
+			return fmt.Errorf("board: stub %d sits after through line %d, which has no line beyond it", i, s.At)
+		}
+		if seen[s.At] {
+			return fmt.Errorf("board: two stubs at the tee after through line %d", s.At)
+		}
+		seen[s.At] = true
+		if !(s.Width > 0) || !(s.Length > 0) {
+			return fmt.Errorf("board: stub %d: width %g m, length %g m: sizes must be positive", i, s.Width, s.Length)
+		}
+		if s.Short && !(b.Via.Drill > 0) {
+			return fmt.Errorf("board: stub %d is shorted but the via drill is %g m", i, b.Via.Drill)
+		}
+	}
+	return nil
+}
+
+// Sim is a Board ready to be simulated: its line models are made once.
+type Sim struct {
+	board   Board
+	through []LineModel
+	stubs   []LineModel
+	stubAt  []int // stub index at each through boundary, or -1
+}
+
+// NewSim makes the line models of b with mk.
+func NewSim(b Board, mk LineMaker) (*Sim, error) {
+	if err := b.Validate(); err != nil {
+		return nil, err
+	}
+	s := &Sim{board: b, stubAt: make([]int, len(b.Through))}
+	models := map[float64]LineModel{}
+	get := func(w float64) (LineModel, error) {
+		if m, ok := models[w]; ok {
+			return m, nil
+		}
+		m, err := mk(w, b.Sub)
+		if err != nil {
+			return nil, err
+		}
+		models[w] = m
+		return m, nil
+	}
+	for _, t := range b.Through {
+		m, err := get(t.Width)
+		if err != nil {
+			return nil, err
+		}
+		s.through = append(s.through, m)
+	}
+	for i := range s.stubAt {
+		s.stubAt[i] = -1
+	}
+	for i, st := range b.Stubs {
+		m, err := get(st.Width)
+		if err != nil {
+			return nil, err
+		}
+		s.stubs = append(s.stubs, m)
+		s.stubAt[st.At] = i
+	}
+	return s, nil
+}
+
+// Board returns the board being simulated.
+func (s *Sim) Board() Board { return s.board }
+
+// junction is the state of one tee at one frequency.
+type junction struct {
+	tee TeeParams
+	y   complex128 // stub admittance at its reference plane, S
+}
+
+// ABCD returns the chain matrix of the network from the source port
+// (port 1) to the load port (port 2) at freq.
+func (s *Sim) ABCD(freq float64) ABCD {
+	b := s.board
+	n := len(b.Through)
+	params := make([]LineParams, n)
+	for i, m := range s.through {
+		params[i] = m.At(freq)
+	}
+	// Tee at the boundary after Through[i], if any.
+	juncs := make([]*junction, n)
+	for i := 0; i < n; i++ {
+		k := s.stubAt[i]
+		if k < 0 {
+			continue
+		}
+		juncs[i] = s.junction(k, params[i], freq)
+	}
+	m := Identity()
+	for i := n - 1; i >= 0; i-- {
+		l := b.Through[i].Length
+		if juncs[i] != nil {
+			l -= juncs[i].tee.ThroughShift
+		}
+		if i > 0 && juncs[i-1] != nil {
+			l -= juncs[i-1].tee.ThroughShift
+		}
+		if i < n-1 && juncs[i] != nil {
+			m = m.Mul(juncs[i].tee.ThroughWithStub(juncs[i].y))
+		}
+		m = m.Mul(Line(params[i], l))
+	}
+	return m
+}
+
+// junction evaluates stub k, hung on a through line with properties tp.
+func (s *Sim) junction(k int, tp LineParams, freq float64) *junction {
+	st := s.board.Stubs[k]
+	sp := s.stubs[k].At(freq)
+	// The stub is drawn from the edge of the wider through arm.
+	throughW := max(s.board.Through[st.At].Width, s.board.Through[st.At+1].Width)
+	tee := Tee{ThroughZ0: tp.Z0, ThroughEpsEff: tp.EpsEff, StubZ0: sp.Z0, StubEpsEff: sp.EpsEff,
+		H: s.board.Sub.Height, Er: s.board.Sub.Er}.At(freq)
+	// The stub line runs from its reference plane to its end.
+	l := st.Length + throughW/2 - tee.StubShift
+	var z complex128
+	if st.Short {
+		z = InputImpedanceOfLine(sp, l, s.board.ViaToGround(freq))
+	} else {
+		dl, _ := OpenEndExtension(st.Width, s.board.Sub.Height, s.board.Sub.Er, sp.EpsEff, freq)
+		z = InputImpedanceOfLine(sp, l+dl, cmplx.Inf())
+	}
+	return &junction{tee: tee, y: 1 / z}
+}
+
+// ViaToGround returns the impedance from the via pad of a shorted stub to
+// ground at freq: the Goldfarb-Pucel via in parallel with its pad's
+// capacitance.
+func (b Board) ViaToGround(freq float64) complex128 {
+	sub := b.Sub
+	zv := ViaImpedance(sub.Height, b.Via.Drill/2, sub.conductivity(), freq)
+	c := 0.0
+	if b.Via.Pad > b.Via.Drill {
+		c = ViaPadCapacitance(b.Via.Pad/2, b.Via.Drill/2, sub.Height, sub.Er)
+	}
+	return ViaToGround(zv, c, freq)
+}
+
+// InputReflection returns S11 at the source port at freq with zLoad on the
+// load port, referred to z0.
+func (s *Sim) InputReflection(freq float64, zLoad complex128, z0 float64) complex128 {
+	return Reflection(s.ABCD(freq).InputImpedance(zLoad), z0)
+}
+
+// Loss returns the dissipated fraction of the available power, in dB,
+// when the network is driven from z0 and terminated in zLoad: the mismatch
+// is excluded, so it is the network's own loss.
+func (s *Sim) Loss(freq float64, zLoad complex128, z0 float64) float64 {
+	a := s.ABCD(freq)
+	zin := a.InputImpedance(zLoad)
+	// Power into the input per unit |V1|²: Re(1/zin); power into the load:
+	// |V2|²·Re(1/zLoad) with V2 = V1·zLoad/(A·zLoad + B).
+	v2 := zLoad / (a[0][0]*zLoad + a[0][1])
+	pin := real(1 / zin)
+	pl := cmplx.Abs(v2) * cmplx.Abs(v2) * real(1/zLoad)
+	if pin <= 0 || pl <= 0 {
+		return math.Inf(1)
+	}
+	return 10 * math.Log10(pin/pl)
+}

@@ -1,0 +1,299 @@
+package synth
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+
+	"gonum.org/v1/gonum/optimize"
+
+	"stubcraft/physical"
+	"stubcraft/stackups"
+)
+
+// Load is the impedance to be matched, as a function of frequency.
+type Load interface {
+	// Impedance returns the load impedance at freq (Hz), in ohms.
+	Impedance(freq float64) (complex128, error)
+}
+
+// ConstantLoad is a load whose impedance does not change with frequency.
+type ConstantLoad complex128
+
+// Impedance returns z.
+func (z ConstantLoad) Impedance(float64) (complex128, error) { return complex128(z), nil }
+
+// TouchstoneLoad is a one-port load measured or simulated into a
+// Touchstone file; between its points the reflection is interpolated.
+type TouchstoneLoad struct{ File *physical.Touchstone }
+
+// Impedance returns the interpolated load impedance at freq.
+func (t TouchstoneLoad) Impedance(freq float64) (complex128, error) {
+	return t.File.LoadImpedance(freq)
+}
+
+// BuildInput is everything Build needs, already decoded.
+type BuildInput struct {
+	Design  Design
+	Stackup stackups.Stackup
+	Load    Load
+	// Lines makes line models; nil means LineMakerFor(Stackup, a new cache).
+	Lines physical.LineMaker
+	// SkipTolerance turns the Monte Carlo analysis off.
+	SkipTolerance bool
+}
+
+// Result is a built design: the corrected physical network and the proof
+// that it matches.
+type Result struct {
+	Design    Design
+	Stackup   stackups.Stackup
+	Model     string // the line model used
+	LoadF0    complex128
+	Physical  Physical
+	Sections  []Section // the electrical network, from the load
+	Notes     []string
+	Warnings  []string
+	Recentre  Recentring
+	S11F0     complex128 // the drawn layout at f0, full model
+	Uncorr    complex128 // at f0, without the discontinuity corrections
+	Sweep     Sweep
+	BW10      Band
+	BW20      Band
+	LossF0DB  float64 // the network's own dissipation at f0, dB
+	Tolerance *Tolerance
+}
+
+// Band is a contiguous frequency range around f0.
+type Band struct {
+	Lo, Hi float64 // Hz
+	OK     bool    // false when |S11| is above the threshold at f0
+}
+
+// Width returns the band's width in Hz.
+func (b Band) Width() float64 {
+	if !b.OK {
+		return 0
+	}
+	return b.Hi - b.Lo
+}
+
+// Sweep is the response of the drawn layout across a band.
+type Sweep struct {
+	Freqs []float64    // Hz
+	S11   []complex128 // input reflection with the load, referred to z0
+	Zin   []complex128 // input impedance, ohm
+	ZLoad []complex128 // load impedance, ohm
+	// Network is the two-port S-matrix of the matching network alone
+	// (port 1 the source side, port 2 the load port), referred to z0.
+	Network [][2][2]complex128
+}
+
+// Recentring records the optimiser's adjustment of the drawn lengths.
+type Recentring struct {
+	Before, After complex128 // S11 at f0
+	Changes       []float64  // per adjustable element, m, in Elements order
+	IDs           []string
+	Evaluations   int
+}
+
+// Build runs the whole path for one design on one stackup: electrical
+// solution, widths and lengths, discontinuity corrections, re-centring,
+// band sweep and tolerance analysis.
+func Build(in BuildInput) (*Result, error) {
+	d := in.Design
+	f0, z0 := d.Freq, d.Z0
+	sub := in.Stackup.Substrate()
+	mk := in.Lines
+	if mk == nil {
+		mk = LineMakerFor(in.Stackup, NewSolverCache())
+	}
+	zl, err := in.Load.Impedance(f0)
+	if err != nil {
+		return nil, fmt.Errorf("load at %.6g GHz: %w", f0/1e9, err)
+	}
+	sections, notes, err := d.Electrical(zl)
+	if err != nil {
+		return nil, err
+	}
+	ph, err := ToPhysical(sections, f0, z0, sub, mk, PhysicalOptions{
+		FeedLength: d.Layout.FeedLength,
+		Via:        physical.Via{Drill: d.Layout.ViaDrill, Pad: d.Layout.ViaPad},
+	})
+	if err != nil {
+		return nil, err
+	}
+	r := &Result{Design: d, Stackup: in.Stackup, LoadF0: zl, Sections: sections, Physical: ph}
+	r.Notes = append(append(r.Notes, notes...), ph.Notes...)
+	r.Warnings = append(r.Warnings, ph.Warnings...)
+	if len(ph.Elements) > 0 {
+		r.Model = ph.Elements[0].Model
+	}
+	for _, e := range ph.Elements {
+		if e.Width < d.Fab.MinWidth {
+			r.Warnings = append(r.Warnings, fmt.Sprintf("%s: width %.3f mm is below the fab minimum %.3f mm", e.ID, e.Width*1e3, d.Fab.MinWidth*1e3))
+		}
+	}
+
+	uncorr, err := physical.NewSim(ph.Uncorrected(), mk)
+	if err != nil {
+		return nil, err
+	}
+	r.Uncorr = uncorr.InputReflection(f0, zl, z0)
+
+	if err := r.recentre(mk, zl); err != nil {
+		return nil, err
+	}
+	sim, err := physical.NewSim(r.Physical.Board, mk)
+	if err != nil {
+		return nil, err
+	}
+	r.S11F0 = sim.InputReflection(f0, zl, z0)
+	r.LossF0DB = sim.Loss(f0, zl, z0)
+	if err := r.sweep(sim, in.Load); err != nil {
+		return nil, err
+	}
+	if !in.SkipTolerance && d.Tolerance.Samples > 0 {
+		tmk, err := ToleranceMaker(r.Physical.Board, mk, UsesFieldSolver(in.Stackup))
+		if err != nil {
+			return nil, err
+		}
+		t, err := Analyse(r.Physical.Board, sub, tmk, zl, f0, z0, d.Tolerance)
+		if err != nil {
+			return nil, err
+		}
+		r.Tolerance = &t
+		r.Notes = append(r.Notes, t.Notes...)
+	}
+	return r, nil
+}
+
+// recentre lets Nelder-Mead (gonum/optimize) adjust the drawn lengths of
+// the lines and stubs of the solution so that the full model's |S11| at f0
+// is least. The corrections put the layout close already; this takes out
+// what they cannot: loss, and the small asymmetries of the tee model.
+func (r *Result) recentre(mk physical.LineMaker, zl complex128) error {
+	f0, z0 := r.Design.Freq, r.Design.Z0
+	ph := &r.Physical
+	var idx []int
+	for i, e := range ph.Elements {
+		if e.Role != RoleFeed {
+			idx = append(idx, i)
+		}
+	}
+	start := make([]float64, len(idx))
+	for k, i := range idx {
+		start[k] = ph.Elements[i].DrawnLength
+	}
+	// The lengths are optimised in units of a guided wavelength so the
+	// simplex is well scaled.
+	lg := ph.Elements[idx[0]].Params.GuidedWavelength()
+	boardFor := func(x []float64) (physical.Board, bool) {
+		q := *ph
+		q.Elements = append([]Element(nil), ph.Elements...)
+		for k, i := range idx {
+			l := start[k] + x[k]*lg
+			if l <= 0 {
+				return physical.Board{}, false
+			}
+			q.Elements[i].DrawnLength = l
+		}
+		return q.board(ph.Board.Sub, ph.Board.Via), true
+	}
+	objective := func(x []float64) float64 {
+		b, ok := boardFor(x)
+		if !ok {
+			return 10
+		}
+		sim, err := physical.NewSim(b, mk)
+		if err != nil {
+			return 10
+		}
+		g := sim.InputReflection(f0, zl, z0)
+		return real(g)*real(g) + imag(g)*imag(g)
+	}
+	before, err := physical.NewSim(ph.Board, mk)
+	if err != nil {
+		return err
+	}
+	r.Recentre.Before = before.InputReflection(f0, zl, z0)
+	x0 := make([]float64, len(idx))
+	res, err := optimize.Minimize(optimize.Problem{Func: objective}, x0,
+		&optimize.Settings{FuncEvaluations: 2000, Converger: &optimize.FunctionConverge{Absolute: 1e-14, Iterations: 50}},
+		&optimize.NelderMead{InitialVertices: nil, SimplexSize: 0.01})
+	if err != nil && res == nil {
+		return fmt.Errorf("re-centring: %w", err)
+	}
+	r.Recentre.Evaluations = res.FuncEvaluations
+	if res.F >= objective(x0) {
+		// Nothing better was found: keep the corrected layout.
+		r.Recentre.After = r.Recentre.Before
+		for _, i := range idx {
+			r.Recentre.IDs = append(r.Recentre.IDs, ph.Elements[i].ID)
+			r.Recentre.Changes = append(r.Recentre.Changes, 0)
+		}
+		return nil
+	}
+	for k, i := range idx {
+		e := &ph.Elements[i]
+		dl := res.X[k] * lg
+		e.Recentre = dl
+		e.DrawnLength = start[k] + dl
+		r.Recentre.IDs = append(r.Recentre.IDs, e.ID)
+		r.Recentre.Changes = append(r.Recentre.Changes, dl)
+	}
+	ph.Board = ph.board(ph.Board.Sub, ph.Board.Via)
+	after, err := physical.NewSim(ph.Board, mk)
+	if err != nil {
+		return err
+	}
+	r.Recentre.After = after.InputReflection(f0, zl, z0)
+	return nil
+}
+
+// sweep fills r.Sweep and the bandwidths.
+func (r *Result) sweep(sim *physical.Sim, load Load) error {
+	sw := r.Design.Sweep
+	n := sw.Points
+	if n < 2 {
+		n = 2
+	}
+	s := Sweep{}
+	z0 := r.Design.Z0
+	for i := 0; i < n; i++ {
+		f := sw.Start + (sw.Stop-sw.Start)*float64(i)/float64(n-1)
+		zl, err := load.Impedance(f)
+		if err != nil {
+			return fmt.Errorf("sweep: load at %.6g GHz: %w", f/1e9, err)
+		}
+		a := sim.ABCD(f)
+		zin := a.InputImpedance(zl)
+		s.Freqs = append(s.Freqs, f)
+		s.ZLoad = append(s.ZLoad, zl)
+		s.Zin = append(s.Zin, zin)
+		s.S11 = append(s.S11, physical.Reflection(zin, z0))
+		s.Network = append(s.Network, a.S(z0))
+	}
+	r.Sweep = s
+	f0 := r.Design.Freq
+	for _, b := range []struct {
+		db  float64
+		dst *Band
+	}{{-10, &r.BW10}, {-20, &r.BW20}} {
+		lo, hi, ok := physical.Bandwidth(s.Freqs, s.S11, b.db, f0)
+		*b.dst = Band{Lo: lo, Hi: hi, OK: ok}
+	}
+	if !r.BW10.OK {
+		r.Warnings = append(r.Warnings, fmt.Sprintf("|S11| at %.6g GHz is above −10 dB: the layout does not match", f0/1e9))
+	}
+	return nil
+}
+
+// S11DB returns 20·log10|Γ|, floored at −300 dB for a perfect match.
+func S11DB(g complex128) float64 {
+	m := cmplx.Abs(g)
+	if m < 1e-15 {
+		return -300
+	}
+	return 20 * math.Log10(m)
+}

@@ -1,0 +1,128 @@
+package synth
+
+import (
+	"stubcraft/physical"
+	"stubcraft/physical/fieldsolve"
+	"stubcraft/stackups"
+)
+
+// SolverCache keeps the field solver's answers for the length of one run,
+// so that a width searched for once is not solved again.
+type SolverCache = fieldsolve.Cache
+
+// NewSolverCache returns an empty cache for one run.
+func NewSolverCache() *SolverCache { return fieldsolve.NewCache() }
+
+// UsesFieldSolver reports whether lines on st need the field solver: the
+// closed forms know neither solder mask nor grounded coplanar lines.
+func UsesFieldSolver(st stackups.Stackup) bool {
+	return st.Mask != nil || st.Line == "gcpw"
+}
+
+// LineMakerFor returns the line model for strips on st: the closed-form
+// microstrip models for a bare microstrip, else the 2-D field solver
+// (results kept in cache).
+func LineMakerFor(st stackups.Stackup, cache *SolverCache) physical.LineMaker {
+	if !UsesFieldSolver(st) {
+		return physical.MicrostripMaker
+	}
+	geometry, gap := fieldsolve.Microstrip, 0.0
+	if st.Line == "gcpw" {
+		geometry, gap = fieldsolve.GCPW, st.Gap
+	}
+	return func(width float64, sub physical.Substrate) (physical.LineModel, error) {
+		cs, err := fieldsolve.FromSubstrate(geometry, width, gap, sub)
+		if err != nil {
+			return nil, err
+		}
+		return fieldsolve.NewLineModel(cs, sub, cache)
+	}
+}
+
+// ToleranceMaker returns the line maker the tolerance analysis uses for
+// board b. For the closed-form models it is mk itself. For the field solver
+// a thousand boards of solves would take minutes, so each perturbed line is
+// the closed-form microstrip on the perturbed board, scaled by the ratio
+// of the solver's static Z0 and εeff to the closed form's on the nominal
+// board at the nearest nominal width: the closed forms carry the
+// sensitivities, the solver the absolute values.
+func ToleranceMaker(b physical.Board, mk physical.LineMaker, solver bool) (physical.LineMaker, error) {
+	if !solver {
+		return mk, nil
+	}
+	type ratio struct{ z, e float64 }
+	var widths []float64
+	ratios := map[float64]ratio{}
+	add := func(w float64) error {
+		if _, ok := ratios[w]; ok {
+			return nil
+		}
+		m, err := mk(w, b.Sub)
+		if err != nil {
+			return err
+		}
+		cf, err := physical.NewMicrostrip(w, b.Sub)
+		if err != nil {
+			return err
+		}
+		mz, me := m.Static()
+		cz, ce := cf.Static()
+		ratios[w] = ratio{mz / cz, me / ce}
+		widths = append(widths, w)
+		return nil
+	}
+	for _, t := range b.Through {
+		if err := add(t.Width); err != nil {
+			return nil, err
+		}
+	}
+	for _, s := range b.Stubs {
+		if err := add(s.Width); err != nil {
+			return nil, err
+		}
+	}
+	return func(w float64, sub physical.Substrate) (physical.LineModel, error) {
+		nearest := widths[0]
+		for _, n := range widths[1:] {
+			if abs(n-w) < abs(nearest-w) {
+				nearest = n
+			}
+		}
+		cf, err := physical.NewMicrostrip(w, sub)
+		if err != nil {
+			return nil, err
+		}
+		r := ratios[nearest]
+		return scaledLine{cf, r.z, r.e}, nil
+	}, nil
+}
+
+func abs(x float64) float64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+// scaledLine is a closed-form line whose impedance and effective
+// permittivity are scaled by fixed ratios.
+type scaledLine struct {
+	*physical.MicrostripModel
+	kz, ke float64
+}
+
+func (s scaledLine) At(freq float64) physical.LineParams {
+	p := s.MicrostripModel.At(freq)
+	p.Z0 *= s.kz
+	p.EpsEff *= s.ke
+	return p
+}
+
+func (s scaledLine) Static() (z0, epsEff float64) {
+	z, e := s.MicrostripModel.Static()
+	return z * s.kz, e * s.ke
+}
+
+func (s scaledLine) Name() string {
+	return "closed form scaled to the field solver (tolerance analysis)"
+}

@@ -1,0 +1,316 @@
+package synth
+
+import (
+	"fmt"
+	"math"
+	"math/cmplx"
+
+	"stubcraft/physical"
+)
+
+// Role says what an element of the physical network does.
+type Role string
+
+// The roles of physical elements.
+const (
+	RoleFeed Role = "feed" // a line to a port, drawn to a fixed length
+	RoleLine Role = "line" // a series line of the electrical solution
+	RoleStub Role = "stub" // a shunt stub of the electrical solution
+)
+
+// Element is one line of the physical network, with what was done to its
+// length. Lengths are metres; the corrections are signed changes, so
+//
+//	DrawnLength = LineLength + OpenEnd + Tee + Via + Recentre.
+//
+// A through element's drawn length runs along the centre line between its
+// ends (a port edge or a tee's centre line); a stub's runs from the through
+// line's edge to its open end, or to the centre of its via.
+type Element struct {
+	ID            string
+	Role          Role
+	End           StubEnd // stubs only
+	Z0            float64 // target characteristic impedance at f0, ohm
+	Width         float64 // m
+	ElectricalDeg float64 // at f0, of the electrical solution
+	LineLength    float64 // the length of this width with ElectricalDeg at f0, m
+	OpenEnd       float64 // open-end shortening (Kirschning-Jansen-Koster), m
+	Tee           float64 // T-junction compensation (Hammerstad), m
+	Via           float64 // via-inductance compensation (Goldfarb-Pucel), m
+	Recentre      float64 // change made by the re-centring optimiser, m
+	DrawnLength   float64 // the copper drawn, m
+	At            int     // stubs: index of the through element on the load side of the tee
+	Params        physical.LineParams
+	Model         string
+}
+
+// Physical is the corrected physical network of an electrical solution.
+type Physical struct {
+	Elements []Element // through elements from the load port to the source port, then the stubs
+	Board    physical.Board
+	Notes    []string // what was moved or decided, for the report
+	Warnings []string // validity and fab warnings
+	lines    map[float64]WidthResult
+}
+
+// PhysicalOptions are the layout choices that change the electrical network.
+type PhysicalOptions struct {
+	FeedLength float64 // drawn length of the feed line at each port, m
+	Via        physical.Via
+}
+
+// ThroughIndex returns the indices into Elements of the through elements, in order from the load port.
+func (p Physical) ThroughIndex() []int {
+	var idx []int
+	for i, e := range p.Elements {
+		if e.Role != RoleStub {
+			idx = append(idx, i)
+		}
+	}
+	return idx
+}
+
+// ToPhysical turns an electrical network, listed from the load toward the
+// source, into drawn copper on sub at f0: a width for each impedance, a
+// length for each electrical length with dispersion, and the corrections
+// for the T-junctions (Hammerstad 1981), open ends (Kirschning, Jansen and
+// Koster 1981) and vias (Goldfarb and Pucel 1991).
+//
+// A feed line of opt.FeedLength joins each port. On the load side the feed
+// is the first part of the first line section (same width), so the
+// electrical network is unchanged; a correction that would make a length
+// negative moves that element to the next solution, half a guided
+// wavelength longer, and says so in Notes.
+func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk physical.LineMaker, opt PhysicalOptions) (Physical, error) {
+	if len(sections) == 0 {
+		return Physical{}, fmt.Errorf("the electrical network has no sections")
+	}
+	if sections[0].Kind != SeriesLine {
+		return Physical{}, fmt.Errorf("the electrical network starts with a stub at the load port; start it with a line from the load (the load-side feed of %.3g mm is carved from that line)", opt.FeedLength*1e3)
+	}
+	for i := 1; i < len(sections); i++ {
+		if sections[i].Kind == ShuntStub && sections[i-1].Kind == ShuntStub {
+			return Physical{}, fmt.Errorf("sections %d and %d are two stubs at one point; one stub per tee is supported", i, i+1)
+		}
+	}
+	p := Physical{lines: map[float64]WidthResult{}}
+	line := func(z float64) (WidthResult, error) {
+		if r, ok := p.lines[z]; ok {
+			return r, nil
+		}
+		r, err := WidthWith(mk, sub, z, f0)
+		if err != nil {
+			return WidthResult{}, fmt.Errorf("%.4g Ω line: %w", z, err)
+		}
+		for _, w := range r.Warnings {
+			p.warn(fmt.Sprintf("%.4g Ω line: %s", z, w))
+		}
+		p.lines[z] = r
+		return r, nil
+	}
+	element := func(id string, role Role, z, deg float64) (Element, error) {
+		r, err := line(z)
+		if err != nil {
+			return Element{}, err
+		}
+		l := PhysicalLength(r.Params, deg)
+		return Element{ID: id, Role: role, Z0: z, Width: r.Width, ElectricalDeg: deg,
+			LineLength: l, DrawnLength: l, Params: r.Params, Model: r.Model.Name()}, nil
+	}
+
+	// Through elements and stubs, in order from the load.
+	var through, stubs []Element
+	first, err := line(sections[0].Z0)
+	if err != nil {
+		return Physical{}, err
+	}
+	feedDeg := ElectricalDegrees(first.Params, opt.FeedLength)
+	if opt.FeedLength > 0 {
+		e, err := element("feed-load", RoleFeed, sections[0].Z0, feedDeg)
+		if err != nil {
+			return Physical{}, err
+		}
+		through = append(through, e)
+	}
+	nLine, nStub := 0, 0
+	for i, s := range sections {
+		switch s.Kind {
+		case SeriesLine:
+			nLine++
+			deg := s.LengthDeg
+			if i == 0 && opt.FeedLength > 0 {
+				deg -= feedDeg
+				for deg < 0 {
+					deg += 180
+					p.note(fmt.Sprintf("line%d: the load-side feed (%.3g mm, %.2f°) is longer than the line's %.2f°; the line moved to the next solution, 180° longer",
+						nLine, opt.FeedLength*1e3, feedDeg, s.LengthDeg))
+				}
+			}
+			e, err := element(fmt.Sprintf("line%d", nLine), RoleLine, s.Z0, deg)
+			if err != nil {
+				return Physical{}, err
+			}
+			through = append(through, e)
+		case ShuntStub:
+			nStub++
+			e, err := element(fmt.Sprintf("stub%d", nStub), RoleStub, s.Z0, s.LengthDeg)
+			if err != nil {
+				return Physical{}, err
+			}
+			e.End = s.End
+			e.At = len(through) - 1
+			stubs = append(stubs, e)
+		default:
+			return Physical{}, fmt.Errorf("section %d: unknown kind %v", i+1, s.Kind)
+		}
+	}
+	feed, err := element("feed-source", RoleFeed, z0, 0)
+	if err != nil {
+		return Physical{}, err
+	}
+	feed.LineLength, feed.DrawnLength = opt.FeedLength, opt.FeedLength
+	feed.ElectricalDeg = ElectricalDegrees(feed.Params, opt.FeedLength)
+	through = append(through, feed)
+	if feed.DrawnLength <= 0 && stubs != nil && stubs[len(stubs)-1].At == len(through)-2 {
+		return Physical{}, fmt.Errorf("the last stub sits at the source port: give the source-side feed a length")
+	}
+
+	// Corrections at each tee.
+	for k := range stubs {
+		st := &stubs[k]
+		arm := &through[st.At]
+		tee := physical.Tee{ThroughZ0: arm.Params.Z0, ThroughEpsEff: arm.Params.EpsEff,
+			StubZ0: st.Params.Z0, StubEpsEff: st.Params.EpsEff, H: sub.Height, Er: sub.Er}.At(f0)
+		for _, w := range tee.Warnings {
+			p.warn(st.ID + " tee: " + w)
+		}
+		if tee.N <= 0 {
+			return Physical{}, fmt.Errorf("%s: the T-junction model fails at %.4g GHz (n² ≤ 0): the lines are too wide for this frequency", st.ID, f0/1e9)
+		}
+		// Through arms on both sides of the tee are measured to its centre
+		// line; the model's arms begin ThroughShift from it.
+		for _, j := range []int{st.At, st.At + 1} {
+			if through[j].Role == RoleLine {
+				through[j].Tee += tee.ThroughShift
+			}
+		}
+		edge := max(arm.Width, through[st.At+1].Width)
+		if err := p.correctStub(st, tee, edge, sub, f0, opt.Via); err != nil {
+			return Physical{}, err
+		}
+	}
+	for j := range through {
+		e := &through[j]
+		e.DrawnLength = e.LineLength + e.Tee
+		for e.Role == RoleLine && e.DrawnLength < 0 {
+			half := e.Params.GuidedWavelength() / 2
+			e.ElectricalDeg += 180
+			e.LineLength += half
+			e.DrawnLength += half
+			p.note(fmt.Sprintf("%s: the tee correction made the line negative; it moved to the next solution, half a guided wavelength (%.3f mm) longer", e.ID, half*1e3))
+		}
+	}
+
+	p.Elements = append(through, stubs...)
+	p.Board = p.board(sub, opt.Via)
+	return p, nil
+}
+
+// correctStub sets the open-end, tee and via corrections of a stub hung on
+// a through line of width throughW (the wider of the two arms, whose edge
+// the stub's drawn length starts from). The tee's susceptance and turns ratio
+// are compensated exactly at f0: the stub is given the length whose
+// admittance, seen through the n:1 transformer and beside jB, equals the
+// ideal stub's.
+func (p *Physical) correctStub(st *Element, tee physical.TeeParams, throughW float64, sub physical.Substrate, f0 float64, via physical.Via) error {
+	beta := st.Params.Beta()
+	zs := st.Z0
+	theta := st.ElectricalDeg * math.Pi / 180
+	var bIdeal float64 // the ideal stub's susceptance, S
+	if st.End == Short {
+		bIdeal = -1 / (zs * math.Tan(theta))
+	} else {
+		bIdeal = math.Tan(theta) / zs
+	}
+	// At the node the stub appears as y/n² beside jB.
+	bRef := (bIdeal - tee.B) * tee.N * tee.N
+	// The angle a stub with an ideal end needs to present jbRef.
+	var thetaRef float64
+	if st.End == Short {
+		thetaRef = math.Atan(-1 / (zs * bRef))
+	} else {
+		thetaRef = math.Atan(zs * bRef)
+	}
+	// Take the branch nearest to the ideal solution.
+	thetaRef += math.Pi * math.Round((theta-thetaRef)/math.Pi)
+	// The end's own reactance as a length.
+	var endLen float64
+	if st.End == Short {
+		zv := (physical.Board{Sub: sub, Via: via}).ViaToGround(f0)
+		// A load jX at the end of a shorted stub acts as extra line of
+		// length atan(X/Zs)/β.
+		endLen = math.Atan2(imag(zv), zs) / beta
+		if cmplx.Abs(zv) == 0 {
+			endLen = 0
+		}
+		st.Via = -endLen
+	} else {
+		dl, warns := physical.OpenEndExtension(st.Width, sub.Height, sub.Er, st.Params.EpsEff, f0)
+		for _, w := range warns {
+			p.warn(st.ID + ": " + w)
+		}
+		endLen = dl
+		st.OpenEnd = -dl
+	}
+	lRef := thetaRef/beta - endLen
+	drawn := lRef + tee.StubShift - throughW/2
+	minLen := 0.0
+	if st.End == Short {
+		minLen = via.Pad / 2
+	}
+	for drawn <= minLen {
+		half := math.Pi / beta
+		drawn += half
+		st.ElectricalDeg += 180
+		st.LineLength += half
+		p.note(fmt.Sprintf("%s: the corrections left too little stub; it moved to the next solution, half a guided wavelength (%.3f mm) longer", st.ID, half*1e3))
+	}
+	st.DrawnLength = drawn
+	st.Tee = drawn - st.LineLength - st.OpenEnd - st.Via
+	return nil
+}
+
+// board returns the drawn network as a physical.Board.
+func (p Physical) board(sub physical.Substrate, via physical.Via) physical.Board {
+	b := physical.Board{Sub: sub, Via: via}
+	for _, e := range p.Elements {
+		if e.Role == RoleStub {
+			b.Stubs = append(b.Stubs, physical.Stub{At: e.At, Width: e.Width, Length: e.DrawnLength, Short: e.End == Short})
+			continue
+		}
+		b.Through = append(b.Through, physical.Trace{Width: e.Width, Length: e.DrawnLength})
+	}
+	return b
+}
+
+// Uncorrected returns the board an engineer would draw without the
+// discontinuity corrections: every element at its LineLength, stubs
+// measured from the through line's edge.
+func (p Physical) Uncorrected() physical.Board {
+	q := p
+	q.Elements = append([]Element(nil), p.Elements...)
+	for i := range q.Elements {
+		q.Elements[i].DrawnLength = q.Elements[i].LineLength
+	}
+	return q.board(p.Board.Sub, p.Board.Via)
+}
+
+func (p *Physical) note(s string) { p.Notes = append(p.Notes, s) }
+func (p *Physical) warn(s string) {
+	for _, w := range p.Warnings {
+		if w == s {
+			return
+		}
+	}
+	p.Warnings = append(p.Warnings, s)
+}

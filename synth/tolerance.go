@@ -1,0 +1,118 @@
+package synth
+
+import (
+	"fmt"
+	"math/rand/v2"
+	"runtime"
+	"sort"
+	"sync"
+
+	"stubcraft/physical"
+)
+
+// YieldThresholdDB is the |S11| at f0 below which a board counts as good
+// in the tolerance analysis (common practice, no source: 15 dB return loss).
+const YieldThresholdDB = -15
+
+// Tolerance is the outcome of the Monte Carlo analysis.
+type Tolerance struct {
+	Spec     ToleranceSpec
+	S11DB    []float64 // |S11| at f0 of each sample, dB, in sample order
+	P50, P90 float64   // median and 90th percentile of S11DB
+	Yield    float64   // fraction of samples below YieldThresholdDB
+	Notes    []string
+}
+
+// Analyse draws spec.Samples boards whose εr, dielectric thickness, etched
+// width and copper thickness are spread uniformly within the given limits
+// (a uniform spread inside the laminate's quoted tolerance: common
+// practice, no source), and simulates |S11| at f0 for each with the full
+// model. One etch offset applies to every line of a board, since etching
+// moves all edges of one panel alike. The draw is reproducible: sample i
+// uses its own generator seeded from (spec.Seed, i), so the result does
+// not depend on how the samples are spread over the processors.
+func Analyse(b physical.Board, sub physical.Substrate, mk physical.LineMaker, zl complex128, f0, z0 float64, spec ToleranceSpec) (Tolerance, error) {
+	n := spec.Samples
+	if n <= 0 {
+		return Tolerance{}, fmt.Errorf("tolerance: %d samples", n)
+	}
+	t := Tolerance{Spec: spec, S11DB: make([]float64, n)}
+	workers := runtime.GOMAXPROCS(0)
+	if workers > n {
+		workers = n
+	}
+	errs := make([]error, workers)
+	var wg sync.WaitGroup
+	for w := 0; w < workers; w++ {
+		wg.Add(1)
+		go func(w int) {
+			defer wg.Done()
+			for i := w; i < n; i += workers {
+				v, err := sample(b, sub, mk, zl, f0, z0, spec, i)
+				if err != nil {
+					errs[w] = fmt.Errorf("tolerance sample %d: %w", i, err)
+					return
+				}
+				t.S11DB[i] = v
+			}
+		}(w)
+	}
+	wg.Wait()
+	for _, err := range errs {
+		if err != nil {
+			return Tolerance{}, err
+		}
+	}
+	sorted := append([]float64(nil), t.S11DB...)
+	sort.Float64s(sorted)
+	t.P50 = quantile(sorted, 0.5)
+	t.P90 = quantile(sorted, 0.9)
+	good := 0
+	for _, v := range sorted {
+		if v < YieldThresholdDB {
+			good++
+		}
+	}
+	t.Yield = float64(good) / float64(n)
+	return t, nil
+}
+
+// sample simulates board i of the analysis.
+func sample(b physical.Board, sub physical.Substrate, mk physical.LineMaker, zl complex128, f0, z0 float64, spec ToleranceSpec, i int) (float64, error) {
+	rng := rand.New(rand.NewPCG(uint64(spec.Seed), uint64(i)))
+	spread := func(limit float64) float64 { return limit * (2*rng.Float64() - 1) }
+	s := sub
+	s.Er = max(sub.Er*(1+spread(spec.Er)), 1)
+	s.Height = sub.Height * (1 + spread(spec.Thickness))
+	s.CopperThickness = sub.CopperThickness * (1 + spread(spec.Copper))
+	etch := spread(spec.Width)
+	q := b
+	q.Sub = s
+	q.Through = append([]physical.Trace(nil), b.Through...)
+	q.Stubs = append([]physical.Stub(nil), b.Stubs...)
+	for k := range q.Through {
+		q.Through[k].Width = max(q.Through[k].Width+etch, 1e-6)
+	}
+	for k := range q.Stubs {
+		q.Stubs[k].Width = max(q.Stubs[k].Width+etch, 1e-6)
+	}
+	sim, err := physical.NewSim(q, mk)
+	if err != nil {
+		return 0, err
+	}
+	return S11DB(sim.InputReflection(f0, zl, z0)), nil
+}
+
+// quantile returns the q-quantile of sorted data by linear interpolation
+// between order statistics (Hyndman and Fan 1996, definition 7).
+func quantile(sorted []float64, q float64) float64 {
+	if len(sorted) == 0 {
+		return 0
+	}
+	h := q * float64(len(sorted)-1)
+	lo := int(h)
+	if lo+1 >= len(sorted) {
+		return sorted[len(sorted)-1]
+	}
+	return sorted[lo] + (h-float64(lo))*(sorted[lo+1]-sorted[lo])
+}
