@@ -100,3 +100,9 @@ func TestOpenEndWarnings(t *testing.T) {
 		}
 	}
 }
+
+func BenchmarkOpenEndExtension(b *testing.B) {
+	for i := 0; i < b.N; i++ {
+		_, _ = OpenEndExtension(1.2e-3, 0.8e-3, 4.4, 3.4, 2.45e9)
+	}
+}

@@ -2,6 +2,7 @@ package physical
 
 import (
 	"math"
+	"math/cmplx"
 	"testing"
 )
 
@@ -170,5 +171,38 @@ func TestTeeThroughWithStub(t *testing.T) {
 	a = TeeParams{N: 0.5, B: 0.01}.ThroughWithStub(y)
 	if want := complex(0, 4.0/50+0.01); !near(a[1][0], want, 1e-12) {
 		t.Errorf("shunt admittance %v, want %v", a[1][0], want)
+	}
+}
+
+func TestTeeCascadeNotch(t *testing.T) {
+	// Through line, tee and open stub cascaded as TeeParams describes. A
+	// stub whose length beyond its reference plane is a quarter wave
+	// presents a short at the node, so S21 = 0 whatever n and B are (exact
+	// consequence of the equivalent circuit).
+	const f = 5e9
+	line := LineParams{Freq: f, Z0: 50, EpsEff: 6.6}
+	stub := LineParams{Freq: f, Z0: 40, EpsEff: 6.7}
+	p := Tee{ThroughZ0: 50, ThroughEpsEff: 6.6, StubZ0: 40, StubEpsEff: 6.7, H: 0.635e-3, Er: 9.8}.At(f)
+	if p.N == 1 || p.B == 0 {
+		t.Fatalf("junction ideal at 5 GHz: %+v", p)
+	}
+	drawn := p.StubShift + stub.GuidedWavelength()/4 // from the through centre line
+	for _, extra := range []float64{0, 0.3e-3} {
+		yStub := 1 / InputImpedanceOfLine(stub, drawn+extra-p.StubShift, complexInf())
+		a := Line(line, 5e-3-p.ThroughShift).Mul(p.ThroughWithStub(yStub)).Mul(Line(line, 7e-3-p.ThroughShift))
+		s21 := cmplx.Abs(a.S(50)[1][0])
+		if extra == 0 && s21 > 1e-9 {
+			t.Errorf("quarter-wave stub beyond its reference plane: |S21| = %g, want 0 (exact)", s21)
+		}
+		if extra > 0 && s21 < 1e-2 {
+			t.Errorf("stub 0.3 mm off the notch: |S21| = %g, want clearly above 0", s21)
+		}
+	}
+}
+
+func BenchmarkTeeAt(b *testing.B) {
+	tee := tee50(1.2, 0.635e-3)
+	for i := 0; i < b.N; i++ {
+		_ = tee.At(2.45e9 + float64(i&7))
 	}
 }

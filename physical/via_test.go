@@ -98,3 +98,9 @@ func TestViaPad(t *testing.T) {
 		t.Errorf("no pad: Z = %v, want the via alone", got)
 	}
 }
+
+func BenchmarkViaImpedance(b *testing.B) {
+	for i := 0; i < b.N; i++ {
+		_ = ViaImpedance(0.8e-3, 0.15e-3, CopperConductivity, 2.45e9)
+	}
+}
