@@ -31,10 +31,12 @@ type TouchstoneError struct {
 	Err    error // an underlying error (a number that did not parse), or nil
 }
 
+// Error formats the error as "source:line: message".
 func (e *TouchstoneError) Error() string {
 	return fmt.Sprintf("%s:%d: %s", e.Source, e.Line, e.Msg)
 }
 
+// Unwrap returns the underlying error, if any.
 func (e *TouchstoneError) Unwrap() error { return e.Err }
 
 // TouchstonePorts returns the port count that a Touchstone 1.1 file name
