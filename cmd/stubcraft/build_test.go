@@ -1,0 +1,215 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+func runRoot(t *testing.T, args ...string) (string, error) {
+	t.Helper()
+	cmd := newRootCmd()
+	var out bytes.Buffer
+	cmd.SetArgs(args)
+	cmd.SetOut(&out)
+	cmd.SetErr(&out)
+	err := cmd.Execute()
+	return out.String(), err
+}
+
+type reportFile struct {
+	FrequencyHz float64 `json:"frequency_hz"`
+	Z0Ohm       float64 `json:"z0_ohm"`
+	Stackup     struct {
+		Name string  `json:"name"`
+		Er   float64 `json:"er"`
+	} `json:"stackup"`
+	Elements []struct {
+		ID            string  `json:"id"`
+		Role          string  `json:"role"`
+		End           string  `json:"end"`
+		Z0Ohm         float64 `json:"z0_ohm"`
+		WidthMM       float64 `json:"width_mm"`
+		ElectricalDeg float64 `json:"electrical_deg"`
+		LineLengthMM  float64 `json:"line_length_mm"`
+		DrawnLengthMM float64 `json:"drawn_length_mm"`
+		OpenEndMM     float64 `json:"open_end_mm"`
+		TeeMM         float64 `json:"tee_mm"`
+	} `json:"elements"`
+	S11DBF0       float64 `json:"s11_db_f0"`
+	S11DBF0Uncorr float64 `json:"s11_db_f0_uncorrected"`
+	Recentring    struct {
+		Before float64 `json:"s11_db_before"`
+	} `json:"recentring"`
+	Bandwidth10DBHz float64 `json:"bandwidth_10db_hz"`
+	Tolerance       *struct {
+		P50   float64 `json:"p50_s11_db"`
+		P90   float64 `json:"p90_s11_db"`
+		Yield float64 `json:"yield"`
+	} `json:"tolerance"`
+	Warnings []string `json:"warnings"`
+	Cautions []string `json:"cautions"`
+}
+
+// The embedded demo builds, matches to −25 dB at f0 in the full model with
+// the corrections alone (before re-centring), is measurably worse without
+// them, and writes every artefact.
+func TestBuildDemo(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	out, err := runRoot(t, "build", "-o", dir, "--samples", "200")
+	if err != nil {
+		t.Fatalf("%v\n%s", err, out)
+	}
+	for _, want := range []string{"stub1", "drawn (mm)", "RF safety", "network analyser"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("summary lacks %q", want)
+		}
+	}
+	data, err := os.ReadFile(filepath.Join(dir, "report.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep reportFile
+	if err := json.Unmarshal(data, &rep); err != nil {
+		t.Fatal(err)
+	}
+	if rep.FrequencyHz != 2.45e9 || rep.Z0Ohm != 50 || rep.Stackup.Name != "fr4-1.6mm" {
+		t.Errorf("report header %+v", rep)
+	}
+	if rep.Recentring.Before > -25 || rep.S11DBF0 > -25 {
+		t.Errorf("|S11| at f0: %.1f dB corrected, %.1f dB re-centred; want ≤ −25 dB", rep.Recentring.Before, rep.S11DBF0)
+	}
+	if rep.S11DBF0Uncorr < rep.Recentring.Before+3 {
+		t.Errorf("uncorrected %.1f dB is not measurably worse than corrected %.1f dB", rep.S11DBF0Uncorr, rep.Recentring.Before)
+	}
+	roles := map[string]int{}
+	for _, e := range rep.Elements {
+		roles[e.Role]++
+		if e.WidthMM <= 0 || e.DrawnLengthMM <= 0 {
+			t.Errorf("element %+v", e)
+		}
+	}
+	if roles["stub"] != 1 || roles["line"] != 1 || roles["feed"] != 2 {
+		t.Errorf("roles %v", roles)
+	}
+	if rep.Tolerance == nil || rep.Tolerance.P50 > rep.Tolerance.P90 || len(rep.Cautions) < 4 || rep.Bandwidth10DBHz <= 0 {
+		t.Errorf("tolerance %+v, cautions %d, bandwidth %g", rep.Tolerance, len(rep.Cautions), rep.Bandwidth10DBHz)
+	}
+	names, _ := os.ReadDir(dir)
+	var got []string
+	for _, n := range names {
+		got = append(got, n.Name())
+	}
+	for _, want := range []string{"report.json", "network.s2p", "matched.s1p", ".gbrjob", "copper-top.gbr", "drill.drl"} {
+		if !strings.Contains(strings.Join(got, " "), want) {
+			t.Errorf("no %s among %v", want, got)
+		}
+	}
+}
+
+// An existing output directory is not silently replaced; --force does it.
+func TestBuildRefusesExistingDir(t *testing.T) {
+	dir := t.TempDir()
+	keep := filepath.Join(dir, "keep.txt")
+	if err := os.WriteFile(keep, []byte("mine"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := runRoot(t, "build", "-o", dir, "--no-tolerance"); err == nil || !strings.Contains(err.Error(), "--force") {
+		t.Fatalf("want a refusal naming --force, got %v", err)
+	}
+	if _, err := os.Stat(keep); err != nil {
+		t.Fatal("the existing directory was touched")
+	}
+	if out, err := runRoot(t, "build", "-o", dir, "--no-tolerance", "--force"); err != nil {
+		t.Fatalf("%v\n%s", err, out)
+	}
+	if _, err := os.Stat(keep); err == nil {
+		t.Error("--force kept the old contents")
+	}
+	if _, err := os.Stat(filepath.Join(dir, "report.json")); err != nil {
+		t.Error(err)
+	}
+}
+
+// Bad design files: a clear error naming the file and key, and nothing
+// written to the output directory.
+func TestBuildBadDesignWritesNothing(t *testing.T) {
+	cases := []struct{ file, want string }{
+		{"bad-unknown-key.toml", "bad-unknown-key.toml:"},
+		{"bad-zero-frequency.toml", "frequency"},
+		{"bad-negative-resistance.toml", "load.impedance"},
+		{"bad-reactive-load.toml", "load"},
+		{"bad-topology.toml", "topology"},
+		{"bad-two-loads.toml", "load"},
+		{"bad-section-kind.toml", "kind"},
+	}
+	for _, c := range cases {
+		t.Run(c.file, func(t *testing.T) {
+			parent := t.TempDir()
+			dir := filepath.Join(parent, "out")
+			_, err := runRoot(t, "build", filepath.Join("..", "..", "testdata", "designs", c.file), "-o", dir)
+			if err == nil || !strings.Contains(err.Error(), c.want) {
+				t.Fatalf("want an error with %q, got %v", c.want, err)
+			}
+			entries, _ := os.ReadDir(parent)
+			if len(entries) != 0 {
+				t.Errorf("something was written: %v", entries)
+			}
+		})
+	}
+}
+
+func TestTraceJSONKeys(t *testing.T) {
+	out, err := runRoot(t, "trace", "--stackup", "fr4-1.6mm", "--freq", "2.45GHz", "--z0", "50", "--length", "90deg", "--json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var m map[string]any
+	if err := json.Unmarshal([]byte(out), &m); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"width_mm", "z0_ohm", "eps_eff", "guided_wavelength_mm", "length_mm", "warnings"} {
+		if _, ok := m[k]; !ok {
+			t.Errorf("no %q in %s", k, out)
+		}
+	}
+	// Common practice, no source: 50 Ω on 1.6 mm FR-4 (εr 4.4, 35 µm) is
+	// about 3.0 mm wide (2.8–3.2 mm).
+	if w := m["width_mm"].(float64); w < 2.8 || w > 3.2 {
+		t.Errorf("width %.3f mm", w)
+	}
+}
+
+func TestCommandErrors(t *testing.T) {
+	cases := [][]string{
+		{"trace", "--freq", "2.45GHz"},
+		{"trace", "--freq", "2.45", "--z0", "50"},
+		{"trace", "--freq", "2.45GHz", "--z0", "-5"},
+		{"trace", "--freq", "2.45GHz", "--z0", "50", "--stackup", "no-such-board"},
+		{"trace", "--freq", "2.45GHz", "--width", "3 furlongs"},
+		{"trace", "--freq", "2.45GHz", "--z0", "1000"},
+		{"build", "--page", "a3", "-o", "x"},
+		{"stackups", "show", "no-such"},
+		{"compare", "--stackups", "nope"},
+	}
+	for _, args := range cases {
+		if _, err := runRoot(t, args...); err == nil {
+			t.Errorf("%v: no error", args)
+		}
+	}
+}
+
+func TestBuildHelpCarriesCautions(t *testing.T) {
+	out, err := runRoot(t, "build", "--help")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"network analyser", "burns", "heat", "Radio regulations", "Local codes"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("build --help lacks %q", want)
+		}
+	}
+}
