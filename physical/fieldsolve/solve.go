@@ -48,13 +48,17 @@ type Result struct {
 	ErrorEstimate float64
 	// BoxError is the part of ErrorEstimate due to the finite box.
 	BoxError float64
-	// Order is the observed order of grid convergence used in the
-	// extrapolation (of C).
+	// Order is the observed order of grid convergence of C (0 when the
+	// last three grids did not converge monotonically). Refinement goes on
+	// until it is between 1 and 3, near the scheme's formal order 2, so
+	// that the three-grid estimate can be trusted.
 	Order float64
 	// Cells is the node count of the finest grid.
 	Cells int
 	// Levels lists the raw answer on each grid, coarsest first.
 	Levels []LevelResult
+
+	trusted bool // the observed orders are near the formal order
 }
 
 // ErrNotConverged is returned, wrapped and together with the best Result,
@@ -68,6 +72,7 @@ const (
 	maxLevels    = 10
 	minLevels    = 3
 	cgTolerance  = 1e-6
+	formalOrder  = 2.0
 )
 
 // Solve computes the quasi-static line parameters of cs. It refines the grid
@@ -119,7 +124,7 @@ func Solve(cs CrossSection, opt Options) (Result, error) {
 			opt.Progress(level+1, maxLevels)
 		}
 		res.extrapolate(box)
-		if level+1 >= minLevels && res.ErrorEstimate < tol {
+		if level+1 >= minLevels && res.ErrorEstimate < tol && res.trusted {
 			return res, nil
 		}
 		n *= refineRatio
@@ -204,16 +209,17 @@ func (r *Result) extrapolate(box float64) {
 	r.Cells = last.Cells
 	r.BoxError = box
 	c, ec, pc := richardson(lv, func(l LevelResult) float64 { return l.C })
-	ca, eca, _ := richardson(lv, func(l LevelResult) float64 { return l.CAir })
+	ca, eca, pa := richardson(lv, func(l LevelResult) float64 { return l.CAir })
 	r.C, r.CAir, r.Order = c, ca, pc
+	r.trusted = asymptotic(pc) && asymptotic(pa)
 	r.Z0, r.EpsEff = lineParams(c, ca)
 	r.ErrorEstimate = 0.5*(ec+eca) + box
 }
 
 // richardson extrapolates the last three values of a grid sequence refined
-// by refineRatio, with the observed order p. It returns the extrapolated
+// by refineRatio, with the observed order p capped at formalOrder. It returns the extrapolated
 // value, its estimated relative error (the size of the extrapolation step)
-// and p. With fewer than three levels, or a sequence that does not converge
+// and the observed p. With fewer than three levels, or a sequence that does not converge
 // monotonically, it returns the finest value and an error estimate from the
 // last change alone, taken as first order (conservative).
 func richardson(lv []LevelResult, f func(LevelResult) float64) (value, relErr, order float64) {
@@ -235,9 +241,14 @@ func richardson(lv []LevelResult, f func(LevelResult) float64) (value, relErr, o
 		return fn, conservative, 0
 	}
 	p := math.Log(math.Abs(d0/d1)) / math.Log(refineRatio)
-	// Cap the order at 4: a larger observed ratio is luck, not asymptotics.
-	p = math.Min(p, 4)
-	step := d1 / (math.Pow(refineRatio, p) - 1)
+	// Cap the order at 2, the formal order of the five-point scheme: a
+	// faster observed convergence is pre-asymptotic luck, and the cap
+	// makes the step, and so the error estimate, larger (Roache 1998).
+	step := d1 / (math.Pow(refineRatio, math.Min(p, formalOrder)) - 1)
 	v := fn + step
 	return v, math.Abs(step) / math.Abs(v), p
 }
+
+// asymptotic reports whether an observed order is close enough to the
+// formal order for the three-level estimate to be trusted.
+func asymptotic(p float64) bool { return p >= 0.5*formalOrder && p <= 1.5*formalOrder }
