@@ -27,8 +27,8 @@ func cautionText() string {
 func newBuildCmd() *cobra.Command {
 	var (
 		outDir, stackupArg, pageArg, scaleArg string
-		force, noTolerance, asJSON             bool
-		samples                                int
+		force, noTolerance, asJSON            bool
+		samples                               int
 	)
 	cmd := &cobra.Command{
 		Use:   "build [design.toml]",
@@ -119,8 +119,12 @@ func artefacts(res *synth.Result, rep export.Report, lay geom.Layout, created ti
 	base := res.Design.Name
 	files := []artefact{
 		{"report.json", func(w io.Writer) error { return export.WriteReport(w, rep) }},
-		{"network.s2p", func(w io.Writer) error { return export.WriteTouchstone(w, networkTouchstone(res), touchstoneComments(res, "the matching network: port 1 the source side, port 2 the load port")) }},
-		{"matched.s1p", func(w io.Writer) error { return export.WriteTouchstone(w, inputTouchstone(res), touchstoneComments(res, "the input of the matched load")) }},
+		{"network.s2p", func(w io.Writer) error {
+			return export.WriteTouchstone(w, networkTouchstone(res), touchstoneComments(res, "the matching network: port 1 the source side, port 2 the load port"))
+		}},
+		{"matched.s1p", func(w io.Writer) error {
+			return export.WriteTouchstone(w, inputTouchstone(res), touchstoneComments(res, "the input of the matched load"))
+		}},
 	}
 	for _, layer := range export.Layers() {
 		layer := layer
