@@ -74,7 +74,7 @@ func Decode(r io.Reader, source string) (Stackup, error) {
 	if err != nil {
 		var pe toml.ParseError
 		if errors.As(err, &pe) {
-			return Stackup{}, &Error{Source: source, Line: pe.Position.Line, Err: syntaxError{pe}}
+			return Stackup{}, &Error{Source: source, Line: syntaxLine(data, pe.Position), Err: syntaxError{pe}}
 		}
 		return Stackup{}, &Error{Source: source, Err: fmt.Errorf("%w: %w", ErrSyntax, err)}
 	}
@@ -91,6 +91,16 @@ func Decode(r io.Reader, source string) (Stackup, error) {
 		return Stackup{}, err
 	}
 	return s, nil
+}
+
+// syntaxLine is the line of the byte at fault. The library counts a
+// newline it did not expect as the start of the next line; the line that
+// holds the newline is the one to fix.
+func syntaxLine(data []byte, p toml.Position) int {
+	if p.Len > 0 && p.Start >= 0 && p.Start < len(data) {
+		return 1 + bytes.Count(data[:p.Start], []byte("\n"))
+	}
+	return p.Line
 }
 
 // syntaxError carries a TOML syntax error without repeating its line,
@@ -218,7 +228,9 @@ func (d *decoder) table(key string, p toml.Primitive, v any, required bool) (boo
 		}
 		return false, nil
 	}
-	if t := d.md.Type(key); t != "Hash" {
+	// A table made implicitly by dotted keys (dielectric.er = 4) has no
+	// type of its own in the metadata.
+	if t := d.md.Type(key); t != "Hash" && t != "" {
 		return false, &Error{Source: d.source, Line: d.lines.line([]string{key}), Key: key,
 			Err: fmt.Errorf("%w: %s must be a table, not %s", ErrType, key, strings.ToLower(t))}
 	}

@@ -155,6 +155,15 @@ func formatLength(x float64) string {
 	return quantityText(x, []string{"um", "mm", "nm"}, []float64{1e-6, 1e-3, 1e-9}, "m", units.ParseLength)
 }
 
+// roundLength writes a length for a message, in mm from 0.1 mm up and in
+// µm below, to six significant digits; it need not read back exactly.
+func roundLength(x float64) string {
+	if math.Abs(x) >= 0.1e-3 {
+		return strconv.FormatFloat(x/1e-3, 'g', short, 64) + "mm"
+	}
+	return strconv.FormatFloat(x/1e-6, 'g', short, 64) + "um"
+}
+
 // formatFrequency writes a frequency in hertz as a quantity string that
 // units.ParseFrequency reads back exactly.
 func formatFrequency(f float64) string {

@@ -50,23 +50,23 @@ func (s Stackup) checks() []check {
 		{"line", quote(s.Line), checkLine(s.Line)},
 		checkGap(s.Line, s.Gap),
 		{"dielectric.er", number(d.Er), between("relative permittivity", d.Er, 1, maxEr, number)},
-		{"dielectric.er_frequency", formatFrequency(d.ErFrequency), checkErFrequency(d.ErFrequency)},
+		{"dielectric.er_frequency", quote(formatFrequency(d.ErFrequency)), checkErFrequency(d.ErFrequency)},
 		{"dielectric.loss_tangent", number(d.LossTangent), lossTangent(d.LossTangent)},
-		{"dielectric.thickness", formatLength(d.Thickness), between("dielectric thickness", d.Thickness, minThickness, maxThickness, formatLength)},
-		{"copper.thickness", formatLength(c.Thickness), between("copper thickness", c.Thickness, 0, maxCopper, formatLength)},
-		{"copper.roughness", formatLength(c.Roughness), checkRoughness(c.Roughness, c.Thickness)},
+		{"dielectric.thickness", quote(formatLength(d.Thickness)), between("dielectric thickness", d.Thickness, minThickness, maxThickness, roundLength)},
+		{"copper.thickness", quote(formatLength(c.Thickness)), between("copper thickness", c.Thickness, 0, maxCopper, roundLength)},
+		{"copper.roughness", quote(formatLength(c.Roughness)), checkRoughness(c.Roughness, c.Thickness)},
 		{"copper.conductivity", number(c.Conductivity), between("conductivity", c.Conductivity, minConductivity, maxConductivity, number)},
 	}
 	if m := s.Mask; m != nil {
 		cs = append(cs,
-			check{"mask.thickness", formatLength(m.Thickness), checkMaskThickness(m.Thickness)},
+			check{"mask.thickness", quote(formatLength(m.Thickness)), checkMaskThickness(m.Thickness)},
 			check{"mask.er", number(m.Er), between("mask relative permittivity", m.Er, 1, maxEr, number)},
 			check{"mask.loss_tangent", number(m.LossTangent), lossTangent(m.LossTangent)},
 		)
 	}
 	return append(cs,
-		check{"spread.er", formatPercent(s.Spread.ErRel), between("a spread", s.Spread.ErRel, 0, maxSpread, formatPercent)},
-		check{"spread.thickness", formatPercent(s.Spread.ThicknessRel), between("a spread", s.Spread.ThicknessRel, 0, maxSpread, formatPercent)},
+		check{"spread.er", quote(formatPercent(s.Spread.ErRel)), between("a spread", s.Spread.ErRel, 0, maxSpread, formatPercent)},
+		check{"spread.thickness", quote(formatPercent(s.Spread.ThicknessRel)), between("a spread", s.Spread.ThicknessRel, 0, maxSpread, formatPercent)},
 	)
 }
 
@@ -108,13 +108,13 @@ func checkLine(line string) error {
 }
 
 func checkGap(line string, gap float64) check {
-	c := check{key: "gap", value: formatLength(gap)}
+	c := check{key: "gap", value: quote(formatLength(gap))}
 	switch {
 	case line == GCPW && gap == 0:
 		c.value = ""
 		c.err = fmt.Errorf("%w: a %s line needs the gap between strip and side grounds", ErrMissing, GCPW)
 	case line == GCPW:
-		c.err = between("the gap", gap, 0, maxGap, formatLength)
+		c.err = between("the gap", gap, 0, maxGap, roundLength)
 		if c.err == nil && gap <= 0 {
 			c.err = fmt.Errorf("the gap must be positive")
 		}
@@ -129,7 +129,7 @@ func checkErFrequency(f float64) error {
 		return nil // not given
 	}
 	if !(f > 0 && f <= maxErFrequency) {
-		return fmt.Errorf("the frequency of er must be positive and at most %s", formatFrequency(maxErFrequency))
+		return fmt.Errorf("the frequency of er must be positive and at most %s", "1THz")
 	}
 	return nil
 }
@@ -142,17 +142,17 @@ func lossTangent(t float64) error {
 }
 
 func checkRoughness(r, copper float64) error {
-	if err := between("roughness", r, 0, maxRoughness, formatLength); err != nil {
+	if err := between("roughness", r, 0, maxRoughness, roundLength); err != nil {
 		return err
 	}
 	if copper > 0 && r >= copper {
-		return fmt.Errorf("RMS roughness must be less than the copper thickness (%s)", formatLength(copper))
+		return fmt.Errorf("RMS roughness must be less than the copper thickness (%s)", roundLength(copper))
 	}
 	return nil
 }
 
 func checkMaskThickness(t float64) error {
-	if err := between("mask thickness", t, 0, maxMaskThickness, formatLength); err != nil {
+	if err := between("mask thickness", t, 0, maxMaskThickness, roundLength); err != nil {
 		return err
 	}
 	if t <= 0 {
