@@ -37,9 +37,11 @@ func (m *MicrostripModel) initLoss() {
 	// Filling factor q = (εeff−1)/(εr−1); at εr = 1 its limit (1 + X)/2,
 	// X being the width term of the Hammerstad-Jensen εeff (no thickness
 	// term: Δur = Δu1 there).
-	q := (1 + hjWidthTerm(m.ur, m.er)) / 2
+	var q float64
 	if m.er > 1 {
 		q = (m.e0 - 1) / (m.er - 1)
+	} else {
+		q = (1 + hjWidthTerm(m.ur, m.er)) / 2
 	}
 	m.adK = math.Pi / C0 * m.er / math.Sqrt(m.e0) * q * sub.LossTangent
 }

@@ -137,11 +137,14 @@ func (m *MicrostripModel) initStatic() {
 	m.lnZ0Eta = math.Log(m.z0 / Eta0)
 }
 
+// ln30p666 is ln 30.666, for the Hammerstad-Jensen f(u).
+const ln30p666 = 3.4231545490141975
+
 // hjZ01 is the Hammerstad-Jensen impedance of a zero-thickness strip of
 // normalised width u in air (1980, accuracy better than 0.01 % for u ≤ 1
 // and 0.03 % for u ≤ 1000, from memory).
 func hjZ01(u float64) float64 {
-	f := 6 + (2*math.Pi-6)*math.Exp(-math.Pow(30.666/u, 0.7528))
+	f := 6 + (2*math.Pi-6)*expFast(-expFast(0.7528*(ln30p666-math.Log(u))))
 	return Eta0 / (2 * math.Pi) * math.Log(f/u+math.Sqrt(1+4/(u*u)))
 }
 
@@ -155,9 +158,10 @@ func hjEpsEff(u, er float64) float64 {
 // hjWidthTerm is X = (1 + 10/u)^(−a(u)·b(εr)) of the Hammerstad-Jensen εeff.
 func hjWidthTerm(u, er float64) float64 {
 	u4 := u * u * u * u
-	a := 1 + math.Log((u4+(u/52)*(u/52))/(u4+0.432))/49 + math.Log(1+math.Pow(u/18.1, 3))/18.7
-	b := 0.564 * math.Pow((er-0.9)/(er+3), 0.053)
-	return math.Pow(1+10/u, -a*b)
+	v := u / 18.1
+	a := 1 + math.Log((u4+(u/52)*(u/52))/(u4+0.432))/49 + math.Log(1+v*v*v)/18.7
+	b := 0.564 * expFast(0.053*math.Log((er-0.9)/(er+3)))
+	return expFast(-a * b * math.Log(1+10/u))
 }
 
 // Static returns the Hammerstad-Jensen quasi-static impedance (ohm) and
@@ -183,8 +187,7 @@ func (m *MicrostripModel) Name() string {
 // At returns the line's properties at freq (Hz). At freq ≤ 0 it returns
 // the static impedance and permittivity with zero attenuation.
 func (m *MicrostripModel) At(freq float64) LineParams {
-	if !(freq > 0) {
-		return LineParams{Freq: freq, Z0: m.z0, EpsEff: m.e0}
-	}
-	return m.at(freq)
+	var out [1]LineParams
+	m.evaluateBlock([]float64{freq}, out[:])
+	return out[0]
 }

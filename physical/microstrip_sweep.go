@@ -36,10 +36,11 @@ func (m *MicrostripModel) Sweep(freqs []float64, dst []LineParams) []LineParams 
 	return dst
 }
 
-// sweepInto writes At(freqs[i]) into out[i].
+// sweepInto writes At(freqs[i]) into out[i], a block at a time.
 func (m *MicrostripModel) sweepInto(freqs []float64, out []LineParams) {
-	for i, f := range freqs {
-		out[i] = m.At(f)
+	for lo := 0; lo < len(freqs); lo += blockLen {
+		hi := min(lo+blockLen, len(freqs))
+		m.evaluateBlock(freqs[lo:hi], out[lo:hi])
 	}
 }
 

@@ -256,7 +256,7 @@ func TestMicrostripWarnings(t *testing.T) {
 
 // TestLnConstants checks the hand-entered logarithms (exact values).
 func TestLnConstants(t *testing.T) {
-	for _, c := range []struct{ got, x float64 }{{ln38p7, 38.7}, {ln18p365, 18.365}, {ln12p3, 12.3}} {
+	for _, c := range []struct{ got, x float64 }{{ln38p7, 38.7}, {ln18p365, 18.365}, {ln12p3, 12.3}, {ln0p0514, 0.0514}, {ln30p666, 30.666}} {
 		if want := math.Log(c.x); math.Abs(c.got-want) > 1e-15 {
 			t.Errorf("ln %g = %.17g, want %.17g", c.x, c.got, want)
 		}
@@ -307,4 +307,31 @@ func TestRoughnessAndSkin(t *testing.T) {
 			t.Errorf("Kr(Δ/δ = %g) = %.8g, want %.8g", c.ratio, got, c.want)
 		}
 	}
+}
+
+// TestExpFast holds expFast to math.Exp (the reference) within 4 ulp over
+// the whole range it handles itself, and to exact values where they exist.
+func TestExpFast(t *testing.T) {
+	for _, c := range []struct{ x, want float64 }{
+		{0, 1}, {1, math.E}, {math.Ln2, 2}, {-math.Ln2, 0.5}, {10 * math.Ln2, 1024},
+		{math.Inf(-1), 0}, {-800, 0}, {800, math.Inf(1)},
+	} {
+		if got := expFast(c.x); got != c.want && math.Abs(got/c.want-1) > 4*0x1p-52 {
+			t.Errorf("expFast(%g) = %.17g, want %.17g", c.x, got, c.want)
+		}
+	}
+	if got := expFast(math.NaN()); !math.IsNaN(got) {
+		t.Errorf("expFast(NaN) = %g, want NaN", got)
+	}
+	worst := 0.0
+	for i := 0; i <= 2000000; i++ {
+		x := -707.9 + 1416.8*float64(i)/2000000
+		got, want := expFast(x), math.Exp(x)
+		rel := math.Abs(got/want - 1)
+		worst = math.Max(worst, rel)
+		if rel > 4*0x1p-52 {
+			t.Fatalf("expFast(%.17g) = %.17g, math.Exp %.17g (rel %.2e)", x, got, want, rel)
+		}
+	}
+	t.Logf("worst relative difference from math.Exp: %.2e", worst)
 }
