@@ -30,13 +30,7 @@ func LineMakerFor(st stackups.Stackup, cache *SolverCache) physical.LineMaker {
 	if st.Line == "gcpw" {
 		geometry, gap = fieldsolve.GCPW, st.Gap
 	}
-	return func(width float64, sub physical.Substrate) (physical.LineModel, error) {
-		cs, err := fieldsolve.FromSubstrate(geometry, width, gap, sub)
-		if err != nil {
-			return nil, err
-		}
-		return fieldsolve.NewLineModel(cs, sub, cache)
-	}
+	return fieldsolve.Maker(geometry, gap, cache)
 }
 
 // ToleranceMaker returns the line maker the tolerance analysis uses for
