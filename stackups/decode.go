@@ -210,6 +210,23 @@ func (d *decoder) unknown(path toml.Key, known string) error {
 	return &Error{Source: d.source, Line: d.lines.line(path), Key: path.String(), Err: fmt.Errorf("%w (%s)", ErrUnknownKey, known)}
 }
 
+// typeName turns the library's name of a TOML type into words.
+func typeName(t string) string {
+	switch t {
+	case "ArrayHash":
+		return "an array of tables"
+	case "Array":
+		return "an array"
+	case "Integer":
+		return "an integer"
+	case "Bool":
+		return "a boolean"
+	case "Datetime":
+		return "a date-time"
+	}
+	return "a " + strings.ToLower(t)
+}
+
 func contains(list []string, s string) bool {
 	for _, x := range list {
 		if x == s {
@@ -232,7 +249,7 @@ func (d *decoder) table(key string, p toml.Primitive, v any, required bool) (boo
 	// type of its own in the metadata.
 	if t := d.md.Type(key); t != "Hash" && t != "" {
 		return false, &Error{Source: d.source, Line: d.lines.line([]string{key}), Key: key,
-			Err: fmt.Errorf("%w: %s must be a table, not %s", ErrType, key, strings.ToLower(t))}
+			Err: fmt.Errorf("%w: %s must be a table, not %s", ErrType, key, typeName(t))}
 	}
 	if err := d.md.PrimitiveDecode(p, v); err != nil {
 		return false, &Error{Source: d.source, Line: d.lines.line([]string{key}), Key: key, Err: fmt.Errorf("%w: %w", ErrType, err)}

@@ -282,11 +282,11 @@ func TestDecodeTableErrors(t *testing.T) {
 	rows := []errorRow{
 		{"dielectric missing", noDielectric, "dielectric", "", 0, ErrMissing, "[dielectric]"},
 		{"dielectric not a table", strings.Replace(noDielectric, "test board\"\n", "test board\"\ndielectric = 5\n", 1), "dielectric", "", 3, ErrType, "table"},
-		{"dielectric array of tables", edit(t, "[dielectric]", "[[dielectric]]"), "dielectric", "", 4, ErrType, "table"},
+		{"dielectric array of tables", edit(t, "[dielectric]", "[[dielectric]]"), "dielectric", "", 4, ErrType, "not an array of tables"},
 		{"copper missing", edit(t, "[copper]\nthickness = \"35um\"\nroughness = \"1um\"\nconductivity = 5.8e7\n", ""), "copper", "", 0, ErrMissing, "[copper]"},
 		{"mask not a table", edit(t, "[mask]\nthickness = \"20um\"\ner = 3.5\nloss_tangent = 0.02\n", "[spread.x]\n"), "spread.x", "", 15, ErrUnknownKey, "unknown"},
 		{"mask a string", edit(t, "test board\"\n", "test board\"\nmask = \"thin\"\n", "[mask]\nthickness = \"20um\"\ner = 3.5\nloss_tangent = 0.02\n", ""),
-			"mask", "", 3, ErrType, "must be a table, not string"},
+			"mask", "", 3, ErrType, "must be a table, not a string"},
 	}
 	for _, tt := range rows {
 		_, err := Decode(strings.NewReader(tt.text), "board.toml")

@@ -28,45 +28,55 @@ const (
 func (s Stackup) Validate() error {
 	for _, c := range s.checks() {
 		if c.err != nil {
-			return &Error{Key: c.key, Value: c.value, Err: c.err}
+			return &Error{Key: c.key, Value: c.value(), Err: c.err}
 		}
 	}
 	return nil
 }
 
-// check is one validated field: its key, its value as TOML writes it, and
-// what is wrong with it (nil when nothing is).
+// check is one validated field: its key, its value as TOML writes it
+// (made only when there is an error, as writing lengths exactly takes
+// time), and what is wrong with it (nil when nothing is).
 type check struct {
-	key, value string
-	err        error
+	key   string
+	value func() string
+	err   error
 }
+
+// Value writers for checks.
+func textValue(s string) func() string  { return func() string { return quote(s) } }
+func numValue(v float64) func() string  { return func() string { return number(v) } }
+func lenValue(v float64) func() string  { return func() string { return quote(formatLength(v)) } }
+func freqValue(v float64) func() string { return func() string { return quote(formatFrequency(v)) } }
+func pctValue(v float64) func() string  { return func() string { return quote(formatPercent(v)) } }
+func noValue() string                   { return "" }
 
 // checks lists the checks of every field in schema order.
 func (s Stackup) checks() []check {
 	d, c := s.Dielectric, s.Copper
 	cs := []check{
-		{"name", quote(s.Name), checkName(s.Name)},
-		{"description", quote(s.Description), checkText("a description", s.Description)},
-		{"line", quote(s.Line), checkLine(s.Line)},
+		{"name", textValue(s.Name), checkName(s.Name)},
+		{"description", textValue(s.Description), checkText("a description", s.Description)},
+		{"line", textValue(s.Line), checkLine(s.Line)},
 		checkGap(s.Line, s.Gap),
-		{"dielectric.er", number(d.Er), between("relative permittivity", d.Er, 1, maxEr, number)},
-		{"dielectric.er_frequency", quote(formatFrequency(d.ErFrequency)), checkErFrequency(d.ErFrequency)},
-		{"dielectric.loss_tangent", number(d.LossTangent), lossTangent(d.LossTangent)},
-		{"dielectric.thickness", quote(formatLength(d.Thickness)), between("dielectric thickness", d.Thickness, minThickness, maxThickness, roundLength)},
-		{"copper.thickness", quote(formatLength(c.Thickness)), between("copper thickness", c.Thickness, 0, maxCopper, roundLength)},
-		{"copper.roughness", quote(formatLength(c.Roughness)), checkRoughness(c.Roughness, c.Thickness)},
-		{"copper.conductivity", number(c.Conductivity), between("conductivity", c.Conductivity, minConductivity, maxConductivity, number)},
+		{"dielectric.er", numValue(d.Er), between("relative permittivity", d.Er, 1, maxEr, number)},
+		{"dielectric.er_frequency", freqValue(d.ErFrequency), checkErFrequency(d.ErFrequency)},
+		{"dielectric.loss_tangent", numValue(d.LossTangent), lossTangent(d.LossTangent)},
+		{"dielectric.thickness", lenValue(d.Thickness), between("dielectric thickness", d.Thickness, minThickness, maxThickness, roundLength)},
+		{"copper.thickness", lenValue(c.Thickness), between("copper thickness", c.Thickness, 0, maxCopper, roundLength)},
+		{"copper.roughness", lenValue(c.Roughness), checkRoughness(c.Roughness, c.Thickness)},
+		{"copper.conductivity", numValue(c.Conductivity), between("conductivity", c.Conductivity, minConductivity, maxConductivity, number)},
 	}
 	if m := s.Mask; m != nil {
 		cs = append(cs,
-			check{"mask.thickness", quote(formatLength(m.Thickness)), checkMaskThickness(m.Thickness)},
-			check{"mask.er", number(m.Er), between("mask relative permittivity", m.Er, 1, maxEr, number)},
-			check{"mask.loss_tangent", number(m.LossTangent), lossTangent(m.LossTangent)},
+			check{"mask.thickness", lenValue(m.Thickness), checkMaskThickness(m.Thickness)},
+			check{"mask.er", numValue(m.Er), between("mask relative permittivity", m.Er, 1, maxEr, number)},
+			check{"mask.loss_tangent", numValue(m.LossTangent), lossTangent(m.LossTangent)},
 		)
 	}
 	return append(cs,
-		check{"spread.er", quote(formatPercent(s.Spread.ErRel)), between("a spread", s.Spread.ErRel, 0, maxSpread, formatPercent)},
-		check{"spread.thickness", quote(formatPercent(s.Spread.ThicknessRel)), between("a spread", s.Spread.ThicknessRel, 0, maxSpread, formatPercent)},
+		check{"spread.er", pctValue(s.Spread.ErRel), between("a spread", s.Spread.ErRel, 0, maxSpread, formatPercent)},
+		check{"spread.thickness", pctValue(s.Spread.ThicknessRel), between("a spread", s.Spread.ThicknessRel, 0, maxSpread, formatPercent)},
 	)
 }
 
@@ -108,10 +118,10 @@ func checkLine(line string) error {
 }
 
 func checkGap(line string, gap float64) check {
-	c := check{key: "gap", value: quote(formatLength(gap))}
+	c := check{key: "gap", value: lenValue(gap)}
 	switch {
 	case line == GCPW && gap == 0:
-		c.value = ""
+		c.value = noValue
 		c.err = fmt.Errorf("%w: a %s line needs the gap between strip and side grounds", ErrMissing, GCPW)
 	case line == GCPW:
 		c.err = between("the gap", gap, 0, maxGap, roundLength)
