@@ -190,6 +190,12 @@ func TestDecodeExactMessage(t *testing.T) {
 	if err == nil || err.Error() != want {
 		t.Errorf("got %v, want %s", err, want)
 	}
+	// The same with a byte-order mark and with CRLF line ends (both TOML).
+	for _, text := range []string{"\ufeff" + edit(t, "er = 3.48", "er = 0.8"), strings.ReplaceAll(edit(t, "er = 3.48", "er = 0.8"), "\n", "\r\n")} {
+		if _, err := Decode(strings.NewReader(text), "board.toml"); err == nil || err.Error() != want {
+			t.Errorf("got %v, want %s", err, want)
+		}
+	}
 }
 
 func TestDecodeFieldErrors(t *testing.T) {

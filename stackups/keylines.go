@@ -57,6 +57,7 @@ type scanner struct {
 // indexKeys returns the line of every key and table header in src, which
 // must be valid TOML.
 func indexKeys(src string) keyLines {
+	src = strings.TrimPrefix(src, "\ufeff") // a byte-order mark, which TOML allows
 	sc := &scanner{src: src, line: 1, lines: keyLines{}}
 	sc.run()
 	return sc.lines

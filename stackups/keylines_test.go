@@ -1,6 +1,9 @@
 package stackups
 
-import "testing"
+import (
+	"strings"
+	"testing"
+)
 
 func TestIndexKeys(t *testing.T) {
 	// Line numbers counted by hand in this text.
@@ -57,10 +60,12 @@ esc = "\"quoted = 1\""
 		{[]string{"nowhere"}, 0},
 		{[]string{"not"}, 0},
 	}
-	lines := indexKeys(src)
-	for _, tt := range tests {
-		if got := lines.line(tt.path); got != tt.line {
-			t.Errorf("line(%q) = %d, want %d", tt.path, got, tt.line)
+	for _, text := range []string{src, "\ufeff" + src, strings.ReplaceAll(src, "\n", "\r\n")} {
+		lines := indexKeys(text)
+		for _, tt := range tests {
+			if got := lines.line(tt.path); got != tt.line {
+				t.Errorf("line(%q) = %d, want %d (text starts %q)", tt.path, got, tt.line, text[:8])
+			}
 		}
 	}
 }
