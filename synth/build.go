@@ -129,6 +129,12 @@ func Build(in BuildInput) (*Result, error) {
 	if len(ph.Elements) > 0 {
 		r.Model = ph.Elements[0].Model
 	}
+	if UsesFieldSolver(in.Stackup) {
+		r.Notes = append(r.Notes, "line widths from the 2-D field solver (solder mask or grounded coplanar lines); the tee, open-end and via corrections use the closed-form microstrip models")
+	}
+	if in.Stackup.Line == "gcpw" {
+		r.Warnings = append(r.Warnings, "grounded coplanar lines: the T-junction, open-end and via models are microstrip models and only approximate the coplanar discontinuities; measure before trusting the last dB")
+	}
 	for _, e := range ph.Elements {
 		if e.Width < d.Fab.MinWidth {
 			r.Warnings = append(r.Warnings, fmt.Sprintf("%s: width %.3f mm is below the fab minimum %.3f mm", e.ID, e.Width*1e3, d.Fab.MinWidth*1e3))
@@ -282,6 +288,15 @@ func (r *Result) sweep(sim *physical.Sim, load Load) error {
 	}{{-10, &r.BW10}, {-20, &r.BW20}} {
 		lo, hi, ok := physical.Bandwidth(s.Freqs, s.S11, b.db, f0)
 		*b.dst = Band{Lo: lo, Hi: hi, OK: ok}
+	}
+	for _, b := range []struct {
+		name string
+		band Band
+	}{{"−10 dB", r.BW10}, {"−20 dB", r.BW20}} {
+		if b.band.OK && (b.band.Lo <= s.Freqs[0] || b.band.Hi >= s.Freqs[len(s.Freqs)-1]) {
+			r.Warnings = append(r.Warnings, fmt.Sprintf("the %s band reaches the edge of the sweep (%.6g–%.6g GHz): it is at least that wide; widen [sweep] to see all of it",
+				b.name, s.Freqs[0]/1e9, s.Freqs[len(s.Freqs)-1]/1e9))
+		}
 	}
 	if !r.BW10.OK {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("|S11| at %.6g GHz is above −10 dB: the layout does not match", f0/1e9))

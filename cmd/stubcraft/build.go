@@ -64,7 +64,11 @@ replaced only with --force; nothing is written when any step fails.
 			if err != nil {
 				return err
 			}
-			res, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: load, SkipTolerance: noTolerance})
+			cache := synth.NewSolverCache()
+			stop := solverProgress(cache)
+			res, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: load, SkipTolerance: noTolerance,
+				Lines: synth.LineMakerFor(st, cache)})
+			stop()
 			if err != nil {
 				return fmt.Errorf("%s: %w", designName(path), err)
 			}
@@ -175,6 +179,15 @@ func inputTouchstone(res *synth.Result) *physical.Touchstone {
 	return t
 }
 
+// dbText prints a model's |S11| in dB; below −100 dB the digits say
+// nothing a network analyser could see.
+func dbText(db float64) string {
+	if db < -100 {
+		return "below −100 dB"
+	}
+	return fmt.Sprintf("%.1f dB", db)
+}
+
 // printSummary writes the human-readable account of a build.
 func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) error {
 	fmt.Fprintf(w, "%s at %.6g GHz, %g Ω, on %s (%s)\n", rep.Name, rep.FrequencyHz/1e9, rep.Z0Ohm, rep.Stackup.Name, rep.Model)
@@ -192,8 +205,8 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 	if err := tw.Flush(); err != nil {
 		return err
 	}
-	fmt.Fprintf(w, "\n|S11| at f0: %.1f dB drawn (%.1f dB without the discontinuity corrections; %.1f dB before re-centring)\n",
-		rep.S11DBF0, rep.S11DBF0Uncorr, rep.Recentring.S11DBBefore)
+	fmt.Fprintf(w, "\n|S11| at f0: %s drawn (%s without the discontinuity corrections; %s before re-centring)\n",
+		dbText(rep.S11DBF0), dbText(rep.S11DBF0Uncorr), dbText(rep.Recentring.S11DBBefore))
 	if rep.Bandwidth10DBHz > 0 {
 		fmt.Fprintf(w, "band |S11| < −10 dB: %.4g–%.4g GHz (%.1f MHz)\n", rep.Band10DBHz[0]/1e9, rep.Band10DBHz[1]/1e9, rep.Bandwidth10DBHz/1e6)
 	}

@@ -213,3 +213,43 @@ func TestBuildHelpCarriesCautions(t *testing.T) {
 		}
 	}
 }
+
+// A stackup with solder mask, or with grounded coplanar lines, is sized by
+// the field solver and says so. Common practice, no source: mask over a
+// microstrip lowers its Z0, so the 50 Ω strip under mask is narrower; a
+// narrow-gap GCPW has lower Z0 than the same strip as microstrip, so its
+// 50 Ω strip is narrower still than the bare one.
+func TestTraceUsesFieldSolver(t *testing.T) {
+	width := func(args ...string) (float64, string) {
+		t.Helper()
+		out, err := runRoot(t, append([]string{"trace", "--freq", "2.45GHz", "--z0", "50", "--json"}, args...)...)
+		if err != nil {
+			t.Fatalf("%v: %v", args, err)
+		}
+		var m struct {
+			Width float64 `json:"width_mm"`
+			Z0    float64 `json:"z0_ohm"`
+			Model string  `json:"model"`
+		}
+		if err := json.Unmarshal([]byte(out), &m); err != nil {
+			t.Fatal(err)
+		}
+		if m.Z0 < 49.99 || m.Z0 > 50.01 {
+			t.Errorf("%v: Z0 %.4f", args, m.Z0)
+		}
+		return m.Width, m.Model
+	}
+	bare, bareModel := width("--stackup", "fr4-1.6mm")
+	masked, maskedModel := width("--stackup", "fr4-1.6mm-masked")
+	if strings.Contains(bareModel, "field") || !strings.Contains(maskedModel, "field solver") {
+		t.Errorf("models: bare %q, masked %q", bareModel, maskedModel)
+	}
+	if !(masked < bare) {
+		t.Errorf("masked width %.4f mm is not below bare %.4f mm", masked, bare)
+	}
+	ms, _ := width("--stackup", "hydrocarbon-ceramic-0.51mm")
+	cpw, cpwModel := width("--stackup", filepath.Join("..", "..", "testdata", "stackups", "gcpw-hydrocarbon.toml"))
+	if !strings.Contains(cpwModel, "field solver") || !(cpw < ms) {
+		t.Errorf("gcpw %.4f mm (%s) vs microstrip %.4f mm", cpw, cpwModel, ms)
+	}
+}

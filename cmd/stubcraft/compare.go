@@ -81,10 +81,12 @@ meets the fab minimum. Nothing is written to disk.`,
 				}
 			}
 			cache := synth.NewSolverCache()
+			stop := solverProgress(cache)
 			var rows []compareRow
 			for _, st := range sts {
 				rows = append(rows, compareOne(d, st, load, minWidth, noTolerance, cache))
 			}
+			stop()
 			if asJSON {
 				return printJSON(cmd.OutOrStdout(), rows)
 			}

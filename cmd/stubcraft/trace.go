@@ -63,7 +63,9 @@ of that electrical length at --freq is given too.`,
 			if freq <= 0 {
 				return fmt.Errorf("--freq %q: the frequency must be positive", freqArg)
 			}
-			maker := synth.LineMakerFor(st, synth.NewSolverCache())
+			cache := synth.NewSolverCache()
+			maker := synth.LineMakerFor(st, cache)
+			defer solverProgress(cache)()
 			sub := st.Substrate()
 			var model physical.LineModel
 			var warnings []string
