@@ -1,6 +1,8 @@
 package synth
 
 import (
+	"math"
+
 	"stubcraft/physical"
 	"stubcraft/physical/fieldsolve"
 	"stubcraft/stackups"
@@ -78,7 +80,7 @@ func ToleranceMaker(b physical.Board, mk physical.LineMaker, solver bool) (physi
 	return func(w float64, sub physical.Substrate) (physical.LineModel, error) {
 		nearest := widths[0]
 		for _, n := range widths[1:] {
-			if abs(n-w) < abs(nearest-w) {
+			if math.Abs(n-w) < math.Abs(nearest-w) {
 				nearest = n
 			}
 		}
@@ -89,13 +91,6 @@ func ToleranceMaker(b physical.Board, mk physical.LineMaker, solver bool) (physi
 		r := ratios[nearest]
 		return scaledLine{cf, r.z, r.e}, nil
 	}, nil
-}
-
-func abs(x float64) float64 {
-	if x < 0 {
-		return -x
-	}
-	return x
 }
 
 // scaledLine is a closed-form line whose impedance and effective
