@@ -1,0 +1,272 @@
+package export
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"strings"
+	"time"
+
+	"github.com/jung-kurt/gofpdf"
+
+	"stubcraft/synth/geom"
+)
+
+// DrawingOptions are the choices of the PDF drawing.
+type DrawingOptions struct {
+	// Page is the paper: "a4" (the default) or "letter", portrait.
+	Page string
+	// Fit says what happens to a board that does not fit the page at 1:1:
+	// "scale" (the default) draws it at a stated smaller scale, marked
+	// NOT TO SCALE 1:1; "tile" draws it at 1:1 across several pages with
+	// overlap and glue marks.
+	Fit string
+	// Created dates the drawing: the title block and the PDF's creation
+	// and modification dates. The caller takes it from SOURCE_DATE_EPOCH
+	// for reproducible output; the zero time is written as 1970-01-01.
+	Created time.Time
+	// Version is the tool version printed in the title block.
+	Version string
+}
+
+// paper is a page size in millimetres.
+type paper struct {
+	name string // gofpdf's size name
+	w, h float64
+}
+
+// paperOf returns the paper named by s.
+func paperOf(s string) (paper, error) {
+	switch strings.ToLower(s) {
+	case "", "a4":
+		return paper{"A4", 210, 297}, nil
+	case "letter":
+		return paper{"Letter", 215.9, 279.4}, nil
+	}
+	return paper{}, fmt.Errorf("drawing: page %q: want a4 or letter", s)
+}
+
+// WritePDF writes the dimensioned drawing of lay: sheet 1 (or sheets 1 to
+// n when tiled) shows the board with every width, drawn length, stub
+// position, the board size and the vias dimensioned in millimetres, at
+// 1:1 when it fits the page; the next sheet shows the stackup, the table
+// of elements, |S11| against frequency, a Smith chart, the tolerance
+// histogram, the RF safety cautions and the build's notes and warnings.
+// The same input gives the same bytes.
+func WritePDF(w io.Writer, rep Report, lay geom.Layout, opt DrawingOptions) error {
+	pg, err := paperOf(opt.Page)
+	if err != nil {
+		return err
+	}
+	fit := strings.ToLower(opt.Fit)
+	if fit == "" {
+		fit = "scale"
+	}
+	if fit != "scale" && fit != "tile" {
+		return fmt.Errorf("drawing: fit %q: want scale or tile", opt.Fit)
+	}
+	b, err := newBoardModel(lay)
+	if err != nil {
+		return fmt.Errorf("drawing: %w", err)
+	}
+	plan := planBoard(b, pg, fit)
+	// The first pass counts the sheets for "sheet n of m"; the second
+	// writes them.
+	d, err := renderPDF(rep, b, plan, pg, opt, 0)
+	if err != nil {
+		return err
+	}
+	d, err = renderPDF(rep, b, plan, pg, opt, d.pdf.PageNo())
+	if err != nil {
+		return err
+	}
+	var buf bytes.Buffer
+	if err := d.pdf.Output(&buf); err != nil {
+		return fmt.Errorf("drawing: %w", err)
+	}
+	_, err = w.Write(buf.Bytes())
+	return err
+}
+
+// doc is a drawing being written.
+type doc struct {
+	pdf   *gofpdf.Fpdf
+	pg    paper
+	rep   Report
+	opt   DrawingOptions
+	total int // sheets in the drawing, 0 while counting
+}
+
+// renderPDF draws every sheet; total is the sheet count for the title
+// blocks (0 on the counting pass).
+func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOptions, total int) (*doc, error) {
+	f := gofpdf.New("P", "mm", pg.name, "")
+	f.SetCatalogSort(true)
+	f.SetCompression(true)
+	created := opt.Created.UTC()
+	if opt.Created.IsZero() {
+		created = time.Unix(0, 0).UTC()
+	}
+	f.SetCreationDate(created)
+	f.SetModificationDate(created)
+	f.SetCreator("stubcraft "+version(rep, opt), true)
+	f.SetProducer("stubcraft", true)
+	f.SetTitle(rep.Name+" — bench drawing", true)
+	f.SetAutoPageBreak(false, 0)
+	f.SetMargins(0, 0, 0)
+	for _, ff := range fontFiles() {
+		f.AddUTF8FontFromBytes(ff.family, ff.style, ff.ttf)
+	}
+	d := &doc{pdf: f, pg: pg, rep: rep, opt: opt, total: total}
+	d.boardSheets(b, plan)
+	d.dataSheets(b)
+	if err := f.Error(); err != nil {
+		return nil, fmt.Errorf("drawing: %w", err)
+	}
+	return d, nil
+}
+
+// version is the tool version for the title block.
+func version(rep Report, opt DrawingOptions) string {
+	if opt.Version != "" {
+		return opt.Version
+	}
+	return rep.Version
+}
+
+// Page furniture, mm.
+const (
+	pageMargin  = 10.0 // paper edge to frame
+	headerH     = 11.0 // sheet title band under the frame's top
+	titleBlockH = 22.0 // title block above the frame's bottom
+)
+
+// newSheet starts a page with its frame, header line and title block.
+func (d *doc) newSheet(title, subtitle string) {
+	f := d.pdf
+	f.AddPage()
+	n := f.PageNo()
+	m := pageMargin
+	setDraw(f, colInk)
+	f.SetLineWidth(0.35)
+	f.Rect(m, m, d.pg.w-2*m, d.pg.h-2*m, "D")
+	f.SetFont(fontSans, "B", 11)
+	setText(f, colInk)
+	f.Text(m+3, m+7, title)
+	if subtitle != "" {
+		f.SetFont(fontSans, "", 8)
+		setText(f, colAccent)
+		f.Text(d.pg.w-m-3-f.GetStringWidth(subtitle), m+7, subtitle)
+	}
+	setDraw(f, colAccent)
+	f.SetLineWidth(0.5)
+	f.Line(m, m+headerH, d.pg.w-m, m+headerH)
+	d.titleBlock(n)
+}
+
+// contentBox returns the drawable area of a sheet between the header and
+// the title block: left, top, width, height in mm.
+func (d *doc) contentBox() (x, y, w, h float64) {
+	m := pageMargin
+	x, y = m+3, m+headerH+3
+	return x, y, d.pg.w - 2*x, d.pg.h - m - titleBlockH - 3 - y
+}
+
+// titleBlock draws the title block of sheet n: a band across the foot of
+// the frame, the design name large on the left, the facts in labelled
+// cells and the sheet count on the right.
+func (d *doc) titleBlock(n int) {
+	f := d.pdf
+	m := pageMargin
+	x0, y0 := m, d.pg.h-m-titleBlockH
+	w := d.pg.w - 2*m
+	setFill(f, colPaperTint)
+	f.Rect(x0, y0, w, titleBlockH, "F")
+	setFill(f, colAccent)
+	f.Rect(x0, y0, 2.5, titleBlockH, "F")
+	setDraw(f, colAccent)
+	f.SetLineWidth(0.5)
+	f.Line(x0, y0, x0+w, y0)
+
+	sheet := fmt.Sprintf("sheet %d of %d", n, d.total)
+	if d.total == 0 {
+		sheet = fmt.Sprintf("sheet %d of %d", n, n)
+	}
+	created := d.opt.Created.UTC()
+	if d.opt.Created.IsZero() {
+		created = time.Unix(0, 0).UTC()
+	}
+	name := d.rep.Name
+	if name == "" {
+		name = "unnamed design"
+	}
+	f.SetFont(fontSans, "B", 13)
+	setText(f, colInk)
+	f.Text(x0+6, y0+8.5, clipText(f, name, 0.42*w))
+	f.SetFont(fontSans, "", 7)
+	setText(f, colMuted)
+	f.Text(x0+6, y0+13, "matching network, top copper over a solid ground plane")
+	f.Text(x0+6, y0+17, "all dimensions in mm unless stated")
+
+	cx := x0 + 0.45*w
+	cw := (x0 + w - 30 - cx) / 3
+	cells := []struct {
+		label, value string
+		col, row     int
+		span         float64
+	}{
+		{"frequency", formatGHz(d.rep.FrequencyHz), 0, 0, 1},
+		{"reference", fmt.Sprintf("%.4g Ω", d.rep.Z0Ohm), 1, 0, 1},
+		{"stackup", d.rep.Stackup.Name, 2, 0, 1},
+		{"date", created.Format("2006-01-02"), 0, 1, 1},
+		{"tool", "stubcraft " + version(d.rep, d.opt), 1, 1, 2},
+	}
+	for _, c := range cells {
+		x := cx + float64(c.col)*cw
+		y := y0 + 2 + float64(c.row)*10
+		f.SetFont(fontSans, "", 6)
+		setText(f, colAccent)
+		f.Text(x, y+3, c.label)
+		f.SetFont(fontSans, "B", 8)
+		setText(f, colInk)
+		f.Text(x, y+7.5, clipText(f, c.value, c.span*cw-2))
+	}
+	setDraw(f, colRule)
+	f.SetLineWidth(0.2)
+	f.Line(x0+w-30, y0+2, x0+w-30, y0+titleBlockH-2)
+	f.SetFont(fontSans, "", 6)
+	setText(f, colAccent)
+	f.Text(x0+w-27, y0+5, "sheet")
+	f.SetFont(fontSans, "B", 10)
+	setText(f, colInk)
+	f.Text(x0+w-27, y0+11, strings.TrimPrefix(sheet, "sheet "))
+	f.SetFont(fontSans, "", 6)
+	setText(f, colMuted)
+	f.Text(x0+w-27, y0+17, "stubcraft drawing")
+}
+
+// clipText shortens s with an ellipsis to fit w mm in the current font.
+func clipText(f *gofpdf.Fpdf, s string, w float64) string {
+	if f.GetStringWidth(s) <= w {
+		return s
+	}
+	r := []rune(s)
+	for len(r) > 1 && f.GetStringWidth(string(r)+"…") > w {
+		r = r[:len(r)-1]
+	}
+	return string(r) + "…"
+}
+
+// formatGHz formats a frequency in GHz with four significant digits.
+func formatGHz(hz float64) string {
+	return fmt.Sprintf("%.4g GHz", hz/1e9)
+}
+
+// mm3 formats a length in mm with three decimals and a true minus sign.
+func mm3(v float64) string { return minus(fmt.Sprintf("%.3f", v)) }
+
+// signed3 formats a correction in mm with three decimals and its sign.
+func signed3(v float64) string { return minus(fmt.Sprintf("%+.3f", v)) }
+
+// minus replaces ASCII hyphen-minus signs with U+2212.
+func minus(s string) string { return strings.ReplaceAll(s, "-", "−") }

@@ -1,0 +1,274 @@
+package export
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"stubcraft/synth/geom"
+)
+
+// boardModel is the layout in millimetres, board origin at the lower-left
+// corner, y up: what the drawing and the SVG dimension.
+type boardModel struct {
+	name    string
+	w, h    float64 // board outline size
+	copper  [][]ptMM
+	pads    []padMM
+	vias    []viaMM
+	segs    []segMM
+	stubs   []stubMM
+	centreY float64
+	ports   [2]ptMM
+}
+
+type ptMM struct{ x, y float64 }
+
+// padMM is a flashed pad: a rectangle, or a circle of diameter w.
+type padMM struct {
+	c     ptMM
+	w, h  float64
+	round bool
+}
+
+type viaMM struct {
+	c          ptMM
+	drill, pad float64
+}
+
+// segMM is one through-line segment: x0..x1 along the line, lo..hi across.
+type segMM struct {
+	id             string
+	x0, x1, lo, hi float64
+}
+
+// stubMM is one stub: x0..x1 across it, cx its centre line; ref the y of
+// its reference plane, end the y its drawn length reaches (the via centre
+// of a shorted stub), tip the y of its copper's far edge; side +1 up, −1
+// down.
+type stubMM struct {
+	id             string
+	x0, x1, cx     float64
+	ref, end, tip  float64
+	side           float64
+	via            *viaMM
+	teeX, teeY     float64
+	drawnLengthAbs float64
+}
+
+func nmToMM(v int64) float64 { return float64(v) / 1e6 }
+
+func ptOf(p geom.Point) ptMM { return ptMM{nmToMM(p.X), nmToMM(p.Y)} }
+
+// newBoardModel converts lay to millimetres and pairs every stub with its
+// tee and via.
+func newBoardModel(lay geom.Layout) (boardModel, error) {
+	if len(lay.Board) < 3 {
+		return boardModel{}, errors.New("layout has no board outline")
+	}
+	lo, hi := lay.Board.Bounds()
+	if lo != (geom.Point{}) {
+		return boardModel{}, fmt.Errorf("board outline starts at %v nm, want the origin", lo)
+	}
+	b := boardModel{name: lay.Name, w: nmToMM(hi.X), h: nmToMM(hi.Y), centreY: nmToMM(lay.Marks.CentreY),
+		ports: [2]ptMM{ptOf(lay.Marks.Ports[0]), ptOf(lay.Marks.Ports[1])}}
+	for _, n := range lay.Copper {
+		var p []ptMM
+		for _, q := range n.Outline {
+			p = append(p, ptOf(q))
+		}
+		b.copper = append(b.copper, p)
+	}
+	for _, p := range lay.Pads {
+		b.pads = append(b.pads, padMM{c: ptOf(p.Center), w: nmToMM(p.W), h: nmToMM(p.H), round: p.Round})
+	}
+	for _, v := range lay.Vias {
+		b.vias = append(b.vias, viaMM{c: ptOf(v.Center), drill: nmToMM(v.Drill), pad: nmToMM(v.Pad)})
+	}
+	tees := map[string]geom.Tee{}
+	for _, t := range lay.Marks.Tees {
+		tees[t.StubID] = t
+	}
+	for _, e := range lay.Marks.Elements {
+		r := e.Rect
+		switch e.Kind {
+		case geom.KindSegment:
+			b.segs = append(b.segs, segMM{id: e.ID, x0: nmToMM(r.Min.X), x1: nmToMM(r.Max.X), lo: nmToMM(r.Min.Y), hi: nmToMM(r.Max.Y)})
+		case geom.KindStub:
+			t, ok := tees[e.ID]
+			if !ok {
+				return boardModel{}, fmt.Errorf("stub %q has no tee mark", e.ID)
+			}
+			s := stubMM{id: e.ID, x0: nmToMM(r.Min.X), x1: nmToMM(r.Max.X), cx: nmToMM(t.Center.X),
+				ref: nmToMM(t.RefY), tip: nmToMM(t.EndY), teeX: nmToMM(t.Center.X), teeY: nmToMM(t.Center.Y), side: 1}
+			if t.EndY < t.RefY {
+				s.side = -1
+			}
+			s.end = s.tip
+			for i, v := range lay.Vias {
+				if v.Center.X == t.Center.X && between(v.Center.Y, t.RefY, t.EndY) {
+					s.via = &b.vias[i]
+					s.end = b.vias[i].c.y
+				}
+			}
+			s.drawnLengthAbs = math.Abs(s.end - s.ref)
+			b.stubs = append(b.stubs, s)
+		}
+	}
+	return b, nil
+}
+
+func between(v, a, b int64) bool {
+	if a > b {
+		a, b = b, a
+	}
+	return a <= v && v <= b
+}
+
+// boardPlan is how sheet 1 places the board: its scale, and the tiles
+// when it is drawn at 1:1 across several pages.
+type boardPlan struct {
+	scale float64 // paper mm per board mm
+	ratio string  // "1:1", "1:2", ...
+	// detail is the enlargement of a second, magnified view under a
+	// 1:1 drawing with room to spare (0 for none); detailRatio its "5:1".
+	detail      float64
+	detailRatio string
+	tiled       bool
+	nx, ny      int     // tiles across and down
+	ext         extents // paper room around the board at this scale
+	area        rectMM  // the drawing area of a sheet
+}
+
+// rectMM is a paper rectangle: left, top, width, height.
+type rectMM struct{ x, y, w, h float64 }
+
+// extents is the paper room the dimensions need beyond each board edge.
+type extents struct{ left, right, top, bottom float64 }
+
+// canvas is the paper size of board and dimensions together.
+func (p boardPlan) canvas(b boardModel) (w, h float64) {
+	return p.scale*b.w + p.ext.left + p.ext.right, p.scale*b.h + p.ext.top + p.ext.bottom
+}
+
+// Dimension layout on paper, mm.
+const (
+	dimRowGap    = 7.5  // between rows of dimensions below the board
+	dimFirstRow  = 8.0  // board (or lowest copper dimension) to the first row
+	dimStubGap   = 5.5  // stub copper to its width or length dimension
+	portLabelW   = 17.0 // room for a port label beside the board
+	rowCaptionW  = 20.0 // room for a row caption left of the board
+	heightDimOff = 21.0 // right board edge to the board-height dimension
+	tileOverlap  = 12.0 // overlap of neighbouring tiles
+	scaleStripH  = 19.0 // scale bar and print note at the foot of sheet 1
+	bannerH      = 9.0  // NOT TO SCALE banner
+	viewCaptionH = 7.0  // caption above a view
+)
+
+// reductionScales are the preferred reduction scales of ISO 5455
+// (technical drawings — scales), largest first.
+func reductionScales() []struct {
+	s     float64
+	ratio string
+} {
+	return []struct {
+		s     float64
+		ratio string
+	}{{0.5, "1:2"}, {0.2, "1:5"}, {0.1, "1:10"}, {0.05, "1:20"}, {0.02, "1:50"}, {0.01, "1:100"}}
+}
+
+// enlargementScales are the enlargement scales of ISO 5455, largest first.
+func enlargementScales() []struct {
+	s     float64
+	ratio string
+} {
+	return []struct {
+		s     float64
+		ratio string
+	}{{10, "10:1"}, {5, "5:1"}, {2, "2:1"}}
+}
+
+// belowRows is the number of dimension rows under the board: the line
+// segments, each stub's position, the board length.
+func (b boardModel) belowRows() int { return 2 + len(b.stubs) }
+
+// extentsAt returns the paper room the dimensions need at scale s.
+func (b boardModel) extentsAt(s float64) extents {
+	e := extents{left: math.Max(portLabelW, rowCaptionW), right: heightDimOff + 14}
+	top, low := 0.0, 0.0 // paper reach above the board top and below its bottom
+	for _, st := range b.stubs {
+		far := st.tip
+		if st.via != nil {
+			far = st.via.c.y + st.side*st.via.pad/2
+		}
+		reach := s*far + st.side*(dimStubGap+5)
+		if st.via != nil {
+			reach = math.Max(reach, s*st.via.c.y+9) // via leader label
+		}
+		top = math.Max(top, reach-s*b.h)
+		low = math.Min(low, reach)
+	}
+	// Segment width values sit beyond the through line on the side the
+	// stubs leave free (below, unless a stub goes down).
+	const widthReach = 11.5
+	up := true
+	for _, st := range b.stubs {
+		if st.side > 0 {
+			up = false
+		}
+	}
+	for _, g := range b.segs {
+		if up {
+			top = math.Max(top, s*g.hi+widthReach-s*b.h)
+		} else {
+			low = math.Min(low, s*g.lo-widthReach)
+		}
+	}
+	e.top = math.Max(6, top+2)
+	e.bottom = -low + dimFirstRow + dimRowGap*float64(b.belowRows()-1) + 6
+	return e
+}
+
+// planBoard chooses the scale (and tiles) for sheet 1 on paper pg.
+func planBoard(b boardModel, pg paper, fit string) boardPlan {
+	m := pageMargin
+	x, y := m+3, m+headerH+3
+	area := rectMM{x, y, pg.w - 2*x, pg.h - m - titleBlockH - 3 - y - scaleStripH}
+	p := boardPlan{scale: 1, ratio: "1:1", area: area, nx: 1, ny: 1, ext: b.extentsAt(1)}
+	if cw, ch := p.canvas(b); cw <= area.w && ch <= area.h {
+		for _, k := range enlargementScales() {
+			q := boardPlan{scale: k.s, ext: b.extentsAt(k.s)}
+			if dw, dh := q.canvas(b); dw <= area.w && ch+dh+2*viewCaptionH <= area.h {
+				p.detail, p.detailRatio = k.s, k.ratio
+				break
+			}
+		}
+		return p
+	}
+	if fit == "tile" {
+		p.tiled = true
+		cw, ch := p.canvas(b)
+		p.nx = tiles(cw, area.w)
+		p.ny = tiles(ch, area.h)
+		return p
+	}
+	area.y += bannerH
+	area.h -= bannerH
+	p.area = area
+	for _, r := range reductionScales() {
+		p.scale, p.ratio, p.ext = r.s, r.ratio, b.extentsAt(r.s)
+		if cw, ch := p.canvas(b); cw <= area.w && ch <= area.h {
+			break
+		}
+	}
+	return p
+}
+
+// tiles is how many pages of width a, overlapping by tileOverlap, cover
+// length c.
+func tiles(c, a float64) int {
+	if c <= a {
+		return 1
+	}
+	return int(math.Ceil((c - tileOverlap) / (a - tileOverlap)))
+}

@@ -1,0 +1,262 @@
+package export
+
+import (
+	"bytes"
+	"fmt"
+	"image/color"
+	"math"
+
+	"gonum.org/v1/plot"
+	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
+	"gonum.org/v1/plot/vg/draw"
+)
+
+// PlotNames are the files WritePlots returns, in a fixed order.
+func PlotNames() []string {
+	return []string{"s11.png", "s11.svg", "smith.png", "smith.svg", "tolerance.png", "tolerance.svg"}
+}
+
+// WritePlots renders the band response, the Smith chart and the tolerance
+// histogram of rep as PNG and SVG images, keyed by the names of
+// PlotNames. A report without a tolerance analysis gets a tolerance plot
+// that says so.
+func WritePlots(rep Report) (map[string][]byte, error) {
+	type maker struct {
+		base string
+		make func(Report) (*plot.Plot, error)
+		w, h vg.Length
+	}
+	makers := []maker{
+		{"s11", s11Plot, 16 * vg.Centimeter, 10 * vg.Centimeter},
+		{"smith", smithPlot, 14 * vg.Centimeter, 14 * vg.Centimeter},
+		{"tolerance", tolerancePlot, 16 * vg.Centimeter, 10 * vg.Centimeter},
+	}
+	out := map[string][]byte{}
+	for _, m := range makers {
+		p, err := m.make(rep)
+		if err != nil {
+			return nil, fmt.Errorf("plot %s: %w", m.base, err)
+		}
+		for _, format := range []string{"png", "svg"} {
+			wt, err := p.WriterTo(m.w, m.h, format)
+			if err != nil {
+				return nil, fmt.Errorf("plot %s.%s: %w", m.base, format, err)
+			}
+			var buf bytes.Buffer
+			if _, err := wt.WriteTo(&buf); err != nil {
+				return nil, fmt.Errorf("plot %s.%s: %w", m.base, format, err)
+			}
+			out[m.base+"."+format] = buf.Bytes()
+		}
+	}
+	return out, nil
+}
+
+func colour(c rgb) color.RGBA {
+	r, g, b := c.parts()
+	return color.RGBA{uint8(r), uint8(g), uint8(b), 255}
+}
+
+// s11Plot is |S11| in dB against frequency with the −10 dB line and f0.
+func s11Plot(rep Report) (*plot.Plot, error) {
+	p := plot.New()
+	p.Title.Text = fmt.Sprintf("%s: input match |S11|", rep.Name)
+	p.X.Label.Text = "frequency (GHz)"
+	p.Y.Label.Text = "|S11| (dB)"
+	p.Add(plotter.NewGrid())
+	sw := rep.Sweep
+	pts := make(plotter.XYs, len(sw.FreqHz))
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for i, f := range sw.FreqHz {
+		pts[i] = plotter.XY{X: f / 1e9, Y: math.Max(sw.S11DB[i], -60)}
+		lo, hi = math.Min(lo, f/1e9), math.Max(hi, f/1e9)
+	}
+	if len(pts) < 2 {
+		return p, nil
+	}
+	l, err := plotter.NewLine(pts)
+	if err != nil {
+		return nil, err
+	}
+	l.Color = colour(colCurveA)
+	l.Width = vg.Points(1.5)
+	limit, err := plotter.NewLine(plotter.XYs{{X: lo, Y: -10}, {X: hi, Y: -10}})
+	if err != nil {
+		return nil, err
+	}
+	limit.Color = colour(colLimit)
+	limit.Dashes = []vg.Length{vg.Points(4), vg.Points(3)}
+	p.Add(limit, l)
+	p.Legend.Add("|S11|", l)
+	p.Legend.Add("−10 dB", limit)
+	p.Y.Max = 0
+	if f0 := rep.FrequencyHz / 1e9; f0 >= lo && f0 <= hi {
+		ymin := -10.0
+		for _, q := range pts {
+			ymin = math.Min(ymin, q.Y)
+		}
+		mark, err := plotter.NewLine(plotter.XYs{{X: f0, Y: ymin}, {X: f0, Y: 0}})
+		if err != nil {
+			return nil, err
+		}
+		mark.Color = colour(colCurveB)
+		mark.Dashes = []vg.Length{vg.Points(2), vg.Points(2)}
+		p.Add(mark)
+		p.Legend.Add("f0 "+formatGHz(rep.FrequencyHz), mark)
+	}
+	p.Legend.Top = false
+	return p, nil
+}
+
+// smithPlot is the Smith chart with the load and input trajectories.
+func smithPlot(rep Report) (*plot.Plot, error) {
+	p := plot.New()
+	p.Title.Text = fmt.Sprintf("%s: Smith chart, Z0 = %.4g Ω", rep.Name, rep.Z0Ohm)
+	p.HideAxes()
+	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = -1.1, 1.1, -1.1, 1.1
+	add := func(run []ptMM, c rgb, w float64) error {
+		xy := make(plotter.XYs, len(run))
+		for i, q := range run {
+			xy[i] = plotter.XY{X: q.x, Y: q.y}
+		}
+		l, err := plotter.NewLine(xy)
+		if err != nil {
+			return err
+		}
+		l.Color = colour(c)
+		l.Width = vg.Points(w)
+		p.Add(l)
+		return nil
+	}
+	for _, run := range smithGrid(180) {
+		if err := add(run, colGrid, 0.6); err != nil {
+			return nil, err
+		}
+	}
+	if err := add([]ptMM{{-1, 0}, {1, 0}}, colGrid, 0.6); err != nil {
+		return nil, err
+	}
+	if err := add(arcRuns(circle{0, 0, 1}, 360)[0], colInk, 1); err != nil {
+		return nil, err
+	}
+	sw := rep.Sweep
+	i0 := nearest(sw.FreqHz, rep.FrequencyHz)
+	for _, tr := range []struct {
+		re, im []float64
+		c      rgb
+		name   string
+	}{{sw.LoadRe, sw.LoadIm, colCurveB, "load"}, {sw.S11Re, sw.S11Im, colCurveA, "matched input"}} {
+		if len(tr.re) < 2 || len(tr.re) != len(tr.im) {
+			continue
+		}
+		xy := make(plotter.XYs, len(tr.re))
+		for i := range tr.re {
+			xy[i] = plotter.XY{X: tr.re[i], Y: tr.im[i]}
+		}
+		l, err := plotter.NewLine(xy)
+		if err != nil {
+			return nil, err
+		}
+		l.Color = colour(tr.c)
+		l.Width = vg.Points(1.6)
+		p.Add(l)
+		p.Legend.Add(tr.name, l)
+		if i0 >= 0 {
+			s, err := plotter.NewScatter(plotter.XYs{xy[i0]})
+			if err != nil {
+				return nil, err
+			}
+			s.GlyphStyle = draw.GlyphStyle{Color: colour(tr.c), Radius: vg.Points(3.5), Shape: draw.CircleGlyph{}}
+			p.Add(s)
+		}
+	}
+	return p, nil
+}
+
+// tolerancePlot is the histogram of the Monte Carlo |S11| at f0.
+func tolerancePlot(rep Report) (*plot.Plot, error) {
+	p := plot.New()
+	t := rep.Tolerance
+	if t == nil || len(t.SamplesS11DB) == 0 {
+		p.Title.Text = fmt.Sprintf("%s: tolerance analysis not run", rep.Name)
+		p.HideAxes()
+		return p, nil
+	}
+	p.Title.Text = fmt.Sprintf("%s: |S11| at f0 over %d boards (seed %d)", rep.Name, t.Samples, t.Seed)
+	p.X.Label.Text = "|S11| at f0 (dB)"
+	p.Y.Label.Text = "boards"
+	p.Add(plotter.NewGrid())
+	h, err := plotter.NewHist(plotter.Values(t.SamplesS11DB), 24)
+	if err != nil {
+		return nil, err
+	}
+	h.FillColor = colour(colCurveA)
+	h.LineStyle.Color = color.White
+	p.Add(h)
+	top := 0.0
+	for _, b := range h.Bins {
+		top = math.Max(top, b.Weight)
+	}
+	for _, m := range []struct {
+		v    float64
+		c    rgb
+		name string
+	}{{t.YieldBelowDB, colLimit, fmt.Sprintf("yield threshold %.0f dB", t.YieldBelowDB)}, {t.P50S11DB, colCurveB, "median"}, {t.P90S11DB, colInk, "90th percentile"}} {
+		l, err := plotter.NewLine(plotter.XYs{{X: m.v, Y: 0}, {X: m.v, Y: top}})
+		if err != nil {
+			return nil, err
+		}
+		l.Color = colour(m.c)
+		l.Dashes = []vg.Length{vg.Points(3), vg.Points(2)}
+		p.Add(l)
+		p.Legend.Add(m.name, l)
+	}
+	return p, nil
+}
+
+// smithGrid samples the Smith chart's constant-resistance and
+// constant-reactance circles (smithValues, both signs of reactance) with
+// n points per full circle, keeping the runs inside |Γ| ≤ 1.
+func smithGrid(n int) [][]ptMM {
+	var out [][]ptMM
+	for _, v := range smithValues() {
+		out = append(out, arcRuns(resistanceCircle(v), n)...)
+		out = append(out, arcRuns(reactanceCircle(v), n)...)
+		out = append(out, arcRuns(reactanceCircle(-v), n)...)
+	}
+	return out
+}
+
+// arcRuns samples circle c at n points and returns the maximal runs of
+// consecutive points inside the unit disc (with a small allowance for
+// rounding on its rim).
+func arcRuns(c circle, n int) [][]ptMM {
+	var runs [][]ptMM
+	var cur []ptMM
+	start := 0
+	// Begin at a point outside the disc, if any, so no run wraps.
+	for i := 0; i < n; i++ {
+		a := 2 * math.Pi * float64(i) / float64(n)
+		if math.Hypot(c.cx+c.r*math.Cos(a), c.cy+c.r*math.Sin(a)) > 1+1e-9 {
+			start = i
+			break
+		}
+	}
+	for k := 0; k <= n; k++ {
+		a := 2 * math.Pi * float64(start+k) / float64(n)
+		q := ptMM{c.cx + c.r*math.Cos(a), c.cy + c.r*math.Sin(a)}
+		if math.Hypot(q.x, q.y) <= 1+1e-9 {
+			cur = append(cur, q)
+			continue
+		}
+		if len(cur) > 1 {
+			runs = append(runs, cur)
+		}
+		cur = nil
+	}
+	if len(cur) > 1 {
+		runs = append(runs, cur)
+	}
+	return runs
+}

@@ -1,0 +1,149 @@
+package export
+
+import (
+	"bufio"
+	"fmt"
+	"html"
+	"io"
+	"math"
+	"strings"
+
+	"stubcraft/synth/geom"
+)
+
+// svgMargin is the room around the board for dimensions in layout.svg, mm.
+const svgMargin = 14.0
+
+// WriteSVG writes layout.svg: the board outline, copper, pads, vias and
+// the main dimensions at true size. The document's width and height are in
+// millimetres and its viewBox is in millimetres too, so one user unit is
+// one millimetre; the board's y axis (up) is flipped to SVG's (down) by
+// writing y' = height − y.
+func WriteSVG(w io.Writer, rep Report, lay geom.Layout) error {
+	b, err := newBoardModel(lay)
+	if err != nil {
+		return fmt.Errorf("layout.svg: %w", err)
+	}
+	s := svgDoc{b: b, top: svgMargin + stubReach(b), left: svgMargin + 6}
+	bottom := svgMargin + 6*float64(len(b.stubs))
+	W := s.left + b.w + svgMargin + 8
+	H := s.top + b.h + bottom
+	bw := bufio.NewWriter(w)
+	s.w = bw
+	fmt.Fprintf(bw, "<?xml version=\"1.0\" encoding=\"UTF-8\"?>\n")
+	fmt.Fprintf(bw, "<svg xmlns=\"http://www.w3.org/2000/svg\" width=\"%smm\" height=\"%smm\" viewBox=\"0 0 %s %s\" font-family=\"sans-serif\">\n",
+		num(W), num(H), num(W), num(H))
+	fmt.Fprintf(bw, "<title>%s — top copper, true size (1 unit = 1 mm)</title>\n", html.EscapeString(nonEmpty(rep.Name, b.name)))
+	fmt.Fprintf(bw, "<rect id=\"board-outline\" x=\"%s\" y=\"%s\" width=\"%s\" height=\"%s\" fill=\"#%06x\" stroke=\"#%06x\" stroke-width=\"0.15\"/>\n",
+		num(s.X(0)), num(s.Y(b.h)), num(b.w), num(b.h), uint32(colBoard), uint32(colBoardEdge))
+	for i, poly := range b.copper {
+		var p strings.Builder
+		for k, q := range poly {
+			if k == 0 {
+				p.WriteString("M")
+			} else {
+				p.WriteString(" L")
+			}
+			fmt.Fprintf(&p, "%s %s", num(s.X(q.x)), num(s.Y(q.y)))
+		}
+		p.WriteString(" Z")
+		fmt.Fprintf(bw, "<path id=\"copper-%d\" d=\"%s\" fill=\"#%06x\" stroke=\"#%06x\" stroke-width=\"0.05\"/>\n", i, p.String(), uint32(colCopper), uint32(colCopperEdg))
+	}
+	for _, p := range b.pads {
+		if p.round {
+			fmt.Fprintf(bw, "<circle class=\"pad\" cx=\"%s\" cy=\"%s\" r=\"%s\" fill=\"#%06x\"/>\n", num(s.X(p.c.x)), num(s.Y(p.c.y)), num(p.w/2), uint32(colCopper))
+		}
+	}
+	for _, v := range b.vias {
+		fmt.Fprintf(bw, "<circle class=\"drill\" cx=\"%s\" cy=\"%s\" r=\"%s\" fill=\"#ffffff\" stroke=\"#%06x\" stroke-width=\"0.05\"/>\n", num(s.X(v.c.x)), num(s.Y(v.c.y)), num(v.drill/2), uint32(colInk))
+	}
+	fmt.Fprintf(bw, "<g class=\"dimensions\" stroke=\"#%06x\" fill=\"#%06x\" stroke-width=\"0.1\" font-size=\"1.8\">\n", uint32(colDim), uint32(colDim))
+	for _, g := range b.segs {
+		x := (g.x0 + g.x1) / 2
+		for _, st := range b.stubs {
+			if math.Abs(x-st.cx) < (st.x1-st.x0)/2+1 {
+				x = g.x0 + (g.x1-g.x0)/4
+			}
+		}
+		s.dimV(x, g.lo, g.hi, x, mm3(g.hi-g.lo), "width "+g.id)
+	}
+	row := -6.0
+	for _, g := range b.segs {
+		s.dimH(g.x0, g.x1, row, mm3(g.x1-g.x0), "length "+g.id)
+	}
+	for _, st := range b.stubs {
+		s.dimH(st.x0, st.x1, st.tip+st.side*3, mm3(st.x1-st.x0), "width "+st.id)
+		s.dimV(st.x1+3, st.ref, st.end, st.x1+3, mm3(math.Abs(st.end-st.ref)), "drawn length "+st.id)
+		row -= 6
+		s.dimH(0, st.cx, row, mm3(st.cx), "stub "+st.id+" from load port")
+	}
+	s.dimH(0, b.w, row-6, mm3(b.w), "board length")
+	s.dimV(b.w+8, 0, b.h, b.w+8, mm3(b.h), "board height")
+	fmt.Fprintf(bw, "</g>\n</svg>\n")
+	return bw.Flush()
+}
+
+// stubReach is how far stub dimensions reach above the board top, mm.
+func stubReach(b boardModel) float64 {
+	r := 0.0
+	for _, s := range b.stubs {
+		r = math.Max(r, s.tip+5-b.h)
+	}
+	return r
+}
+
+// svgDoc writes board-millimetre geometry into SVG user units.
+type svgDoc struct {
+	w         *bufio.Writer
+	b         boardModel
+	top, left float64
+}
+
+func (s svgDoc) X(x float64) float64 { return s.left + x }
+func (s svgDoc) Y(y float64) float64 { return s.top + s.b.h - y }
+
+// dimH draws a horizontal dimension from x1 to x2 at board height y.
+func (s svgDoc) dimH(x1, x2, y float64, text, title string) {
+	X1, X2, Y := s.X(x1), s.X(x2), s.Y(y)
+	fmt.Fprintf(s.w, "<g><title>%s</title><line x1=\"%s\" y1=\"%s\" x2=\"%s\" y2=\"%s\"/>", html.EscapeString(title), num(X1), num(Y), num(X2), num(Y))
+	s.head(X1, Y, -1, 0)
+	s.head(X2, Y, 1, 0)
+	fmt.Fprintf(s.w, "<text x=\"%s\" y=\"%s\" text-anchor=\"middle\" stroke=\"none\">%s</text></g>\n", num((X1+X2)/2), num(Y-0.6), text)
+}
+
+// dimV draws a vertical dimension from y1 to y2 at board x, text beside.
+func (s svgDoc) dimV(x, y1, y2, tx float64, text, title string) {
+	X, Y1, Y2 := s.X(x), s.Y(y1), s.Y(y2)
+	if Y2 < Y1 {
+		Y1, Y2 = Y2, Y1
+	}
+	fmt.Fprintf(s.w, "<g><title>%s</title><line x1=\"%s\" y1=\"%s\" x2=\"%s\" y2=\"%s\"/>", html.EscapeString(title), num(X), num(Y1), num(X), num(Y2))
+	s.head(X, Y1, 0, -1)
+	s.head(X, Y2, 0, 1)
+	fmt.Fprintf(s.w, "<text x=\"%s\" y=\"%s\" stroke=\"none\">%s</text></g>\n", num(s.X(tx)+0.6), num((Y1+Y2)/2+0.6), text)
+}
+
+// head draws an arrowhead with its tip at (x, y) pointing along (dx, dy).
+func (s svgDoc) head(x, y, dx, dy float64) {
+	const l, h = 1.2, 0.35
+	bx, by := x-dx*l, y-dy*l
+	fmt.Fprintf(s.w, "<path stroke=\"none\" d=\"M%s %s L%s %s L%s %s Z\"/>", num(x), num(y),
+		num(bx-dy*h), num(by+dx*h), num(bx+dy*h), num(by-dx*h))
+}
+
+// num writes a coordinate in mm to the micrometre, without trailing zeros.
+func num(v float64) string {
+	s := fmt.Sprintf("%.4f", v)
+	s = strings.TrimRight(strings.TrimRight(s, "0"), ".")
+	if s == "-0" || s == "" {
+		s = "0"
+	}
+	return s
+}
+
+func nonEmpty(a, b string) string {
+	if a != "" {
+		return a
+	}
+	return b
+}
