@@ -14,6 +14,7 @@ type boardModel struct {
 	name    string
 	w, h    float64 // board outline size
 	copper  [][]ptMM
+	pour    []bool // copper[i] is not the RF net (a coplanar ground pour)
 	pads    []padMM
 	vias    []viaMM
 	segs    []segMM
@@ -78,6 +79,7 @@ func newBoardModel(lay geom.Layout) (boardModel, error) {
 			p = append(p, ptOf(q))
 		}
 		b.copper = append(b.copper, p)
+		b.pour = append(b.pour, n.Name != geom.NetRF)
 	}
 	for _, p := range lay.Pads {
 		b.pads = append(b.pads, padMM{c: ptOf(p.Center), w: nmToMM(p.W), h: nmToMM(p.H), round: p.Round})

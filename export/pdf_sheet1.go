@@ -237,7 +237,11 @@ func (d *doc) drawBoard(b boardModel, v view, measured bool) {
 	setFill(f, colCopper)
 	setDraw(f, colCopperEdg)
 	f.SetLineWidth(0.12)
-	for _, poly := range b.copper {
+	for k, poly := range b.copper {
+		setFill(f, colCopper)
+		if b.pour[k] {
+			setFill(f, colPour)
+		}
 		pts := make([]gofpdf.PointType, len(poly))
 		for i, q := range poly {
 			pts[i] = gofpdf.PointType{X: v.X(q.x), Y: v.Y(q.y)}
@@ -380,7 +384,7 @@ func (d *doc) boardDims(b boardModel, v view) {
 	for _, s := range b.stubs {
 		row += dimRowGap
 		caption(s.id+" centre", row-1.3)
-		label(f, "from load port edge, to source edge", v.X(0)-3, row+1.3, "R", noteFontPt-0.7, colMuted)
+		label(f, "from each board edge", v.X(0)-3, row+1.3, "R", noteFontPt-0.7, colMuted)
 		dimH(f, v.X(0), v.Y(0), v.X(s.cx), v.Y(b.centreY), row, mm3(s.cx), false)
 		dimH(f, v.X(s.cx), v.Y(b.centreY), v.X(b.w), v.Y(0), row, mm3(b.w-s.cx), false)
 	}

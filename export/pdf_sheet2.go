@@ -375,7 +375,9 @@ func (d *doc) histogram(x, y, w, h float64) {
 		maxC = max(maxC, c)
 	}
 	hi := bins.lo + bins.width*float64(len(bins.counts))
-	c := chart{x: x, y: y, w: w, h: h, xlo: bins.lo, xhi: hi, xst: niceStep(hi-bins.lo, 5),
+	// The range takes in the yield threshold so its line is always seen.
+	xlo, xhi := math.Min(bins.lo, t.YieldBelowDB-1), math.Max(hi, t.YieldBelowDB+1)
+	c := chart{x: x, y: y, w: w, h: h, xlo: xlo, xhi: xhi, xst: niceStep(xhi-xlo, 5),
 		ylo: 0, yhi: float64(maxC) * 1.1, yst: niceStep(float64(maxC)*1.1, 4), xlabel: "|S11| at f0 (dB)", ylabel: "boards"}
 	c.yst = math.Max(1, c.yst)
 	d.frame(c, fmt.Sprintf("Monte Carlo |S11| at f0, %d boards (seed %d)", t.Samples, t.Seed), func(v float64) string { return minus(trimFloat(v)) })

@@ -17,6 +17,7 @@ const (
 	colBoardEdge rgb = 0x46583c
 	colCopper    rgb = 0xc98a3e
 	colCopperEdg rgb = 0x7e4e1c
+	colPour      rgb = 0xe2bf8e
 	colDrill     rgb = 0xffffff
 	colDim       rgb = 0x1c4078
 	colRefPlane  rgb = 0xa82a62

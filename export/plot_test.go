@@ -1,0 +1,145 @@
+package export
+
+import (
+	"bytes"
+	"encoding/xml"
+	"image/png"
+	"io"
+	"math"
+	"math/cmplx"
+	"slices"
+	"testing"
+)
+
+func TestWritePlots(t *testing.T) {
+	for _, c := range []struct {
+		name string
+		rep  Report
+	}{
+		{"with tolerance", fixtureReport(openStub())},
+		{"without tolerance", func() Report { r := fixtureReport(openStub()); r.Tolerance = nil; return r }()},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			m, err := WritePlots(c.rep)
+			if err != nil {
+				t.Fatal(err)
+			}
+			names := PlotNames()
+			if len(m) != len(names) {
+				t.Errorf("%d plots, want %d", len(m), len(names))
+			}
+			for _, n := range names {
+				b, ok := m[n]
+				if !ok {
+					t.Errorf("no %s", n)
+					continue
+				}
+				switch n[len(n)-3:] {
+				case "png":
+					img, err := png.Decode(bytes.NewReader(b))
+					if err != nil {
+						t.Errorf("%s: %v", n, err)
+					} else if r := img.Bounds(); r.Dx() < 100 || r.Dy() < 100 {
+						t.Errorf("%s: %v pixels", n, r)
+					}
+				case "svg":
+					d := xml.NewDecoder(bytes.NewReader(b))
+					for {
+						_, err := d.Token()
+						if err == io.EOF {
+							break
+						}
+						if err != nil {
+							t.Errorf("%s is not XML: %v", n, err)
+							break
+						}
+					}
+				}
+			}
+			again, err := WritePlots(c.rep)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, n := range names {
+				if !bytes.Equal(m[n], again[n]) {
+					t.Errorf("%s differs between two runs", n)
+				}
+			}
+		})
+	}
+	if !slices.IsSorted(PlotNames()) {
+		t.Error("PlotNames not in a fixed sorted order")
+	}
+}
+
+// The grid circles are the exact loci of the Smith chart: with z the
+// impedance normalised to Z0 and Γ = (z − 1)/(z + 1), every point of a
+// constant-resistance circle has Re z = r and every point of a
+// constant-reactance arc has Im z = x (exact, from z = (1 + Γ)/(1 − Γ)).
+func TestSmithGridIsExact(t *testing.T) {
+	z := func(q ptMM) complex128 { g := complex(q.x, q.y); return (1 + g) / (1 - g) }
+	for _, v := range smithValues() {
+		for _, run := range arcRuns(resistanceCircle(v), 360) {
+			for _, q := range run {
+				if math.Hypot(q.x-1, q.y) < 1e-6 {
+					continue // the point at infinity
+				}
+				if got := real(z(q)); math.Abs(got-v) > 1e-9*(1+v) {
+					t.Fatalf("r = %v circle: point %v has Re z = %v", v, q, got)
+				}
+			}
+		}
+		for _, x := range []float64{v, -v} {
+			runs := arcRuns(reactanceCircle(x), 720)
+			if len(runs) != 1 {
+				t.Errorf("x = %v: %d arcs inside the chart, want 1", x, len(runs))
+			}
+			for _, run := range runs {
+				for _, q := range run {
+					if math.Hypot(q.x-1, q.y) < 1e-6 {
+						continue
+					}
+					if math.Hypot(q.x, q.y) > 1+1e-9 {
+						t.Fatalf("x = %v: point %v outside |Γ| ≤ 1", x, q)
+					}
+					if got := imag(z(q)); math.Abs(got-x) > 1e-9*(1+math.Abs(x)) {
+						t.Fatalf("x = %v arc: point %v has Im z = %v", x, q, got)
+					}
+				}
+			}
+		}
+	}
+	// Γ of a few impedances, exact: z = 1 → 0; z = 0 → −1; z = j → j;
+	// z = 2 → 1/3.
+	for _, c := range []struct{ z, want complex128 }{{1, 0}, {0, -1}, {1i, 1i}, {2, complex(1.0/3, 0)}} {
+		if got := gammaOf(c.z); cmplx.Abs(got-c.want) > 1e-15 {
+			t.Errorf("Γ(%v) = %v, want %v", c.z, got, c.want)
+		}
+	}
+}
+
+func TestHistBins(t *testing.T) {
+	// Worked by hand: 0..4 in 4 bins of width 1; 1 and 2 fall in the upper
+	// bin at an edge, the maximum 4 in the last bin.
+	h := histBins([]float64{0, 0.5, 1, 2, 2.5, 4}, 4)
+	if h.lo != 0 || h.width != 1 || !slices.Equal(h.counts, []int{2, 1, 2, 1}) {
+		t.Errorf("got %+v, want lo 0, width 1, counts [2 1 2 1]", h)
+	}
+	if h := histBins([]float64{3, 3}, 2); h.width != 0.5 || !slices.Equal(h.counts, []int{0, 2}) {
+		t.Errorf("equal values: %+v, want a unit span around them", h)
+	}
+}
+
+func TestNiceStep(t *testing.T) {
+	// The 1-2-5 series of tick steps (common practice, no source).
+	for _, c := range []struct{ span, want float64 }{
+		{0.9, 0.2}, {40, 10}, {28, 10}, {1, 0.2}, {7, 2}, {0.001, 0.0002},
+	} {
+		if got := niceStep(c.span, 5); math.Abs(got-c.want) > 1e-12*c.want {
+			t.Errorf("niceStep(%v, 5) = %v, want %v", c.span, got, c.want)
+		}
+	}
+	if got := ticks(-40, 0, 10); !slices.Equal(got, []float64{-40, -30, -20, -10, 0}) {
+		t.Errorf("ticks(-40, 0, 10) = %v", got)
+	}
+}
