@@ -253,3 +253,69 @@ func TestTraceUsesFieldSolver(t *testing.T) {
 		t.Errorf("gcpw %.4f mm (%s) vs microstrip %.4f mm", cpw, cpwModel, ms)
 	}
 }
+
+// The same input gives byte-identical files when SOURCE_DATE_EPOCH fixes
+// the date (reproducible-builds convention).
+func TestBuildReproducible(t *testing.T) {
+	t.Setenv("SOURCE_DATE_EPOCH", "1767225600")
+	parent := t.TempDir()
+	var dirs []string
+	for _, name := range []string{"a", "b"} {
+		dir := filepath.Join(parent, name)
+		if out, err := runRoot(t, "build", "-o", dir, "--samples", "100"); err != nil {
+			t.Fatalf("%v\n%s", err, out)
+		}
+		dirs = append(dirs, dir)
+	}
+	entries, err := os.ReadDir(dirs[0])
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(entries) < 10 {
+		t.Fatalf("only %d files", len(entries))
+	}
+	for _, e := range entries {
+		a, _ := os.ReadFile(filepath.Join(dirs[0], e.Name()))
+		b, err := os.ReadFile(filepath.Join(dirs[1], e.Name()))
+		if err != nil {
+			t.Errorf("%s: %v", e.Name(), err)
+			continue
+		}
+		if !bytes.Equal(a, b) {
+			t.Errorf("%s differs between two builds", e.Name())
+		}
+	}
+	top, err := os.ReadFile(filepath.Join(dirs[0], "soil-probe-match-copper-top.gbr"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(top), "%TF.CreationDate,2026-01-01T00:00:00") {
+		t.Errorf("creation date not from SOURCE_DATE_EPOCH:\n%s", string(top[:min(len(top), 600)]))
+	}
+}
+
+// A board limit smaller than the network is refused before anything is
+// written (stubs are laid out straight).
+func TestBuildBoardTooSmall(t *testing.T) {
+	src, err := os.ReadFile(filepath.Join("..", "..", "testdata", "designs", "sensor-antenna.toml"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	parent := t.TempDir()
+	design := filepath.Join(parent, "small.toml")
+	text := strings.Replace(string(src), `max_board = ["60mm", "40mm"]`, `max_board = ["30mm", "12mm"]`, 1)
+	if text == string(src) {
+		t.Fatal("the example design no longer has the max_board line this test edits")
+	}
+	if err := os.WriteFile(design, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	dir := filepath.Join(parent, "out")
+	_, err = runRoot(t, "build", design, "-o", dir)
+	if err == nil || !strings.Contains(err.Error(), "does not fit") {
+		t.Fatalf("want a refusal, got %v", err)
+	}
+	if _, err := os.Stat(dir); err == nil {
+		t.Error("an output directory was written")
+	}
+}
