@@ -102,6 +102,7 @@ type Recentring struct {
 // band sweep and tolerance analysis.
 func Build(in BuildInput) (*Result, error) {
 	d := in.Design
+	spreadNotes := applyStackupSpread(&d, in.Stackup)
 	f0, z0 := d.Freq, d.Z0
 	sub := in.Stackup.Substrate()
 	mk := in.Lines
@@ -124,7 +125,7 @@ func Build(in BuildInput) (*Result, error) {
 		return nil, err
 	}
 	r := &Result{Design: d, Stackup: in.Stackup, LoadF0: zl, Sections: sections, Physical: ph}
-	r.Notes = append(append(r.Notes, notes...), ph.Notes...)
+	r.Notes = append(append(append(r.Notes, notes...), ph.Notes...), spreadNotes...)
 	r.Warnings = append(r.Warnings, ph.Warnings...)
 	if len(ph.Elements) > 0 {
 		r.Model = ph.Elements[0].Model
@@ -172,6 +173,22 @@ func Build(in BuildInput) (*Result, error) {
 		r.Notes = append(r.Notes, t.Notes...)
 	}
 	return r, nil
+}
+
+// applyStackupSpread takes the laminate's own εr and thickness spread from
+// the stackup's [spread] table where the design's [tolerance] table does not
+// give one, and says so.
+func applyStackupSpread(d *Design, st stackups.Stackup) []string {
+	var notes []string
+	if st.Spread.ErRel > 0 && !d.Written("tolerance.er") {
+		d.Tolerance.Er = st.Spread.ErRel
+		notes = append(notes, fmt.Sprintf("tolerance: εr spread ±%.3g %% from the stackup %s", 100*st.Spread.ErRel, st.Name))
+	}
+	if st.Spread.ThicknessRel > 0 && !d.Written("tolerance.thickness") {
+		d.Tolerance.Thickness = st.Spread.ThicknessRel
+		notes = append(notes, fmt.Sprintf("tolerance: thickness spread ±%.3g %% from the stackup %s", 100*st.Spread.ThicknessRel, st.Name))
+	}
+	return notes
 }
 
 // recentre lets Nelder-Mead (gonum/optimize) adjust the drawn lengths of

@@ -254,3 +254,22 @@ func TestTouchstoneLoadBuild(t *testing.T) {
 }
 
 func ftoa(v float64) string { return strconv.FormatFloat(v, 'g', 17, 64) }
+
+// The stackup's own spread feeds the tolerance analysis unless the design
+// gives one.
+func TestStackupSpreadDefaults(t *testing.T) {
+	st := preset(t, "fr4-1.6mm")
+	if st.Spread.ErRel <= 0 {
+		t.Skip("the preset carries no εr spread")
+	}
+	d := decodeTestDesign(t, strings.Replace(fr4Open, "%s", "open", 1))
+	applyStackupSpread(&d, st)
+	if d.Tolerance.Er != st.Spread.ErRel {
+		t.Errorf("εr spread %g, want the stackup's %g", d.Tolerance.Er, st.Spread.ErRel)
+	}
+	d = decodeTestDesign(t, strings.Replace(fr4Open, "%s", "open", 1)+"er = \"3%\"\n")
+	applyStackupSpread(&d, st)
+	if d.Tolerance.Er != 0.03 {
+		t.Errorf("εr spread %g, want the design's 0.03", d.Tolerance.Er)
+	}
+}

@@ -183,3 +183,10 @@ func (d Design) StackupRef() string {
 	}
 	return s
 }
+
+// Written reports whether the design file gave the dotted key
+// ("tolerance.er") itself, rather than leaving it to its default.
+func (d Design) Written(key string) bool {
+	_, ok := d.lines[key]
+	return ok
+}
