@@ -46,22 +46,25 @@ type BuildInput struct {
 // Result is a built design: the corrected physical network and the proof
 // that it matches.
 type Result struct {
-	Design    Design
-	Stackup   stackups.Stackup
-	Model     string // the line model used
-	LoadF0    complex128
-	Physical  Physical
-	Sections  []Section // the electrical network, from the load
-	Notes     []string
-	Warnings  []string
-	Recentre  Recentring
-	S11F0     complex128 // the drawn layout at f0, full model
-	Uncorr    complex128 // at f0, without the discontinuity corrections
-	Sweep     Sweep
-	BW10      Band
-	BW20      Band
-	LossF0DB  float64 // the network's own dissipation at f0, dB
-	Tolerance *Tolerance
+	Design   Design
+	Stackup  stackups.Stackup
+	Model    string // the line model used
+	LoadF0   complex128
+	Physical Physical
+	Sections []Section // the electrical network, from the load
+	Notes    []string
+	Warnings []string
+	Recentre Recentring
+	S11F0    complex128 // the drawn layout at f0, full model
+	Uncorr   complex128 // at f0, without the discontinuity corrections
+	Sweep    Sweep
+	BW10     Band
+	BW20     Band
+	LossF0DB float64 // the network's own dissipation at f0, dB
+	// BelowFabMinimum lists the elements narrower than the design's fab
+	// minimum width; build refuses such a design, compare reports it.
+	BelowFabMinimum []string
+	Tolerance       *Tolerance
 }
 
 // Band is a contiguous frequency range around f0.
@@ -138,7 +141,7 @@ func Build(in BuildInput) (*Result, error) {
 	}
 	for _, e := range ph.Elements {
 		if e.Width < d.Fab.MinWidth {
-			r.Warnings = append(r.Warnings, fmt.Sprintf("%s: width %.3f mm is below the fab minimum %.3f mm", e.ID, e.Width*1e3, d.Fab.MinWidth*1e3))
+			r.BelowFabMinimum = append(r.BelowFabMinimum, fmt.Sprintf("%s: width %.3f mm is below the fab minimum %.3f mm", e.ID, e.Width*1e3, d.Fab.MinWidth*1e3))
 		}
 	}
 

@@ -72,6 +72,9 @@ replaced only with --force; nothing is written when any step fails.
 			if err != nil {
 				return fmt.Errorf("%s: %w", designName(path), err)
 			}
+			if len(res.BelowFabMinimum) > 0 {
+				return fmt.Errorf("%s: %s (the fab minimum comes from [fab] min_width)", designName(path), strings.Join(res.BelowFabMinimum, "; "))
+			}
 			lay, err := geom.Build(res.GeomSpec())
 			if err != nil {
 				return fmt.Errorf("%s: layout: %w", designName(path), err)

@@ -319,3 +319,32 @@ func TestBuildBoardTooSmall(t *testing.T) {
 		t.Error("an output directory was written")
 	}
 }
+
+// A width below the fab's minimum is refused, with nothing written.
+func TestBuildBelowFabMinimum(t *testing.T) {
+	parent := t.TempDir()
+	design := filepath.Join(parent, "thin.toml")
+	text := `name = "thin"
+frequency = "2.45GHz"
+z0 = 50
+stackup = "polyimide-flex-0.1mm"
+[load]
+impedance = "31-j24"
+[match]
+topology = "shunt-stub"
+stub = "open"
+[fab]
+min_width = "0.3mm"
+`
+	if err := os.WriteFile(design, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	dir := filepath.Join(parent, "out")
+	_, err := runRoot(t, "build", design, "-o", dir, "--no-tolerance")
+	if err == nil || !strings.Contains(err.Error(), "below the fab minimum 0.300 mm") {
+		t.Fatalf("want a refusal, got %v", err)
+	}
+	if _, err := os.Stat(dir); err == nil {
+		t.Error("an output directory was written")
+	}
+}
