@@ -3,7 +3,9 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strings"
 	"testing"
@@ -346,5 +348,45 @@ min_width = "0.3mm"
 	}
 	if _, err := os.Stat(dir); err == nil {
 		t.Error("an output directory was written")
+	}
+}
+
+// pdftotext (Debian poppler-utils) finds every element value of the real
+// demo's report.json in its drawing, as printed with three decimals (mm)
+// and two (degrees).
+func TestBuildDrawingCarriesReport(t *testing.T) {
+	pdftotext, err := exec.LookPath("pdftotext")
+	if err != nil {
+		t.Skip("pdftotext (poppler-utils) not installed: drawing text check skipped")
+	}
+	dir := filepath.Join(t.TempDir(), "out")
+	if out, err := runRoot(t, "build", "-o", dir, "--samples", "50"); err != nil {
+		t.Fatalf("%v\n%s", err, out)
+	}
+	text, err := exec.Command(pdftotext, "-layout", filepath.Join(dir, "drawing.pdf"), "-").Output()
+	if err != nil {
+		t.Fatal(err)
+	}
+	data, err := os.ReadFile(filepath.Join(dir, "report.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep reportFile
+	if err := json.Unmarshal(data, &rep); err != nil {
+		t.Fatal(err)
+	}
+	signed := func(v float64) string {
+		s := fmt.Sprintf("%+.3f", v)
+		return strings.Replace(s, "-", "−", 1)
+	}
+	for _, e := range rep.Elements {
+		for _, want := range []string{
+			fmt.Sprintf("%.3f", e.WidthMM), fmt.Sprintf("%.3f", e.DrawnLengthMM), fmt.Sprintf("%.3f", e.LineLengthMM),
+			fmt.Sprintf("%.2f", e.ElectricalDeg), signed(e.OpenEndMM), signed(e.TeeMM), e.ID,
+		} {
+			if !strings.Contains(string(text), want) {
+				t.Errorf("%s: %q not in the drawing's text", e.ID, want)
+			}
+		}
 	}
 }
