@@ -31,6 +31,10 @@ func Build(s Spec) (Layout, error) {
 	if err := check(s); err != nil {
 		return Layout{}, err
 	}
+	cpw, hasPour, err := coplanarRule(s)
+	if err != nil {
+		return Layout{}, err
+	}
 	n := len(s.Segments)
 
 	// Through line, relative to its centre line y = 0.
@@ -191,10 +195,15 @@ func Build(s Spec) (Layout, error) {
 	}
 	mask = append(mask, padRects...)
 	keep = append(keep, padRects...)
+	if hasPour {
+		if err := l.addCoplanar(s, mask, board, cpw); err != nil {
+			return Layout{}, err
+		}
+	}
 	if s.Mask == "cover" {
 		mask = padRects
 	}
-	l.MaskOpenings = grownUnion(mask, Nanometres(s.MaskExpansion), board)
+	l.MaskOpenings = grownUnion(mask, maskGrowth(s, cpw, hasPour), board)
 	ko := margin
 	if s.Height > 0 {
 		ko = Nanometres(KeepOutHeights * s.Height)

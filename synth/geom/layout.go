@@ -5,7 +5,7 @@ package geom
 type Layout struct {
 	Name         string
 	Board        Polygon // board outline, a rectangle
-	Copper       []Net   // top copper, one merged outline per net
+	Copper       []Net   // top copper, one merged outline per net; the RF net first, then the pieces of a coplanar ground pour
 	Pads         []Pad   // flashed top-copper pads
 	Vias         []Via   // plated through holes to the ground plane
 	Ground       Polygon // bottom copper plane

@@ -24,6 +24,25 @@ type Spec struct {
 	// always open). The empty string means "open".
 	Mask          string
 	MaskExpansion float64
+	// CoplanarGap, when > 0, draws a top-layer ground pour (grounded
+	// coplanar waveguide) that keeps exactly this clearance from all RF
+	// copper: through line, stubs, port pads and the bounding squares of
+	// the via pads of shorted stubs (a shorted stub's via keeps its net; its
+	// pad keeps the gap like the rest). The pour reaches the board edge
+	// beside the port pads (edge launch). With Mask "open" the mask window
+	// spans the gap: the RF copper grown by CoplanarGap + MaskExpansion.
+	// Margin must exceed the gap, or the pour would be cut off.
+	CoplanarGap float64
+	// StitchPitch is the centre spacing of the stitching vias along the
+	// pour's edges that face the RF copper, set back StitchPad/2 +
+	// StitchSetback from them: exact along straight runs; between two
+	// corners of the pour (a stub's side or end) the vias sit on the
+	// corners and are spread evenly at most this far apart. 0 means
+	// DefaultStitchPitch (callers that know λg pass the smaller of
+	// StitchMaxPitch and that).
+	// StitchDrill and StitchPad size them; 0 means the via size of the
+	// first shorted stub, or DefaultStitchDrill and DefaultStitchPad.
+	StitchPitch, StitchDrill, StitchPad float64
 }
 
 // Segment is one piece of the through line.
