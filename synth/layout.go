@@ -12,7 +12,9 @@ const PortPadLength = 1.0e-3
 // it opens (common practice, no source: 50 µm mask registration).
 const MaskExpansion = 50e-6
 
-// GeomSpec returns the geometry of the drawn network. The through line
+// GeomSpec returns the geometry of the drawn network. On a grounded
+// coplanar stackup the top layer gets a ground pour at the stackup's gap,
+// stitched to the plane below. The through line
 // runs from the load port at x = 0 toward the source port. A shorted stub's
 // drawn length ends at its via's centre; its copper goes on to the pad's
 // far edge, half a pad further.
@@ -45,6 +47,16 @@ func (r *Result) GeomSpec() geom.Spec {
 			portWidth = e.Width
 		}
 		s.Segments = append(s.Segments, geom.Segment{ID: e.ID, Width: e.Width, Length: e.DrawnLength})
+	}
+	if r.Stackup.Line == "gcpw" {
+		// A coplanar ground pour at the stackup's gap, stitched at a
+		// twentieth of the guided wavelength or 2 mm, whichever is less.
+		s.CoplanarGap = r.Stackup.Gap
+		var epsEff float64
+		for _, e := range r.Physical.Elements {
+			epsEff = max(epsEff, e.Params.EpsEff)
+		}
+		s.StitchPitch = min(geom.StitchMaxPitch(epsEff, d.Freq), geom.DefaultStitchPitch)
 	}
 	if d.Layout.FeedLength >= PortPadLength {
 		s.PortPad = geom.PadSpec{Width: portWidth, Length: PortPadLength}
