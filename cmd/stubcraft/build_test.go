@@ -390,3 +390,45 @@ func TestBuildDrawingCarriesReport(t *testing.T) {
 		}
 	}
 }
+
+// A grounded-coplanar design: widths from the field solver, a top ground
+// pour in the Gerber, a shorted stub's via in the drill file.
+func TestBuildGCPW(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	out, err := runRoot(t, "build", filepath.Join("..", "..", "testdata", "designs", "gcpw-probe.toml"), "-o", dir)
+	if err != nil {
+		t.Fatalf("%v\n%s", err, out)
+	}
+	data, err := os.ReadFile(filepath.Join(dir, "report.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep struct {
+		Model   string  `json:"line_model"`
+		S11     float64 `json:"s11_db_f0"`
+		Stackup struct {
+			Line  string  `json:"line"`
+			GapMM float64 `json:"gcpw_gap_mm"`
+		} `json:"stackup"`
+	}
+	if err := json.Unmarshal(data, &rep); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(rep.Model, "field solver") || rep.Stackup.Line != "gcpw" || rep.Stackup.GapMM != 0.25 || rep.S11 > -25 {
+		t.Errorf("report: %+v", rep)
+	}
+	top, err := os.ReadFile(filepath.Join(dir, "gcpw-probe-match-copper-top.gbr"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(top), "%TO.N,GND*%") {
+		t.Error("no ground pour net in the top copper")
+	}
+	drill, err := os.ReadFile(filepath.Join(dir, "gcpw-probe-match-drill.drl"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if strings.Count(string(drill), "\nX") < 5 {
+		t.Errorf("too few drill hits for a stitched pour:\n%s", drill)
+	}
+}
