@@ -155,8 +155,8 @@ func printCompare(w io.Writer, rows []compareRow, minWidth float64) error {
 		if !r.MeetsFab {
 			ok = "NO"
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%.2f\t%.2f\t%.3f\t%.1f\t%s\t%.3f\t%s\n", r.Stackup, strings.Join(ws, ", "), r.CopperLengthMM,
-			r.CopperAreaMM2, r.InsertionDB, r.S11DBF0, p90, r.MinWidthMM, ok)
+		fmt.Fprintf(tw, "%s\t%s\t%.2f\t%.2f\t%.3f\t%s\t%s\t%.3f\t%s\n", r.Stackup, strings.Join(ws, ", "), r.CopperLengthMM,
+			r.CopperAreaMM2, r.InsertionDB, strings.TrimSuffix(dbText(r.S11DBF0), " dB"), p90, r.MinWidthMM, ok)
 	}
 	return tw.Flush()
 }

@@ -70,6 +70,7 @@ ready to be copied and edited.`,
 			if !ok {
 				return fmt.Errorf("no preset named %q (known: %v)", args[0], presetNames())
 			}
+			fmt.Fprintf(cmd.OutOrStdout(), "# Preset %s: typical values of its material class, from memory, not a datasheet.\n# Check your laminate's data; save this as a file and edit it to use your own.\n", s.Name)
 			return stackups.Encode(cmd.OutOrStdout(), s)
 		},
 	}
