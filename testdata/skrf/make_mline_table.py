@@ -24,8 +24,7 @@ says so):
    Z0 = Z01(ur)/sqrt(eps_e(ur)) and eps_eff = eps_e(ur)*(Z01(u1)/Z01(ur))^2,
    so that Z0 = Z01(u1)/sqrt(eps_eff) (the air-line impedance of the
    full-correction width over the root of eps_eff; the paper's equations
-   are quoted from memory, and the Qucs technical documentation, which
-   MLine follows, gives the same pair). This only matters once defect 1 is
+   are quoted from memory). This only matters once defect 1 is
    corrected and t > 0, where it moves Z0 by 0.7 % (W/h 1, t/h 0.02) to
    9 % (W/h 0.1, t/h 0.12).
 """
