@@ -194,6 +194,11 @@ func applyStackupSpread(d *Design, st stackups.Stackup) []string {
 	return notes
 }
 
+// MaxRecentre bounds each length change of the re-centring, in guided
+// wavelengths: it takes out the residual of the corrections, it does not
+// redesign a network that does not match.
+const MaxRecentre = 0.05
+
 // recentre lets Nelder-Mead (gonum/optimize) adjust the drawn lengths of
 // the lines and stubs of the solution so that the full model's |S11| at f0
 // is least. The corrections put the layout close already; this takes out
@@ -214,12 +219,13 @@ func (r *Result) recentre(mk physical.LineMaker, zl complex128) error {
 	// The lengths are optimised in units of a guided wavelength so the
 	// simplex is well scaled.
 	lg := ph.Elements[idx[0]].Params.GuidedWavelength()
+	minLen := ph.minLengths()
 	boardFor := func(x []float64) (physical.Board, bool) {
 		q := *ph
 		q.Elements = append([]Element(nil), ph.Elements...)
 		for k, i := range idx {
 			l := start[k] + x[k]*lg
-			if l <= 0 {
+			if l < minLen[i] || math.Abs(x[k]) > MaxRecentre {
 				return physical.Board{}, false
 			}
 			q.Elements[i].DrawnLength = l
@@ -236,7 +242,14 @@ func (r *Result) recentre(mk physical.LineMaker, zl complex128) error {
 			return 10
 		}
 		g := sim.InputReflection(f0, zl, z0)
-		return real(g)*real(g) + imag(g)*imag(g)
+		// A faint pull toward the corrected lengths picks, among the
+		// layouts that match equally well (a network with more lengths
+		// than the two conditions of a match), the one nearest to it.
+		pull := 0.0
+		for _, v := range x {
+			pull += v * v
+		}
+		return real(g)*real(g) + imag(g)*imag(g) + 1e-10*pull
 	}
 	before, err := physical.NewSim(ph.Board, mk)
 	if err != nil {

@@ -211,9 +211,77 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 		}
 	}
 
+	if err := p.makeRoom(through, stubs); err != nil {
+		return Physical{}, err
+	}
+
 	p.Elements = append(through, stubs...)
 	p.Board = p.board(sub, opt.Via)
 	return p, nil
+}
+
+// minLengths returns, per element, the shortest drawn length the layout
+// allows: through lines must hold half of each stub at their ends, stubs
+// must be longer than zero (shorted ones longer than half the via pad).
+func (p Physical) minLengths() []float64 {
+	m := make([]float64, len(p.Elements))
+	through := p.ThroughIndex()
+	for i, e := range p.Elements {
+		if e.Role != RoleStub {
+			continue
+		}
+		m[through[e.At]] += e.Width / 2
+		m[through[e.At+1]] += e.Width / 2
+		if e.End == Short {
+			m[i] = p.Board.Via.Pad / 2
+		} else {
+			m[i] = 1e-6
+		}
+	}
+	return m
+}
+
+// makeRoom makes every through element long enough for the stubs at its
+// ends: a stub's copper must lie on the two lines that meet at its tee.
+// The first line borrows the length it lacks from the load-side feed, which
+// is the same line (the electrical network is unchanged); another line moves
+// to its next solution, half a guided wavelength longer; a feed that is too
+// short is an error.
+func (p *Physical) makeRoom(through, stubs []Element) error {
+	need := make([]float64, len(through))
+	for _, st := range stubs {
+		need[st.At] += st.Width / 2
+		need[st.At+1] += st.Width / 2
+	}
+	for j := range through {
+		e := &through[j]
+		short := need[j] - e.DrawnLength
+		if short <= 0 {
+			continue
+		}
+		if j == 1 && through[0].Role == RoleFeed && through[0].Width == e.Width && through[0].DrawnLength-short >= PortPadLength {
+			feed := &through[0]
+			feed.LineLength -= short
+			feed.DrawnLength -= short
+			feed.ElectricalDeg = ElectricalDegrees(feed.Params, feed.LineLength)
+			e.LineLength += short
+			e.DrawnLength += short
+			e.ElectricalDeg = ElectricalDegrees(e.Params, e.LineLength)
+			p.note(fmt.Sprintf("%s: lengthened by %.3f mm taken from the load-side feed (the same line) to leave room for the stub", e.ID, short*1e3))
+			continue
+		}
+		if e.Role != RoleLine {
+			return fmt.Errorf("%s is %.3f mm long, less than the %.3f mm the stubs at its ends need: lengthen [layout] feed_length", e.ID, e.DrawnLength*1e3, need[j]*1e3)
+		}
+		for e.DrawnLength < need[j] {
+			half := e.Params.GuidedWavelength() / 2
+			e.ElectricalDeg += 180
+			e.LineLength += half
+			e.DrawnLength += half
+			p.note(fmt.Sprintf("%s: too short for the stubs at its ends; it moved to the next solution, half a guided wavelength (%.3f mm) longer", e.ID, half*1e3))
+		}
+	}
+	return nil
 }
 
 // correctStub sets the open-end, tee and via corrections of a stub hung on
