@@ -330,3 +330,49 @@ func TestDoubleStubSections(t *testing.T) {
 		t.Errorf("FR-4: re-centred |S11| %.1f dB", db)
 	}
 }
+
+// A line too short to hold its stub borrows length from the load-side
+// feed, which is the same line: the electrical total is unchanged.
+func TestFirstLineBorrowsFromFeed(t *testing.T) {
+	d := decodeTestDesign(t, `
+name = "t"
+frequency = "2.45GHz"
+z0 = 50
+stackup = "fr4-1.6mm"
+[load]
+impedance = "50"
+[[section]]
+kind = "line"
+z0 = 50
+length = "28deg"
+[[section]]
+kind = "stub"
+end = "open"
+z0 = 50
+length = "0.25wl"
+`)
+	r, err := Build(BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(50), SkipTolerance: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var feed, line, stub Element
+	for _, e := range r.Physical.Elements {
+		switch e.ID {
+		case "feed-load":
+			feed = e
+		case "line1":
+			line = e
+		case "stub1":
+			stub = e
+		}
+	}
+	if math.Abs(feed.ElectricalDeg+line.ElectricalDeg-28) > 1e-9 {
+		t.Errorf("feed %.4f° + line %.4f° ≠ 28°", feed.ElectricalDeg, line.ElectricalDeg)
+	}
+	if feed.DrawnLength >= 5e-3 || line.DrawnLength-line.Recentre < stub.Width/2-1e-12 {
+		t.Errorf("feed %.4g m, line %.4g m, stub width %.4g m", feed.DrawnLength, line.DrawnLength, stub.Width)
+	}
+	if !strings.Contains(strings.Join(r.Notes, "\n"), "taken from the load-side feed") {
+		t.Errorf("no note in %q", r.Notes)
+	}
+}
