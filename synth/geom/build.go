@@ -38,14 +38,11 @@ func Build(s Spec) (Layout, error) {
 	n := len(s.Segments)
 
 	// Through line, relative to its centre line y = 0.
-	type seg struct {
-		x0, x1, lo, hi int64
-	}
-	segs := make([]seg, n)
+	segs := make([]segNM, n)
 	var x int64
 	for i, g := range s.Segments {
 		w, l := Nanometres(g.Width), Nanometres(g.Length)
-		segs[i] = seg{x, x + l, -(w / 2), -(w / 2) + w}
+		segs[i] = segNM{x, x + l, -(w / 2), -(w / 2) + w}
 		x += l
 	}
 	boardX := x
@@ -60,22 +57,13 @@ func Build(s Spec) (Layout, error) {
 		up, down = maxI(up, -(padW/2)+padW), maxI(down, padW/2)
 	}
 
-	type stub struct {
-		r      Rect // drawn copper, from the centre line to the end
-		ref    int64
-		end    int64
-		xs     [2]int64 // x extent including the via pad
-		cx     int64
-		viaY   int64
-		drill  int64
-		viaPad int64
-	}
-	stubs := make([]stub, len(s.Stubs))
+	base := [2]int64{up, down} // the through line's and port pads' extent, before the stubs
+	stubs := make([]stubNM, len(s.Stubs))
 	for k, t := range s.Stubs {
 		w, l := Nanometres(t.Width), Nanometres(t.Length)
 		a, b := segs[t.At], segs[t.At+1]
 		x0 := a.x1 - w/2
-		st := stub{cx: x0 + w/2, xs: [2]int64{x0, x0 + w}}
+		st := stubNM{cx: x0 + w/2, xs: [2]int64{x0, x0 + w}}
 		if t.Side > 0 {
 			st.ref = maxI(a.hi, b.hi)
 			st.end = st.ref + l
@@ -124,12 +112,18 @@ func Build(s Spec) (Layout, error) {
 		return Layout{}, specErr("MaxBoard[0]", ErrNoFit,
 			"the through line is %s mm long, the limit is %s mm", mm(boardX), mm(mx))
 	}
+	var bends []*bendNM
 	if my := Nanometres(s.MaxBoard[1]); my > 0 && boardY > my {
-		return Layout{}, specErr("MaxBoard[1]", ErrNoFit,
-			"the board needs %s mm in y (copper %s mm + 2 × %s mm margin), the limit is %s mm; "+
-				"stubs are laid out straight (mitred bends are not implemented): shorten the stubs, "+
-				"put them on both sides or reduce the margin",
-			mm(boardY), mm(up+down), mm(margin), mm(my))
+		// Too tall with straight stubs: bend the ones that do not fit.
+		var ext [2]int64
+		var err error
+		bends, ext, err = planBends(s, segs, stubs, base, [2]int64{up, down},
+			bendRules{boardX: boardX, padL: padL, margin: margin, maxY: my})
+		if err != nil {
+			return Layout{}, err
+		}
+		up, down = ext[0], ext[1]
+		boardY = up + down + 2*margin
 	}
 
 	// Shift everything so the board's lower-left corner is the origin.
@@ -156,20 +150,27 @@ func Build(s Spec) (Layout, error) {
 	}
 	for k, st := range stubs {
 		t := s.Stubs[k]
-		r := sh(st.r)
-		copper = append(copper, r)
-		ext := r
-		if t.Side > 0 {
-			ext.Min.Y = st.ref + yc
+		if bends != nil && bends[k] != nil {
+			copper = append(copper, l.addBend(t, st, bends[k], yc)...)
 		} else {
-			ext.Max.Y = st.ref + yc
+			r := sh(st.r)
+			copper = append(copper, r)
+			ext := r
+			if t.Side > 0 {
+				ext.Min.Y = st.ref + yc
+			} else {
+				ext.Max.Y = st.ref + yc
+			}
+			l.Marks.Elements = append(l.Marks.Elements, Element{t.ID, KindStub, ext})
+			l.Marks.Tees = append(l.Marks.Tees, Tee{
+				StubID: t.ID, Center: Point{st.cx, yc}, RefY: st.ref + yc, EndY: st.end + yc,
+			})
 		}
-		l.Marks.Elements = append(l.Marks.Elements, Element{t.ID, KindStub, ext})
-		l.Marks.Tees = append(l.Marks.Tees, Tee{
-			StubID: t.ID, Center: Point{st.cx, yc}, RefY: st.ref + yc, EndY: st.end + yc,
-		})
 		if t.Via != nil {
 			c := Point{st.cx, st.viaY + yc}
+			if bends != nil && bends[k] != nil {
+				c = Point{bends[k].via.X, bends[k].via.Y + yc}
+			}
 			l.Vias = append(l.Vias, Via{Net: NetRF, Center: c, Drill: st.drill, Pad: st.viaPad})
 			l.Pads = append(l.Pads, Pad{Net: NetRF, Function: ViaPad, Center: c, W: st.viaPad, H: st.viaPad, Round: true})
 			sq := Rect{Point{c.X - st.viaPad/2, c.Y - st.viaPad/2}, Point{c.X - st.viaPad/2 + st.viaPad, c.Y - st.viaPad/2 + st.viaPad}}
@@ -181,7 +182,14 @@ func Build(s Spec) (Layout, error) {
 	if len(outline) != 1 {
 		return Layout{}, specErr("Segments", ErrOverlap, "the copper is not one simple polygon (%d loops)", len(outline))
 	}
-	l.Copper = []Net{{Name: NetRF, Outline: outline[0]}}
+	rf := outline[0]
+	for _, b := range l.Marks.Bends {
+		var err error
+		if rf, err = chamfer(rf, b.Corner, b.Chamfer); err != nil {
+			return Layout{}, specErr("Stubs", ErrOverlap, "stub %q: %v", b.StubID, err)
+		}
+	}
+	l.Copper = []Net{{Name: NetRF, Outline: rf}}
 	mask = append(mask, copper...)
 	keep = append(keep, copper...)
 
@@ -210,6 +218,25 @@ func Build(s Spec) (Layout, error) {
 	}
 	l.KeepOut = grownUnion(keep, ko, board)
 	return l, nil
+}
+
+// segNM is one through-line segment in nanometres, relative to the line's
+// centre line y = 0: x0..x1 along it, lo..hi across.
+type segNM struct {
+	x0, x1, lo, hi int64
+}
+
+// stubNM is one stub laid out straight, in nanometres relative to the
+// through line's centre line.
+type stubNM struct {
+	r      Rect // drawn copper, from the centre line to the end
+	ref    int64
+	end    int64
+	xs     [2]int64 // x extent including the via pad
+	cx     int64
+	viaY   int64
+	drill  int64
+	viaPad int64
 }
 
 // grownUnion grows every rectangle by d, clips it to the board and returns

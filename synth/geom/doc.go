@@ -18,6 +18,9 @@
 // as a via pad; where the pad is wider than the stub, the copper is the
 // union of the polygon and the circle (the writers' tests measure both).
 //
-// Stubs are straight; a stub that does not fit a board size limit is
-// refused (see ErrNoFit) rather than bent.
+// Stubs are straight where they fit. A stub whose straight copper would
+// make the board taller than Spec.MaxBoard[1] is laid out as an L with a
+// 90° bend whose outer corner is cut by Douville and James's optimal miter
+// (see Bend and MiterFraction); one that cannot bend within the board is
+// refused (see ErrNoFit).
 package geom

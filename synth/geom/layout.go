@@ -57,6 +57,10 @@ type Marks struct {
 	// Elements has the extent of every segment, then every stub, in Spec
 	// order.
 	Elements []Element
+	// Bends has one entry per stub laid out as a mitred L (because it did
+	// not fit Spec.MaxBoard straight), in Spec order; nil when every stub
+	// is straight.
+	Bends []Bend
 }
 
 // Tee locates one stub.
@@ -67,7 +71,8 @@ type Tee struct {
 	Center Point
 	// RefY is the y of the through line's edge from which the stub's drawn
 	// length is measured (its reference plane); EndY is the y of the stub's
-	// end.
+	// end (of a bent stub: of its second leg's centre line, on which the
+	// end lies; see Marks.Bends).
 	RefY, EndY int64
 }
 
@@ -78,7 +83,8 @@ const (
 )
 
 // Element is the rectangle a segment or stub occupies. A stub's rectangle
-// runs from its reference plane to its end.
+// runs from its reference plane to its end; a bent stub's is the bounding
+// box of its L (via pad included) from the reference plane outward.
 type Element struct {
 	ID   string
 	Kind string // KindSegment or KindStub

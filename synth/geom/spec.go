@@ -15,10 +15,19 @@ type Spec struct {
 	// line's ends touch the board edge (edge launch).
 	Margin float64
 	// MaxBoard is an optional board size limit (x, y); 0 means unlimited.
+	// A stub whose straight copper would make the board taller than
+	// MaxBoard[1] is laid out as a mitred L (see Bend); the board is never
+	// lengthened in x, whose size the through line sets.
 	MaxBoard [2]float64
-	// Height is the dielectric thickness. It bounds the keep-out (3·Height)
-	// and would size mitred bends.
+	// Height is the dielectric thickness. It bounds the keep-out (3·Height),
+	// sizes the miter of a bent stub and its second leg's clearance from
+	// the through line (3·Height). A stub that does not fit MaxBoard[1]
+	// straight is bent only when Height > 0.
 	Height float64
+	// Er is the dielectric's relative permittivity, used only to tell when
+	// a bent stub's miter is outside Douville and James's measured range
+	// (Bend.Warning); 0 means unknown.
+	Er float64
 	// Mask is "open" (a solder-mask window over the RF copper, grown by
 	// MaskExpansion) or "cover" (mask over the RF copper; the port pads are
 	// always open). The empty string means "open".
