@@ -1,6 +1,9 @@
 package synth
 
 import (
+	"fmt"
+	"math"
+
 	"stubcraft/synth/geom"
 )
 
@@ -17,7 +20,9 @@ const MaskExpansion = 50e-6
 // stitched to the plane below. The through line
 // runs from the load port at x = 0 toward the source port. A shorted stub's
 // drawn length ends at its via's centre; its copper goes on to the pad's
-// far edge, half a pad further.
+// far edge, half a pad further. A stub too tall for the board's
+// max_board height is bent by geom.Build into a mitred L of the same
+// centre-line length (see LayoutNotes).
 func (r *Result) GeomSpec() geom.Spec {
 	d := r.Design
 	side := 1
@@ -29,6 +34,7 @@ func (r *Result) GeomSpec() geom.Spec {
 		Margin:        d.Layout.Margin,
 		MaxBoard:      d.Layout.MaxBoard,
 		Height:        r.Stackup.Dielectric.Thickness,
+		Er:            r.Stackup.Dielectric.Er,
 		Mask:          d.Layout.Mask,
 		MaskExpansion: MaskExpansion,
 	}
@@ -62,4 +68,28 @@ func (r *Result) GeomSpec() geom.Spec {
 		s.PortPad = geom.PadSpec{Width: portWidth, Length: PortPadLength}
 	}
 	return s
+}
+
+// LayoutNotes returns a note for each stub that l, the layout of
+// r.GeomSpec(), bends: where it bends, its miter and that it is modelled
+// at its centre-line length. The simulation takes a bent stub as a
+// straight line of its drawn length: with Douville and James's optimal
+// miter the bend's own reflection is small, and counting a mitred bend at
+// its centre-line length is common practice, no source. A bend outside
+// the miter's measured range says so in its note.
+func (r *Result) LayoutNotes(l geom.Layout) []string {
+	var notes []string
+	for _, b := range l.Marks.Bends {
+		toward := "the source port"
+		if b.Toward < 0 {
+			toward = "the load port"
+		}
+		n := fmt.Sprintf("%s bends 90° toward %s at %.3f mm from the through line's edge, miter %.0f %% (Douville and James 1978); modelled at its centre-line length",
+			b.StubID, toward, float64(b.Leg1)*1e-6, math.Round(100*b.Miter))
+		if b.Warning != "" {
+			n += " (" + b.Warning + ")"
+		}
+		notes = append(notes, n)
+	}
+	return notes
 }

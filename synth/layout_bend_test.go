@@ -1,0 +1,97 @@
+package synth_test
+
+import (
+	"math"
+	"strings"
+	"testing"
+
+	"stubcraft/export"
+	"stubcraft/stackups"
+	"stubcraft/synth"
+	"stubcraft/synth/geom"
+)
+
+// A long open stub on a board limited to 16 mm in y builds: synth.Build,
+// GeomSpec and geom.Build lay the stub out as a mitred L whose centre-line
+// length is the report's drawn_length_mm, and LayoutNotes says so. The
+// design is invented; its stub is about 9.8 mm, which with the default
+// 5 mm margin would need a board about 21 mm tall.
+func TestBentStubEndToEnd(t *testing.T) {
+	text := `
+name = "bent"
+frequency = "2.45GHz"
+z0 = 50
+stackup = "hydrocarbon-ceramic-0.51mm"
+[load]
+impedance = "27-j35"
+[match]
+topology = "shunt-stub"
+stub = "open"
+pick = "shortest"
+[layout]
+stub_side = "up"
+max_board = ["40mm", "16mm"]
+`
+	d, err := synth.DecodeDesign(strings.NewReader(text), "bent.toml", "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	st, ok := stackups.Preset("hydrocarbon-ceramic-0.51mm")
+	if !ok {
+		t.Fatal("no preset hydrocarbon-ceramic-0.51mm")
+	}
+	res, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: synth.ConstantLoad(d.Load.Impedance), SkipTolerance: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	lay, err := geom.Build(res.GeomSpec())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(lay.Marks.Bends) != 1 {
+		t.Fatalf("%d bent stubs, want 1", len(lay.Marks.Bends))
+	}
+	b := lay.Marks.Bends[0]
+	if _, hi := lay.Board.Bounds(); hi.Y > 16e6 {
+		t.Errorf("board %d nm tall, above the 16 mm limit", hi.Y)
+	}
+	rep := export.NewReport(res, "test")
+	var drawn float64
+	for _, e := range rep.Elements {
+		if e.ID == b.StubID {
+			drawn = e.DrawnLengthMM
+		}
+	}
+	if got := float64(b.Leg1+b.Leg2) * 1e-6; drawn == 0 || math.Abs(got-drawn) > 1e-3 {
+		t.Errorf("centre-line length %.6f mm, report's drawn_length_mm %.6f", got, drawn)
+	}
+	// Douville and James at this stub's W/h.
+	var w float64
+	for _, e := range res.Physical.Elements {
+		if e.ID == b.StubID {
+			w = e.Width
+		}
+	}
+	h := st.Dielectric.Thickness
+	if m := 0.52 + 0.65*math.Exp(-1.35*w/h); math.Abs(b.Miter-m) > 1e-12 {
+		t.Errorf("miter %.6f, want 0.52 + 0.65·exp(−1.35·%.4f) = %.6f", b.Miter, w/h, m)
+	}
+	notes := res.LayoutNotes(lay)
+	if len(notes) != 1 || !strings.Contains(notes[0], b.StubID+" bends 90° toward the") ||
+		!strings.Contains(notes[0], "Douville and James 1978") || !strings.Contains(notes[0], "centre-line length") {
+		t.Errorf("notes %q", notes)
+	}
+	// The same design with room keeps the stub straight and has no note.
+	d.Layout.MaxBoard = [2]float64{}
+	res2, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: synth.ConstantLoad(d.Load.Impedance), SkipTolerance: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	lay2, err := geom.Build(res2.GeomSpec())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(lay2.Marks.Bends) != 0 || len(res2.LayoutNotes(lay2)) != 0 {
+		t.Errorf("unlimited board: bends %+v", lay2.Marks.Bends)
+	}
+}
