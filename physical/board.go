@@ -181,7 +181,7 @@ func (s *Sim) junction(k int, tp LineParams, freq float64) *junction {
 	l := st.Length + throughW/2 - tee.StubShift
 	var z complex128
 	if st.Short {
-		z = InputImpedanceOfLine(sp, l, s.board.ViaToGround(freq))
+		z = InputImpedanceOfLine(sp, l, s.board.ViaToGround(freq, st.Width))
 	} else {
 		dl, _ := OpenEndExtension(st.Width, s.board.Sub.Height, s.board.Sub.Er, sp.EpsEff, freq)
 		z = InputImpedanceOfLine(sp, l+dl, cmplx.Inf())
@@ -189,15 +189,20 @@ func (s *Sim) junction(k int, tp LineParams, freq float64) *junction {
 	return &junction{tee: tee, y: 1 / z}
 }
 
-// ViaToGround returns the impedance from the via pad of a shorted stub to
-// ground at freq: the Goldfarb-Pucel via in parallel with its pad's
-// capacitance.
-func (b Board) ViaToGround(freq float64) complex128 {
+// ViaToGround returns the impedance from the via pad at the end of a
+// shorted stub of width stubWidth to ground at freq: the Goldfarb-Pucel via
+// in parallel with the capacitance of the part of its round pad that
+// overhangs the stub (the rest is the stub's own copper, already in its
+// line model).
+func (b Board) ViaToGround(freq, stubWidth float64) complex128 {
 	sub := b.Sub
 	zv := ViaImpedance(sub.Height, b.Via.Drill/2, sub.conductivity(), freq)
 	c := 0.0
-	if b.Via.Pad > b.Via.Drill {
-		c = ViaPadCapacitance(b.Via.Pad/2, b.Via.Drill/2, sub.Height, sub.Er)
+	if r, a := b.Via.Pad/2, stubWidth/2; r > a {
+		// The circle's area outside the band |x| ≤ a (exact geometry).
+		inBand := 2 * (a*math.Sqrt(r*r-a*a) + r*r*math.Asin(a/r))
+		overhang := math.Pi*r*r - inBand
+		c = Eps0 * sub.Er * overhang / sub.Height
 	}
 	return ViaToGround(zv, c, freq)
 }

@@ -238,7 +238,7 @@ func TestDecodeFieldErrors(t *testing.T) {
 	add("thickness thick", `"0.508mm"`, `"25mm"`, "dielectric.thickness", `"25mm"`, 8, nil, "at most 20mm")
 	add("thickness zero", `"0.508mm"`, `"0mm"`, "dielectric.thickness", `"0mm"`, 8, nil, "at least")
 	add("thickness unit", `"0.508mm"`, `"3 furlongs"`, "dielectric.thickness", `"3 furlongs"`, 8, units.ErrUnit, "furlongs")
-	add("thickness overflow", `"0.508mm"`, `"1e999mm"`, "dielectric.thickness", `"1e999mm"`, 8, units.ErrNotFinit, "finite")
+	add("thickness overflow", `"0.508mm"`, `"1e999mm"`, "dielectric.thickness", `"1e999mm"`, 8, units.ErrNotFinite, "finite")
 	add("thickness bare", `"0.508mm"`, `"0.508"`, "dielectric.thickness", `"0.508"`, 8, units.ErrNoUnit, "unit")
 	add("thickness empty", `"0.508mm"`, `""`, "dielectric.thickness", `""`, 8, units.ErrSyntax, "not a number")
 	add("thickness number", `thickness = "0.508mm"`, `thickness = 0.508`, "dielectric.thickness", "0.508", 8, ErrType, "unit")

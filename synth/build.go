@@ -25,11 +25,18 @@ func (z ConstantLoad) Impedance(float64) (complex128, error) { return complex128
 
 // TouchstoneLoad is a one-port load measured or simulated into a
 // Touchstone file; between its points the reflection is interpolated.
-type TouchstoneLoad struct{ File *physical.Touchstone }
+type TouchstoneLoad struct {
+	File *physical.Touchstone
+	Path string // the file it came from, for messages
+}
 
 // Impedance returns the interpolated load impedance at freq.
 func (t TouchstoneLoad) Impedance(freq float64) (complex128, error) {
-	return t.File.LoadImpedance(freq)
+	z, err := t.File.LoadImpedance(freq)
+	if err != nil {
+		return 0, fmt.Errorf("%s: %w", t.Path, err)
+	}
+	return z, nil
 }
 
 // BuildInput is everything Build needs, already decoded.
@@ -114,7 +121,7 @@ func Build(in BuildInput) (*Result, error) {
 	}
 	zl, err := in.Load.Impedance(f0)
 	if err != nil {
-		return nil, fmt.Errorf("load at %.6g GHz: %w", f0/1e9, err)
+		return nil, d.KeyError(loadKey(d), fmt.Errorf("the load at %.6g GHz: %w", f0/1e9, err))
 	}
 	sections, notes, err := d.Electrical(zl)
 	if err != nil {
@@ -125,7 +132,7 @@ func Build(in BuildInput) (*Result, error) {
 		Via:        physical.Via{Drill: d.Layout.ViaDrill, Pad: d.Layout.ViaPad},
 	})
 	if err != nil {
-		return nil, err
+		return nil, d.KeyError("", fmt.Errorf("on stackup %s at %.6g GHz: %w", in.Stackup.Name, f0/1e9, err))
 	}
 	r := &Result{Design: d, Stackup: in.Stackup, LoadF0: zl, Sections: sections, Physical: ph}
 	r.Notes = append(append(append(r.Notes, notes...), ph.Notes...), spreadNotes...)
@@ -136,12 +143,16 @@ func Build(in BuildInput) (*Result, error) {
 	if UsesFieldSolver(in.Stackup) {
 		r.Notes = append(r.Notes, "line widths from the 2-D field solver (solder mask or grounded coplanar lines); the tee, open-end and via corrections use the closed-form microstrip models")
 	}
+	if len(ph.Board.Stubs) > 0 {
+		r.Notes = append(r.Notes, "the T-junction model (Hammerstad 1981) is written from memory of the paper and not checked against it; the corrections it drives are listed per element (tee_mm)")
+	}
 	if in.Stackup.Line == "gcpw" {
 		r.Warnings = append(r.Warnings, "grounded coplanar lines: the T-junction, open-end and via models are microstrip models and only approximate the coplanar discontinuities; measure before trusting the last dB")
 	}
 	for _, e := range ph.Elements {
 		if e.Width < d.Fab.MinWidth {
-			r.BelowFabMinimum = append(r.BelowFabMinimum, fmt.Sprintf("%s: width %.3f mm is below the fab minimum %.3f mm", e.ID, e.Width*1e3, d.Fab.MinWidth*1e3))
+			r.BelowFabMinimum = append(r.BelowFabMinimum, d.KeyError("fab.min_width",
+				fmt.Errorf("%s is %.3f mm wide, below the fab minimum %.3f mm", e.ID, e.Width*1e3, d.Fab.MinWidth*1e3)).Error())
 		}
 	}
 
@@ -164,7 +175,7 @@ func Build(in BuildInput) (*Result, error) {
 		return nil, err
 	}
 	if !in.SkipTolerance && d.Tolerance.Samples > 0 {
-		tmk, err := ToleranceMaker(r.Physical.Board, mk, UsesFieldSolver(in.Stackup))
+		tmk, err := ToleranceMaker(r.Physical.Board, mk, UsesFieldSolver(in.Stackup), f0)
 		if err != nil {
 			return nil, err
 		}
@@ -176,6 +187,14 @@ func Build(in BuildInput) (*Result, error) {
 		r.Notes = append(r.Notes, t.Notes...)
 	}
 	return r, nil
+}
+
+// loadKey names the design key that gives the load.
+func loadKey(d Design) string {
+	if d.Load.Touchstone != "" {
+		return "load.touchstone"
+	}
+	return "load.impedance"
 }
 
 // applyStackupSpread takes the laminate's own εr and thickness spread from
@@ -198,6 +217,11 @@ func applyStackupSpread(d *Design, st stackups.Stackup) []string {
 // wavelengths: it takes out the residual of the corrections, it does not
 // redesign a network that does not match.
 const MaxRecentre = 0.05
+
+// RecentreWarn is the length change, in guided wavelengths, beyond which
+// the re-centring is reported as more than a touch-up (common practice, no
+// source: 1 % of λg is about 3.6° of phase).
+const RecentreWarn = 0.01
 
 // recentre lets Nelder-Mead (gonum/optimize) adjust the drawn lengths of
 // the lines and stubs of the solution so that the full model's |S11| at f0
@@ -282,6 +306,12 @@ func (r *Result) recentre(mk physical.LineMaker, zl complex128) error {
 		r.Recentre.Changes = append(r.Recentre.Changes, dl)
 	}
 	ph.Board = ph.board(ph.Board.Sub, ph.Board.Via)
+	for k, i := range idx {
+		if e := ph.Elements[i]; math.Abs(res.X[k]) > RecentreWarn {
+			r.Warnings = append(r.Warnings, fmt.Sprintf("re-centring moved %s by %+.3f mm (%.2f %% of a guided wavelength): the corrections left more than the usual residual (loss, or models outside their range); the match at f0 rests on the optimiser there",
+				e.ID, e.Recentre*1e3, 100*math.Abs(res.X[k])))
+		}
+	}
 	after, err := physical.NewSim(ph.Board, mk)
 	if err != nil {
 		return err
@@ -303,7 +333,7 @@ func (r *Result) sweep(sim *physical.Sim, load Load) error {
 		f := sw.Start + (sw.Stop-sw.Start)*float64(i)/float64(n-1)
 		zl, err := load.Impedance(f)
 		if err != nil {
-			return fmt.Errorf("sweep: load at %.6g GHz: %w", f/1e9, err)
+			return r.Design.KeyError(loadKey(r.Design), fmt.Errorf("the load at %.6g GHz, in the sweep: %w", f/1e9, err))
 		}
 		a := sim.ABCD(f)
 		zin := a.InputImpedance(zl)

@@ -57,14 +57,15 @@ func build(t *testing.T, design, stackup string, skipTol bool) *Result {
 	return r
 }
 
-// The corrections alone, before the optimiser touches anything, must
-// close the match in the full model: correctStub inverts the tee,
-// open-end and via models analytically, while Sim cascades them as
-// networks, so the two are independent calculations of one circuit. With
-// a lossless board the only residual is the through-arm asymmetry, so the
-// match is far below the −25 dB the demo needs (exact result: a lossless
-// matched network has Γ = 0).
-func TestCorrectionsCloseTheMatchLossless(t *testing.T) {
+// Consistency of the corrections with the simulation: correctStub inverts
+// the tee, open-end and via models in closed form, while Sim cascades the
+// same models as networks from the drawn geometry. On a lossless board the
+// two must agree to rounding (exact result: a lossless matched network has
+// Γ = 0), so the corrections alone, before the optimiser touches anything,
+// close the match. This checks the bookkeeping (reference planes, where
+// lengths are measured from), not the models themselves, which have their
+// own tests against their sources.
+func TestCorrectionsConsistentWithSimulation(t *testing.T) {
 	for _, end := range []string{"open", "short"} {
 		t.Run(end, func(t *testing.T) {
 			d := decodeTestDesign(t, strings.Replace(fr4Open, "%s", end, 1))
@@ -87,8 +88,9 @@ func TestCorrectionsCloseTheMatchLossless(t *testing.T) {
 				t.Fatal(err)
 			}
 			g := sim.InputReflection(d.Freq, zl, d.Z0)
-			if db := S11DB(g); db > -60 {
-				t.Errorf("corrected lossless layout |S11| = %.1f dB at f0, want below -60 dB", db)
+			t.Logf("%s: corrected lossless layout |S11| = %.1f dB", end, S11DB(g))
+			if db := S11DB(g); db > -100 {
+				t.Errorf("corrected lossless layout |S11| = %.1f dB at f0, want below -100 dB", db)
 			}
 			unc, err := physical.NewSim(ph.Uncorrected(), physical.MicrostripMaker)
 			if err != nil {
@@ -142,6 +144,12 @@ func TestBuildMatchesAtF0(t *testing.T) {
 			}
 			if db := S11DB(r.S11F0); db > -40 {
 				t.Errorf("%s/%s: re-centred |S11| %.1f dB", end, st, db)
+			}
+			// The re-centring is a touch-up, not the match itself.
+			for k, dl := range r.Recentre.Changes {
+				if lg := r.Physical.Elements[0].Params.GuidedWavelength(); math.Abs(dl) > RecentreWarn*lg {
+					t.Errorf("%s/%s: re-centring moved %s by %.3f mm", end, st, r.Recentre.IDs[k], dl*1e3)
+				}
 			}
 			if S11DB(r.Uncorr) < S11DB(r.Recentre.Before)+3 {
 				t.Errorf("%s/%s: uncorrected %.1f dB is not measurably worse than corrected %.1f dB", end, st, S11DB(r.Uncorr), S11DB(r.Recentre.Before))
@@ -243,7 +251,7 @@ func TestTouchstoneLoadBuild(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := Build(BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: TouchstoneLoad{ts}, SkipTolerance: true})
+	b, err := Build(BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: TouchstoneLoad{File: ts, Path: "c.s1p"}, SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -374,5 +382,37 @@ length = "0.25wl"
 	}
 	if !strings.Contains(strings.Join(r.Notes, "\n"), "taken from the load-side feed") {
 		t.Errorf("no note in %q", r.Notes)
+	}
+}
+
+// With no spread, a tolerance sample on a field-solver stackup is the
+// nominal line at f0: the scaled closed form reproduces the solver model's
+// Z0, εeff and attenuations there (to rounding).
+func TestToleranceMakerNominal(t *testing.T) {
+	st := preset(t, "fr4-1.6mm-masked")
+	sub := st.Substrate()
+	mk := LineMakerFor(st, NewSolverCache())
+	const f0, w = 2.45e9, 2.99e-3
+	b := physical.Board{Sub: sub, Through: []physical.Trace{{Width: w, Length: 1e-2}, {Width: w, Length: 1e-2}}}
+	tmk, err := ToleranceMaker(b, mk, true, f0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, err := mk(w, sub)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := tmk(w, sub)
+	if err != nil {
+		t.Fatal(err)
+	}
+	pm, ps := m.At(f0), s.At(f0)
+	for _, c := range []struct {
+		name string
+		a, b float64
+	}{{"Z0", pm.Z0, ps.Z0}, {"εeff", pm.EpsEff, ps.EpsEff}, {"αc", pm.AlphaConductor, ps.AlphaConductor}, {"αd", pm.AlphaDielectric, ps.AlphaDielectric}} {
+		if math.Abs(c.a-c.b) > 1e-12*math.Abs(c.a) {
+			t.Errorf("%s: solver %.12g, scaled closed form %.12g", c.name, c.a, c.b)
+		}
 	}
 }

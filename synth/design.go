@@ -124,7 +124,8 @@ type SweepSpec struct {
 }
 
 // ToleranceSpec is the Monte Carlo yield analysis: how many boards to draw
-// and the spread of each quantity, as one standard deviation.
+// and the limit of each quantity's spread; values are drawn uniformly
+// within ± that limit.
 type ToleranceSpec struct {
 	Samples   int     // boards drawn; 0 turns the analysis off
 	Seed      int64   // random seed, for repeatable runs
@@ -189,4 +190,11 @@ func (d Design) StackupRef() string {
 func (d Design) Written(key string) bool {
 	_, ok := d.lines[key]
 	return ok
+}
+
+// KeyError returns err as a *DesignError that points at key (a dotted path
+// such as "fab.min_width") in the design file, with its line and value as
+// written; an unwritten key points at its table.
+func (d Design) KeyError(key string, err error) error {
+	return &DesignError{Source: d.Source, Line: designLineOf(d.lines, key), Key: key, Value: d.values[key], Err: err}
 }

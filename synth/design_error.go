@@ -65,6 +65,20 @@ type designSyntaxError struct{ err toml.ParseError }
 func (e designSyntaxError) Error() string { return "TOML syntax: " + e.err.Message }
 func (e designSyntaxError) Unwrap() error { return e.err }
 
+// designTOMLError reads the position out of the TOML decoder's type
+// errors (a compiled pattern, read only).
+var designTOMLError = regexp.MustCompile(`^toml: (?:line (\d+) )?(?:\(last key "([^"]*)"\): )?(.*)$`)
+
+// designKindError is a type mismatch reported by the TOML decoder, with
+// its position taken out of the message.
+type designKindError struct {
+	msg string
+	err error
+}
+
+func (e designKindError) Error() string { return e.msg }
+func (e designKindError) Unwrap() error { return e.err }
+
 // designDecodeFailure turns an error of toml.Decode into a DesignError.
 func designDecodeFailure(source string, err error) error {
 	var pe toml.ParseError
@@ -73,10 +87,9 @@ func designDecodeFailure(source string, err error) error {
 	}
 	// Type mismatches come as "toml: line 5 (last key "load"): incompatible
 	// types: ...".
-	re := regexp.MustCompile(`^toml: (?:line (\d+) )?(?:\(last key "([^"]*)"\): )?(.*)$`)
-	if m := re.FindStringSubmatch(err.Error()); m != nil {
+	if m := designTOMLError.FindStringSubmatch(err.Error()); m != nil {
 		line, _ := strconv.Atoi(m[1])
-		return &DesignError{Source: source, Line: line, Key: m[2], Err: fmt.Errorf("wrong kind of value: %s", m[3])}
+		return &DesignError{Source: source, Line: line, Key: m[2], Err: designKindError{"wrong kind of value: " + m[3], err}}
 	}
 	return &DesignError{Source: source, Err: err}
 }

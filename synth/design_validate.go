@@ -143,8 +143,15 @@ func (c *designCheck) checkSection(n int, s Section) {
 	c.checkZ0(p+"z0", s.Z0, "section impedance")
 	if !(s.LengthDeg > 0) || !designFinite(s.LengthDeg) {
 		c.fail(p+"length", designQuote(s.LengthDeg, "deg"), "the electrical length must be positive")
+	} else if s.LengthDeg > MaxSectionDeg {
+		c.fail(p+"length", designQuote(s.LengthDeg, "deg"), "the electrical length must be at most %g° (two wavelengths); a matching section is rarely longer than half a wavelength", float64(MaxSectionDeg))
 	}
 }
+
+// MaxSectionDeg is the longest electrical length a section may have
+// (common practice, no source: beyond two wavelengths a stub network only
+// narrows the band).
+const MaxSectionDeg = 720
 
 func (c *designCheck) checkLayout(l LayoutSpec) {
 	if !(l.FeedLength > 0) || !designFinite(l.FeedLength) {

@@ -33,6 +33,27 @@ func TestSolveShuntStubPozarExample(t *testing.T) {
 	}
 }
 
+// A second worked example recalled from the same chapter (from memory,
+// by another reader; the edition's numbering is not certain): ZL = 60 − j80 Ω
+// on 50 Ω with shorted shunt stubs, d = 0.110 λ with l = 0.095 λ and
+// d = 0.260 λ with l = 0.405 λ.
+func TestSolveShuntStubShortedExample(t *testing.T) {
+	sols, err := SolveShuntStub(complex(60, -80), 50, Short)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := []struct{ lineWL, stubWL float64 }{{0.110, 0.095}, {0.260, 0.405}}
+	if len(sols) != len(want) {
+		t.Fatalf("got %d solutions: %+v", len(sols), sols)
+	}
+	for i, w := range want {
+		if math.Abs(sols[i].LineWL()-w.lineWL) > 0.001 || math.Abs(sols[i].StubWL()-w.stubWL) > 0.001 {
+			t.Errorf("solution %d: d = %.4f λ, l = %.4f λ; want %.3f λ, %.3f λ",
+				i+1, sols[i].LineWL(), sols[i].StubWL(), w.lineWL, w.stubWL)
+		}
+	}
+}
+
 // matchABCD is the test's own 2×2 complex chain matrix, written apart from the
 // production code so that the closure check below is independent of it.
 type matchABCD [2][2]complex128

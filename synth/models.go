@@ -38,17 +38,17 @@ func LineMakerFor(st stackups.Stackup, cache *SolverCache) physical.LineMaker {
 // ToleranceMaker returns the line maker the tolerance analysis uses for
 // board b. For the closed-form models it is mk itself. For the field solver
 // a thousand boards of solves would take minutes, so each perturbed line is
-// the closed-form microstrip on the perturbed board, scaled by the ratio
-// of the solver's static Z0 and εeff to the closed form's on the nominal
-// board at the nearest nominal width: the closed forms carry the
-// sensitivities, the solver the absolute values.
-func ToleranceMaker(b physical.Board, mk physical.LineMaker, solver bool) (physical.LineMaker, error) {
+// the closed-form microstrip on the perturbed board, scaled by the ratios of
+// the solver model's Z0, εeff and attenuations at f0 to the closed form's on
+// the nominal board at the nearest nominal width: the closed forms carry the
+// sensitivities, the solver the values. A sample with no spread is the
+// nominal board at f0.
+func ToleranceMaker(b physical.Board, mk physical.LineMaker, solver bool, f0 float64) (physical.LineMaker, error) {
 	if !solver {
 		return mk, nil
 	}
-	type ratio struct{ z, e float64 }
 	var widths []float64
-	ratios := map[float64]ratio{}
+	ratios := map[float64]lineRatio{}
 	add := func(w float64) error {
 		if _, ok := ratios[w]; ok {
 			return nil
@@ -61,9 +61,9 @@ func ToleranceMaker(b physical.Board, mk physical.LineMaker, solver bool) (physi
 		if err != nil {
 			return err
 		}
-		mz, me := m.Static()
-		cz, ce := cf.Static()
-		ratios[w] = ratio{mz / cz, me / ce}
+		pm, pc := m.At(f0), cf.At(f0)
+		ratios[w] = lineRatio{z: pm.Z0 / pc.Z0, e: pm.EpsEff / pc.EpsEff,
+			ac: ratioOr1(pm.AlphaConductor, pc.AlphaConductor), ad: ratioOr1(pm.AlphaDielectric, pc.AlphaDielectric)}
 		widths = append(widths, w)
 		return nil
 	}
@@ -88,28 +88,39 @@ func ToleranceMaker(b physical.Board, mk physical.LineMaker, solver bool) (physi
 		if err != nil {
 			return nil, err
 		}
-		r := ratios[nearest]
-		return scaledLine{cf, r.z, r.e}, nil
+		return scaledLine{cf, ratios[nearest]}, nil
 	}, nil
 }
 
-// scaledLine is a closed-form line whose impedance and effective
-// permittivity are scaled by fixed ratios.
+// lineRatio scales a closed-form line to another model's values.
+type lineRatio struct{ z, e, ac, ad float64 }
+
+func ratioOr1(a, b float64) float64 {
+	if b == 0 {
+		return 1
+	}
+	return a / b
+}
+
+// scaledLine is a closed-form line whose impedance, effective permittivity
+// and attenuations are scaled by fixed ratios.
 type scaledLine struct {
 	*physical.MicrostripModel
-	kz, ke float64
+	k lineRatio
 }
 
 func (s scaledLine) At(freq float64) physical.LineParams {
 	p := s.MicrostripModel.At(freq)
-	p.Z0 *= s.kz
-	p.EpsEff *= s.ke
+	p.Z0 *= s.k.z
+	p.EpsEff *= s.k.e
+	p.AlphaConductor *= s.k.ac
+	p.AlphaDielectric *= s.k.ad
 	return p
 }
 
 func (s scaledLine) Static() (z0, epsEff float64) {
 	z, e := s.MicrostripModel.Static()
-	return z * s.kz, e * s.ke
+	return z * s.k.z, e * s.k.e
 }
 
 func (s scaledLine) Name() string {

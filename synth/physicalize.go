@@ -184,6 +184,9 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 		for _, w := range tee.Warnings {
 			p.warn(st.ID + " tee: " + w)
 		}
+		if other := through[st.At+1].Params.Z0; math.Abs(other-arm.Params.Z0) > 0.1*arm.Params.Z0 {
+			p.warn(fmt.Sprintf("%s tee: its through arms differ (%.1f Ω and %.1f Ω); the symmetric T-junction model takes the load-side arm", st.ID, arm.Params.Z0, other))
+		}
 		if tee.N <= 0 {
 			return Physical{}, fmt.Errorf("%s: the T-junction model fails at %.4g GHz (n² ≤ 0): the lines are too wide for this frequency", st.ID, f0/1e9)
 		}
@@ -314,7 +317,7 @@ func (p *Physical) correctStub(st *Element, tee physical.TeeParams, throughW flo
 	// The end's own reactance as a length.
 	var endLen float64
 	if st.End == Short {
-		zv := (physical.Board{Sub: sub, Via: via}).ViaToGround(f0)
+		zv := (physical.Board{Sub: sub, Via: via}).ViaToGround(f0, st.Width)
 		// A load jX at the end of a shorted stub acts as extra line of
 		// length atan(X/Zs)/β.
 		endLen = math.Atan2(imag(zv), zs) / beta

@@ -28,6 +28,7 @@ type NumError struct {
 	Err      error  // the reason
 }
 
+// Error reports the text, what it was read as, and why it failed.
 func (e *NumError) Error() string {
 	article := "a"
 	if e.Quantity != "" && strings.ContainsRune("aeiou", rune(e.Quantity[0])) {
@@ -37,15 +38,14 @@ func (e *NumError) Error() string {
 }
 
 // Unwrap returns the reason, so that errors.Is(err, ErrUnit) and the like work.
-
 func (e *NumError) Unwrap() error { return e.Err }
 
 // Reasons carried by NumError.Err.
 var (
-	ErrSyntax   = errors.New("not a number")
-	ErrNoUnit   = errors.New("a unit is needed")
-	ErrUnit     = errors.New("unknown unit")
-	ErrNotFinit = errors.New("not a finite value")
+	ErrSyntax    = errors.New("not a number")
+	ErrNoUnit    = errors.New("a unit is needed")
+	ErrUnit      = errors.New("unknown unit")
+	ErrNotFinite = errors.New("not a finite value")
 )
 
 // split separates "0.8 mm" into 0.8 and "mm". The number is the longest
@@ -73,13 +73,13 @@ func split(s string) (float64, string, error) {
 	}
 	v, err := strconv.ParseFloat(s[:end], 64)
 	if errors.Is(err, strconv.ErrRange) && math.IsInf(v, 0) {
-		return 0, "", ErrNotFinit
+		return 0, "", ErrNotFinite
 	}
 	if err != nil {
 		return 0, "", ErrSyntax
 	}
 	if math.IsInf(v, 0) || math.IsNaN(v) {
-		return 0, "", ErrNotFinit
+		return 0, "", ErrNotFinite
 	}
 	return v, strings.TrimSpace(s[end:]), nil
 }
@@ -109,7 +109,7 @@ func lengthUnit(u string) (float64, bool) {
 // finite reports an overflow of value × unit as a NumError.
 func finite(quantity, text string, v float64) (float64, error) {
 	if math.IsInf(v, 0) || math.IsNaN(v) {
-		return 0, &NumError{quantity, text, ErrNotFinit}
+		return 0, &NumError{quantity, text, ErrNotFinite}
 	}
 	return v, nil
 }
@@ -226,7 +226,7 @@ func decimal(s string) (float64, error) {
 	}
 	v, err := strconv.ParseFloat(s, 64)
 	if errors.Is(err, strconv.ErrRange) && math.IsInf(v, 0) {
-		return 0, ErrNotFinit
+		return 0, ErrNotFinite
 	}
 	if err != nil {
 		return 0, ErrSyntax
@@ -301,7 +301,7 @@ func ParseImpedance(s string) (complex128, error) {
 		z += complex(0, sign*x)
 	}
 	if cmplx.IsInf(z) || cmplx.IsNaN(z) {
-		return 0, &NumError{"impedance", s, ErrNotFinit}
+		return 0, &NumError{"impedance", s, ErrNotFinite}
 	}
 	return z, nil
 }

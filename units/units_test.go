@@ -101,8 +101,8 @@ func TestParseBad(t *testing.T) {
 		{length, "3 furlongs", ErrUnit},
 		{length, "NaN mm", ErrSyntax},
 		{length, "Inf mm", ErrSyntax},
-		{length, "1e999mm", ErrNotFinit},
-		{length, "-1e999mm", ErrNotFinit},
+		{length, "1e999mm", ErrNotFinite},
+		{length, "-1e999mm", ErrNotFinite},
 		{length, "1.2.3mm", ErrSyntax},
 		{length, "0x10mm", ErrUnit},
 		{length, "2.45GHz", ErrUnit},
@@ -110,22 +110,22 @@ func TestParseBad(t *testing.T) {
 		{copper, "", ErrSyntax},
 		{copper, "1", ErrNoUnit},
 		{copper, "1 pound", ErrUnit},
-		{copper, "1e999oz", ErrNotFinit},
+		{copper, "1e999oz", ErrNotFinite},
 		{frequency, "", ErrSyntax},
 		{frequency, "GHz", ErrSyntax},
 		{frequency, "3", ErrNoUnit},
 		{frequency, "3 furlongs", ErrUnit},
 		{frequency, "NaN GHz", ErrSyntax},
-		{frequency, "1e999GHz", ErrNotFinit},
-		{frequency, "1e300THz", ErrNotFinit}, // the number is finite, the product is not
+		{frequency, "1e999GHz", ErrNotFinite},
+		{frequency, "1e300THz", ErrNotFinite}, // the number is finite, the product is not
 		{frequency, "0.8mm", ErrUnit},
 		{electrical, "", ErrSyntax},
 		{electrical, "90", ErrNoUnit},
 		{electrical, "90 furlongs", ErrUnit},
 		{electrical, "NaN deg", ErrSyntax},
-		{electrical, "1e999deg", ErrNotFinit},
-		{electrical, "1e307wl", ErrNotFinit},
-		{electrical, "1e307rad", ErrNotFinit},
+		{electrical, "1e999deg", ErrNotFinite},
+		{electrical, "1e307wl", ErrNotFinite},
+		{electrical, "1e307rad", ErrNotFinite},
 	}
 	for _, tt := range tests {
 		got, err := tt.p.fn(tt.in)
@@ -231,9 +231,9 @@ func TestParseImpedanceBad(t *testing.T) {
 		{"Inf", ErrSyntax},
 		{"18-jinf", ErrSyntax},
 		{"0x12", ErrSyntax},
-		{"1e999", ErrNotFinit},
-		{"18-j1e999", ErrNotFinit},
-		{"1e999j", ErrNotFinit},
+		{"1e999", ErrNotFinite},
+		{"18-j1e999", ErrNotFinite},
+		{"1e999j", ErrNotFinite},
 	}
 	for _, tt := range tests {
 		got, err := ParseImpedance(tt.in)

@@ -1,8 +1,10 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"io"
+	"math/cmplx"
 	"strings"
 	"text/tabwriter"
 	"time"
@@ -26,9 +28,9 @@ func cautionText() string {
 
 func newBuildCmd() *cobra.Command {
 	var (
-		outDir, stackupArg, pageArg, scaleArg string
-		force, noTolerance, asJSON            bool
-		samples                               int
+		outDir, stackupArg, pageArg, scaleArg      string
+		force, noTolerance, asJSON, acceptMismatch bool
+		samples                                    int
 	)
 	cmd := &cobra.Command{
 		Use:   "build [design.toml]",
@@ -70,13 +72,21 @@ replaced only with --force; nothing is written when any step fails.
 				Lines: synth.LineMakerFor(st, cache)})
 			stop()
 			if err != nil {
-				return fmt.Errorf("%s: %w", designName(path), err)
+				return inDesign(path, err)
+			}
+			if db := synth.S11DB(res.S11F0); db > -10 && !acceptMismatch {
+				g := cmplx.Abs(physical.Reflection(synth.SectionsInput(res.Sections, res.LoadF0), d.Z0))
+				return inDesign(path, fmt.Errorf("the layout does not match: |S11| at %.6g GHz is %.1f dB, the electrical network alone gives |Γ| = %.3f and the lines lose %.2f dB; fix the network or pass --accept-mismatch to write it anyway",
+					d.Freq/1e9, db, g, res.LossF0DB))
 			}
 			if len(res.BelowFabMinimum) > 0 {
-				return fmt.Errorf("%s: %s (the fab minimum comes from [fab] min_width)", designName(path), strings.Join(res.BelowFabMinimum, "; "))
+				return errors.New(strings.Join(res.BelowFabMinimum, "; "))
 			}
 			lay, err := geom.Build(res.GeomSpec())
 			if err != nil {
+				return fmt.Errorf("%s: layout: %w", designName(path), err)
+			}
+			if err := checkBoardSize(lay); err != nil {
 				return fmt.Errorf("%s: layout: %w", designName(path), err)
 			}
 			created, err := creationTime()
@@ -106,11 +116,35 @@ replaced only with --force; nothing is written when any step fails.
 	f.StringVar(&pageArg, "page", "a4", "drawing page size: a4 or letter")
 	f.StringVar(&scaleArg, "fit", "scale", `when the board does not fit the page at 1:1: "scale" (a stated smaller scale) or "tile" (1:1 across pages)`)
 	f.BoolVar(&asJSON, "json", false, "print the report JSON instead of the summary")
+	f.BoolVar(&acceptMismatch, "accept-mismatch", false, "write the files even when the layout does not match (|S11| at f0 above −10 dB)")
 	_ = cmd.RegisterFlagCompletionFunc("stackup", completeStackup)
 	_ = cmd.RegisterFlagCompletionFunc("page", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
 		return []string{"a4", "letter"}, cobra.ShellCompDirectiveNoFileComp
 	})
 	return cmd
+}
+
+// MaxBoardSize is the largest board build draws, m: beyond it no panel,
+// plotter or drawing sheet makes sense, and the frequency is usually wrong.
+const MaxBoardSize = 0.5
+
+// checkBoardSize refuses a layout larger than MaxBoardSize.
+func checkBoardSize(lay geom.Layout) error {
+	lo, hi := lay.Board.Bounds()
+	w, h := float64(hi.X-lo.X)*1e-9, float64(hi.Y-lo.Y)*1e-9
+	if w > MaxBoardSize || h > MaxBoardSize {
+		return fmt.Errorf("the board would be %.4g × %.4g mm, larger than %.0f mm: check the frequency and the lengths", w*1e3, h*1e3, MaxBoardSize*1e3)
+	}
+	return nil
+}
+
+// inDesign names the design file in err unless err already does.
+func inDesign(path string, err error) error {
+	var de *synth.DesignError
+	if errors.As(err, &de) {
+		return err
+	}
+	return fmt.Errorf("%s: %w", designName(path), err)
 }
 
 func designName(path string) string {

@@ -50,11 +50,14 @@ func loadDesign(path, stackupOverride string) (synth.Design, stackups.Stackup, s
 	}
 	st, err := stackups.Load(ref)
 	if err != nil {
-		return synth.Design{}, stackups.Stackup{}, nil, fmt.Errorf("%s: stackup = %q: %w", name, d.Stackup, err)
+		if stackupOverride != "" {
+			return synth.Design{}, stackups.Stackup{}, nil, fmt.Errorf("--stackup %q: %w", stackupOverride, err)
+		}
+		return synth.Design{}, stackups.Stackup{}, nil, d.KeyError("stackup", err)
 	}
 	load, err := openLoad(d)
 	if err != nil {
-		return synth.Design{}, stackups.Stackup{}, nil, fmt.Errorf("%s: %w", name, err)
+		return synth.Design{}, stackups.Stackup{}, nil, d.KeyError("load.touchstone", err)
 	}
 	return d, st, load, nil
 }
@@ -67,21 +70,21 @@ func openLoad(d synth.Design) (synth.Load, error) {
 	path := d.Load.Touchstone
 	ports, err := physical.TouchstonePorts(path)
 	if err != nil {
-		return nil, fmt.Errorf("load.touchstone = %q: %w", path, err)
+		return nil, err
 	}
 	if ports != 1 {
-		return nil, fmt.Errorf("load.touchstone = %q: a load is a one-port (.s1p) file", path)
+		return nil, fmt.Errorf("%s: a load is a one-port (.s1p) file", path)
 	}
 	f, err := os.Open(path)
 	if err != nil {
-		return nil, fmt.Errorf("load.touchstone: %w", err)
+		return nil, err
 	}
 	defer f.Close()
 	t, err := physical.ReadTouchstone(f, path, 1)
 	if err != nil {
-		return nil, fmt.Errorf("load.touchstone: %w", err)
+		return nil, err
 	}
-	return synth.TouchstoneLoad{File: t}, nil
+	return synth.TouchstoneLoad{File: t, Path: path}, nil
 }
 
 // creationTime is SOURCE_DATE_EPOCH when set (reproducible builds), else now.

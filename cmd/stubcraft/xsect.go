@@ -89,7 +89,11 @@ plane-to-plane spacing and --offset moves the strip up from the centre.`,
 			if err != nil {
 				var ie *fieldsolve.InputError
 				if errors.As(err, &ie) {
-					return fmt.Errorf("%s: %w", xsectFieldFlag(ie.Field, cs.Geometry), ie.Err)
+					name := xsectFieldFlag(ie.Field, cs.Geometry)
+					if fl := cmd.Flags().Lookup(strings.TrimPrefix(name, "--")); fl != nil && fl.Changed {
+						return fmt.Errorf("%s %q: %w", name, fl.Value.String(), ie.Err)
+					}
+					return fmt.Errorf("%s (%g in SI units, from the stackup or the default): %w", name, ie.Value, ie.Err)
 				}
 				if !errors.Is(err, fieldsolve.ErrNotConverged) {
 					return err
