@@ -432,3 +432,54 @@ func TestBuildGCPW(t *testing.T) {
 		t.Errorf("too few drill hits for a stitched pour:\n%s", drill)
 	}
 }
+
+// A network that does not match is refused unless asked for; an absurd
+// frequency that would draw a board kilometres long is refused whatever.
+func TestBuildRefusesMismatchAndHugeBoards(t *testing.T) {
+	parent := t.TempDir()
+	write := func(name, text string) string {
+		p := filepath.Join(parent, name)
+		if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return p
+	}
+	wrong := write("wrong.toml", `name = "wrong"
+frequency = "2.45GHz"
+z0 = 50
+stackup = "fr4-1.6mm"
+[load]
+impedance = "60-j80"
+[[section]]
+kind = "line"
+z0 = 50
+length = "36deg"
+[[section]]
+kind = "stub"
+end = "open"
+z0 = 50
+length = "36deg"
+`)
+	out := filepath.Join(parent, "out")
+	if _, err := runRoot(t, "build", wrong, "-o", out, "--no-tolerance"); err == nil || !strings.Contains(err.Error(), "does not match") {
+		t.Fatalf("want a refusal, got %v", err)
+	}
+	if _, err := os.Stat(out); err == nil {
+		t.Fatal("written despite the refusal")
+	}
+	if _, err := runRoot(t, "build", wrong, "-o", out, "--no-tolerance", "--accept-mismatch"); err != nil {
+		t.Fatalf("--accept-mismatch: %v", err)
+	}
+	demo, err := demoFS.ReadFile(demoDesign)
+	if err != nil {
+		t.Fatal(err)
+	}
+	slow := write("slow.toml", strings.Replace(string(demo), `frequency = "2.45GHz"`, `frequency = "1kHz"`, 1))
+	huge := filepath.Join(parent, "huge")
+	if _, err := runRoot(t, "build", slow, "-o", huge, "--no-tolerance", "--accept-mismatch"); err == nil || !strings.Contains(err.Error(), "larger than 500 mm") {
+		t.Fatalf("want a board-size refusal, got %v", err)
+	}
+	if _, err := os.Stat(huge); err == nil {
+		t.Fatal("a huge board was written")
+	}
+}
