@@ -55,6 +55,26 @@ type stubMM struct {
 	via            *viaMM
 	teeX, teeY     float64
 	drawnLengthAbs float64
+	// bend is set for a stub laid out as a mitred L; then x0..x1 is its
+	// first leg, end the y of its second leg's centre line, tip the y of
+	// its copper's (or via pad's) outermost edge, and via nil (the via is
+	// bend.via).
+	bend *bendMM
+}
+
+// bendMM is a bent stub's L (see geom.Bend), mm.
+type bendMM struct {
+	toward         float64 // +1: the second leg runs toward +x
+	center, end    ptMM    // bend centre; the stub's end (open end or via pad's far edge)
+	corner         ptMM    // the cut outer corner
+	chamfer        [2]ptMM // the miter's ends
+	chamferLeg     float64 // 2·m·W
+	leg1, leg2     float64 // centre-line lengths; leg2 to the end
+	drawn2         float64 // leg2 as the report counts it: to the via centre of a shorted stub
+	miter          float64 // Douville and James's fraction
+	inner, outer   float64 // y of the second leg's edges toward and away from the through line
+	via            *viaMM
+	firstX, innerX float64 // x of the first leg's outer and inner edges
 }
 
 func nmToMM(v int64) float64 { return float64(v) / 1e6 }
@@ -91,6 +111,10 @@ func newBoardModel(lay geom.Layout) (boardModel, error) {
 	for _, t := range lay.Marks.Tees {
 		tees[t.StubID] = t
 	}
+	bends := map[string]geom.Bend{}
+	for _, bd := range lay.Marks.Bends {
+		bends[bd.StubID] = bd
+	}
 	for _, e := range lay.Marks.Elements {
 		r := e.Rect
 		switch e.Kind {
@@ -106,6 +130,10 @@ func newBoardModel(lay geom.Layout) (boardModel, error) {
 			if t.EndY < t.RefY {
 				s.side = -1
 			}
+			if bd, ok := bends[e.ID]; ok {
+				b.stubs = append(b.stubs, bentStub(s, bd, lay.Vias, b.vias))
+				continue
+			}
 			s.end = s.tip
 			for i, v := range lay.Vias {
 				if v.Center.X == t.Center.X && between(v.Center.Y, t.RefY, t.EndY) {
@@ -118,6 +146,33 @@ func newBoardModel(lay geom.Layout) (boardModel, error) {
 		}
 	}
 	return b, nil
+}
+
+// bentStub completes s, a stub with its tee's marks, from its bend: the
+// first leg's x extent, the second leg's edges, its via (vias and mm are
+// the layout's vias in nm and mm).
+func bentStub(s stubMM, bd geom.Bend, vias []geom.Via, mm []viaMM) stubMM {
+	c := ptOf(bd.Center)
+	k := &bendMM{
+		toward: float64(bd.Toward), center: c, end: ptOf(bd.End), corner: ptOf(bd.Corner),
+		chamfer: [2]ptMM{ptOf(bd.Chamfer[0]), ptOf(bd.Chamfer[1])}, chamferLeg: nmToMM(bd.ChamferLeg),
+		leg1: nmToMM(bd.Leg1), leg2: nmToMM(bd.Leg2), miter: bd.Miter,
+		firstX: nmToMM(bd.Corner.X), innerX: nmToMM(2*bd.Center.X - bd.Corner.X),
+		outer: nmToMM(bd.Corner.Y), inner: nmToMM(2*bd.Center.Y - bd.Corner.Y),
+	}
+	k.drawn2 = k.leg2
+	s.x0, s.x1 = math.Min(k.firstX, k.innerX), math.Max(k.firstX, k.innerX)
+	s.end, s.tip = c.y, k.outer
+	for i, v := range vias {
+		if v.Net == geom.NetRF && v.Center.Y == bd.End.Y && between(v.Center.X, bd.Center.X, bd.End.X) {
+			k.via = &mm[i]
+			k.drawn2 = math.Abs(mm[i].c.x - c.x)
+			s.tip = s.side * math.Max(s.side*s.tip, s.side*(mm[i].c.y+s.side*mm[i].pad/2))
+		}
+	}
+	s.drawnLengthAbs = k.leg1 + k.drawn2
+	s.bend = k
+	return s
 }
 
 func between(v, a, b int64) bool {
@@ -204,6 +259,9 @@ func (b boardModel) extentsAt(s float64) extents {
 			far = st.via.c.y + st.side*st.via.pad/2
 		}
 		reach := s*far + st.side*(dimStubGap+5)
+		if st.bend != nil {
+			reach = s*far + st.side*(dimStubGap+12) // the second leg's dimension and note, the miter's leader
+		}
 		if st.via != nil {
 			reach = math.Max(reach, s*st.via.c.y+9) // via leader label
 		}
@@ -273,4 +331,71 @@ func tiles(c, a float64) int {
 		return 1
 	}
 	return int(math.Ceil((c - tileOverlap) / (a - tileOverlap)))
+}
+
+// bentStubDims dimensions a bent stub s in view v: its first leg from the
+// through line's edge to the bend's centre line, beside the leg's outer
+// edge; its second leg from the bend's centre line to the end (the via
+// centre of a shorted stub), beyond the leg's outer edge; its width across
+// the second leg beyond the end; and the miter, by a leader from the
+// chamfer. It returns the lowest paper y it drew at.
+func (d *doc) bentStubDims(s stubMM, v view) float64 {
+	f := d.pdf
+	k := s.bend
+	tw, sd := k.toward, s.side
+	pad := 0.0
+	if k.via != nil {
+		pad = k.via.pad
+	}
+	// First leg, on its outer side (away from the second leg).
+	xd := v.X(k.firstX) - tw*dimStubGap
+	dimV(f, v.X(k.firstX), v.Y(s.ref), v.X(k.firstX), v.Y(k.center.y), xd, mm3(k.leg1), tw < 0)
+	align, lx := "R", xd-1.2
+	if tw < 0 {
+		align, lx = "L", xd+1.2
+	}
+	label(f, "1st leg, to bend centre", lx, (v.Y(s.ref)+v.Y(k.center.y))/2-2.8, align, noteFontPt, colMuted)
+	// Second leg, beyond its outer edge (and the via pad).
+	far := sd * math.Max(sd*k.outer, sd*(k.center.y+sd*pad/2))
+	yd := v.Y(far) - sd*(dimStubGap+2) // clear of the width dimension's extension lines
+	endX := k.end.x
+	if k.via != nil {
+		endX = k.via.c.x
+	}
+	dimH(f, v.X(k.center.x), v.Y(k.center.y), v.X(endX), v.Y(k.center.y), yd, mm3(k.drawn2), sd < 0)
+	note := "2nd leg, from bend centre"
+	if k.via != nil {
+		note += " to via centre"
+	}
+	label(f, note, v.X((k.center.x+endX)/2), yd-sd*3.4, "C", noteFontPt, colMuted)
+	// Width across the second leg, beyond its end.
+	xw := v.X(k.end.x) + tw*(dimStubGap+v.s*pad/2)
+	dimV(f, v.X(k.end.x), v.Y(k.inner), v.X(k.end.x), v.Y(k.outer), xw, mm3(math.Abs(k.outer-k.inner)), tw > 0)
+	if k.via != nil {
+		vx, vy := v.X(k.via.c.x), v.Y(k.via.c.y)
+		leader(f, vx, vy, vx+tw*6, v.Y(k.inner)+sd*4, fmt.Sprintf("via: drill Ø%s", mm3(k.via.drill)), fmt.Sprintf("pad Ø%s", mm3(k.via.pad)))
+	} else {
+		align := "R"
+		if tw > 0 {
+			align = "L"
+		}
+		label(f, "open end", v.X(k.end.x)+tw*1.2, v.Y(k.inner)+sd*1.8, align, noteFontPt, colMuted)
+	}
+	// The miter: a leader from the chamfer's middle, outward along the
+	// corner's diagonal.
+	mx, my := v.X((k.chamfer[0].x+k.chamfer[1].x)/2), v.Y((k.chamfer[0].y+k.chamfer[1].y)/2)
+	cx, cy := v.X(k.corner.x), v.Y(k.corner.y)
+	ox, oy := cx-tw*6, cy-sd*6
+	leader(f, mx, my, ox, oy, fmt.Sprintf("miter %.0f %%", math.Round(100*k.miter)),
+		fmt.Sprintf("cut %s × %s", mm3(k.chamferLeg), mm3(k.chamferLeg)))
+	return math.Max(math.Max(yd+2.5, oy+6), v.Y(far))
+}
+
+// bentCentreLine draws a bent stub's centre line: up its first leg to the
+// bend's centre, then along its second leg past the end.
+func (d *doc) bentCentreLine(s stubMM, v view, centreY float64) {
+	f := d.pdf
+	k := s.bend
+	f.Line(v.X(s.cx), v.Y(centreY), v.X(k.center.x), v.Y(k.center.y))
+	f.Line(v.X(k.center.x), v.Y(k.center.y), v.X(k.end.x)+k.toward*2.5, v.Y(k.center.y))
 }

@@ -278,6 +278,10 @@ func (d *doc) centreLines(b boardModel, v view) {
 	f.SetDashPattern([]float64{3, 0.8, 0.6, 0.8}, 0)
 	f.Line(v.X(0)-3, v.Y(b.centreY), v.X(b.w)+3, v.Y(b.centreY))
 	for _, s := range b.stubs {
+		if s.bend != nil {
+			d.bentCentreLine(s, v, b.centreY)
+			continue
+		}
 		far := s.tip
 		if s.via != nil {
 			far = s.via.c.y + s.side*s.via.pad/2
@@ -350,6 +354,10 @@ func (d *doc) boardDims(b boardModel, v view) {
 	// Stubs: width beyond the end, drawn length beside, via callout.
 	low := v.Y(0)
 	for _, s := range b.stubs {
+		if s.bend != nil {
+			low = math.Max(low, d.bentStubDims(s, v))
+			continue
+		}
 		far := s.tip
 		if s.via != nil {
 			far = s.via.c.y + s.side*s.via.pad/2

@@ -72,6 +72,12 @@ func WriteSVG(w io.Writer, rep Report, lay geom.Layout) error {
 		s.dimH(g.x0, g.x1, row, mm3(g.x1-g.x0), "length "+g.id)
 	}
 	for _, st := range b.stubs {
+		if st.bend != nil {
+			s.bentStub(st)
+			row -= 6
+			s.dimH(0, st.cx, row, mm3(st.cx), "stub "+st.id+" from load port")
+			continue
+		}
 		s.dimH(st.x0, st.x1, st.tip+st.side*3, mm3(st.x1-st.x0), "width "+st.id)
 		s.dimV(st.x1+3, st.ref, st.end, st.x1+3, mm3(math.Abs(st.end-st.ref)), "drawn length "+st.id)
 		row -= 6
@@ -83,11 +89,44 @@ func WriteSVG(w io.Writer, rep Report, lay geom.Layout) error {
 	return bw.Flush()
 }
 
+// bentStub dimensions a bent stub: its first leg from the through line's
+// edge to the bend's centre line beside the leg's outer edge, its second
+// leg from the bend's centre line to the end (the via centre of a shorted
+// stub) beyond the leg's outer edge, its width across the second leg
+// beyond the end, and the miter's fraction beside the cut corner.
+func (s svgDoc) bentStub(st stubMM) {
+	k := st.bend
+	tw, sd := k.toward, st.side
+	x1 := k.firstX - tw*3
+	s.dimV(x1, st.ref, k.center.y, x1, mm3(k.leg1), "first leg "+st.id+", through line's edge to bend centre")
+	endX := k.end.x
+	what := "end"
+	if k.via != nil {
+		endX, what = k.via.c.x, "via centre"
+	}
+	s.dimH(k.center.x, endX, st.tip+sd*3, mm3(k.drawn2), "second leg "+st.id+", bend centre to "+what)
+	xw := k.end.x + tw*3
+	if k.via != nil {
+		xw += tw * k.via.pad / 2
+	}
+	s.dimV(xw, k.inner, k.outer, xw, mm3(math.Abs(k.outer-k.inner)), "width "+st.id)
+	cx, cy := k.corner.x-tw*1.5, k.corner.y+sd*1.5
+	anchor := "end"
+	if tw < 0 {
+		anchor = "start"
+	}
+	fmt.Fprintf(s.w, "<text class=\"miter\" x=\"%s\" y=\"%s\" text-anchor=\"%s\" stroke=\"none\"><title>Douville and James 1978 optimal miter, cut %s mm along each edge</title>miter %.0f %%</text>\n",
+		num(s.X(cx)), num(s.Y(cy)), anchor, mm3(k.chamferLeg), math.Round(100*k.miter))
+}
+
 // stubReach is how far stub dimensions reach above the board top, mm.
 func stubReach(b boardModel) float64 {
 	r := 0.0
 	for _, s := range b.stubs {
 		r = math.Max(r, s.tip+5-b.h)
+		if s.bend != nil {
+			r = math.Max(r, s.tip+8-b.h) // the second leg's dimension and the miter's label
+		}
 	}
 	return r
 }
