@@ -47,6 +47,12 @@ func MiterFraction(w, h float64) float64 {
 // as a straight line of that length: with the optimal miter the bend's own
 // reflection is small, and counting a mitred bend at its centre-line
 // length is common practice, no source.
+//
+// The solder-mask window, the keep-out and a grounded-coplanar pour's
+// clearance are grown from the un-chamfered L (rectilinear), so beside the
+// miter they keep more than their distance: along the cut's middle the
+// pour is ChamferLeg/2 + the gap away, where an exact offset would keep
+// the gap.
 type Bend struct {
 	StubID string
 	// Toward is +1 when the second leg runs toward the source port (+x),
