@@ -89,6 +89,7 @@ replaced only with --force; nothing is written when any step fails.
 			if err := checkBoardSize(lay); err != nil {
 				return fmt.Errorf("%s: layout: %w", designName(path), err)
 			}
+			res.Notes = append(res.Notes, res.LayoutNotes(lay)...)
 			created, err := creationTime()
 			if err != nil {
 				return err
