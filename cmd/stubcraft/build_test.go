@@ -483,3 +483,23 @@ length = "36deg"
 		t.Fatal("a huge board was written")
 	}
 }
+
+// A stub that does not fit the board's height bends with a mitred corner,
+// and the report says so.
+func TestBuildBentStub(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	out, err := runRoot(t, "build", filepath.Join("..", "..", "testdata", "designs", "compact-bent-stub.toml"), "-o", dir, "--no-tolerance")
+	if err != nil {
+		t.Fatalf("%v\n%s", err, out)
+	}
+	if !strings.Contains(out, "bends 90°") || !strings.Contains(out, "Douville and James") {
+		t.Errorf("no bend note in the summary:\n%s", out)
+	}
+	data, err := os.ReadFile(filepath.Join(dir, "report.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(data), "bends 90°") {
+		t.Error("no bend note in report.json")
+	}
+}
