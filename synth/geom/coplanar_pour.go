@@ -10,30 +10,14 @@ func complement(board Rect, cut []Rect) []Rect {
 	if board.Empty() {
 		return nil
 	}
-	xs := []int64{board.Min.X, board.Max.X}
-	ys := []int64{board.Min.Y, board.Max.Y}
 	var in []Rect
 	for _, r := range cut {
-		r = r.Intersect(board)
-		if r.Empty() {
-			continue
+		if r = r.Intersect(board); !r.Empty() {
+			in = append(in, r)
 		}
-		in = append(in, r)
-		xs = append(xs, r.Min.X, r.Max.X)
-		ys = append(ys, r.Min.Y, r.Max.Y)
 	}
-	xs, ys = uniq(xs), uniq(ys)
+	xs, ys, covered := coverGrid(in, []int64{board.Min.X, board.Max.X}, []int64{board.Min.Y, board.Max.Y})
 	nx, ny := len(xs)-1, len(ys)-1
-	covered := make([]bool, nx*ny)
-	for _, r := range in {
-		i0, i1 := index(xs, r.Min.X), index(xs, r.Max.X)
-		j0, j1 := index(ys, r.Min.Y), index(ys, r.Max.Y)
-		for j := j0; j < j1; j++ {
-			for i := i0; i < i1; i++ {
-				covered[j*nx+i] = true
-			}
-		}
-	}
 	var out []Rect
 	for j := 0; j < ny; j++ {
 		for i := 0; i < nx; {

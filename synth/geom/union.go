@@ -15,31 +15,17 @@ import "sort"
 // are removed and each loop starts at its lowest, then leftmost, vertex, so
 // the output does not depend on the order of the input.
 func Union(rects []Rect) []Polygon {
-	var xs, ys []int64
 	var in []Rect
 	for _, r := range rects {
-		if r.Empty() {
-			continue
+		if !r.Empty() {
+			in = append(in, r)
 		}
-		in = append(in, r)
-		xs = append(xs, r.Min.X, r.Max.X)
-		ys = append(ys, r.Min.Y, r.Max.Y)
 	}
 	if len(in) == 0 {
 		return nil
 	}
-	xs, ys = uniq(xs), uniq(ys)
+	xs, ys, covered := coverGrid(in, nil, nil)
 	nx, ny := len(xs)-1, len(ys)-1
-	covered := make([]bool, nx*ny)
-	for _, r := range in {
-		i0, i1 := index(xs, r.Min.X), index(xs, r.Max.X)
-		j0, j1 := index(ys, r.Min.Y), index(ys, r.Max.Y)
-		for j := j0; j < j1; j++ {
-			for i := i0; i < i1; i++ {
-				covered[j*nx+i] = true
-			}
-		}
-	}
 	cov := func(i, j int) bool {
 		return i >= 0 && j >= 0 && i < nx && j < ny && covered[j*nx+i]
 	}
@@ -180,4 +166,28 @@ func sign(v int) int {
 		return -1
 	}
 	return 0
+}
+
+// coverGrid compresses the coordinates of rects, and the extra coordinates
+// given, into a grid and marks the cells the rectangles cover: cell (i, j)
+// spans xs[i]..xs[i+1] by ys[j]..ys[j+1] and is covered[j*(len(xs)-1)+i].
+// Every rectangle must be non-empty.
+func coverGrid(rects []Rect, xs, ys []int64) ([]int64, []int64, []bool) {
+	for _, r := range rects {
+		xs = append(xs, r.Min.X, r.Max.X)
+		ys = append(ys, r.Min.Y, r.Max.Y)
+	}
+	xs, ys = uniq(xs), uniq(ys)
+	nx, ny := len(xs)-1, len(ys)-1
+	covered := make([]bool, nx*ny)
+	for _, r := range rects {
+		i0, i1 := index(xs, r.Min.X), index(xs, r.Max.X)
+		j0, j1 := index(ys, r.Min.Y), index(ys, r.Max.Y)
+		for j := j0; j < j1; j++ {
+			for i := i0; i < i1; i++ {
+				covered[j*nx+i] = true
+			}
+		}
+	}
+	return xs, ys, covered
 }
