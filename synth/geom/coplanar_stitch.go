@@ -134,7 +134,7 @@ func clipRow(a, d, t0, t1, lo, hi int64) (int64, int64) {
 }
 
 // dir returns the unit axis direction from a to b of a rectilinear edge.
-func dir(a, b Point) Point { return Point{sign64(b.X - a.X), sign64(b.Y - a.Y)} }
+func dir(a, b Point) Point { return Point{sign(b.X - a.X), sign(b.Y - a.Y)} }
 
 // onOutline reports whether the edge a→b lies on a side of the board.
 func onOutline(a, b Point, board Rect) bool {
@@ -144,12 +144,3 @@ func onOutline(a, b Point, board Rect) bool {
 	return a.Y == b.Y && (a.Y == board.Min.Y || a.Y == board.Max.Y)
 }
 
-func sign64(v int64) int64 {
-	switch {
-	case v > 0:
-		return 1
-	case v < 0:
-		return -1
-	}
-	return 0
-}

@@ -414,7 +414,7 @@ func TestCoplanarStitchRules(t *testing.T) {
 					if (a.X == b.X && (a.X == 0 || a.X == board.X)) || (a.Y == b.Y && (a.Y == 0 || a.Y == board.Y)) {
 						continue // on the board outline
 					}
-					dx, dy := sign64(b.X-a.X), sign64(b.Y-a.Y)
+					dx, dy := sign(b.X-a.X), sign(b.Y-a.Y)
 					for s := int64(0); s <= (b.X-a.X)*dx+(b.Y-a.Y)*dy; s += 50000 {
 						q := Point{a.X + s*dx, a.Y + s*dy}
 						if min(q.X, q.Y, board.X-q.X, board.Y-q.Y) < spacing {

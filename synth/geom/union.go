@@ -158,7 +158,8 @@ func index(v []int64, x int64) int {
 	return sort.Search(len(v), func(i int) bool { return v[i] >= x })
 }
 
-func sign(v int) int {
+// sign returns −1, 0 or +1 with the sign of v.
+func sign[T int | int64](v T) T {
 	switch {
 	case v > 0:
 		return 1
