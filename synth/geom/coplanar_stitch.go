@@ -143,4 +143,3 @@ func onOutline(a, b Point, board Rect) bool {
 	}
 	return a.Y == b.Y && (a.Y == board.Min.Y || a.Y == board.Max.Y)
 }
-
