@@ -374,7 +374,16 @@ func (d *doc) boardDims(b boardModel, v view) {
 		if s.via != nil {
 			label(f, "to via centre", xd+1.2, (v.Y(s.ref)+v.Y(s.end))/2+2.8, "L", noteFontPt, colMuted)
 			vx, vy := v.X(s.via.c.x), v.Y(s.via.c.y)
-			leader(f, vx, vy, v.X(s.x0)-4, vy+s.side*3, fmt.Sprintf("via: drill Ø%s", mm3(s.via.drill)), fmt.Sprintf("pad Ø%s", mm3(s.via.pad)))
+			// The callout points left, clear of the length dimension on
+			// the right, unless another stub on this side stands close on
+			// the left: then it goes out beyond the length dimension.
+			tx := v.X(s.x0) - 4
+			for _, o := range b.stubs {
+				if o.id != s.id && o.side == s.side && o.cx < s.cx && v.X(s.x0)-v.X(o.x1) < 30 {
+					tx = xd + 14
+				}
+			}
+			leader(f, vx, vy, tx, vy+s.side*3, fmt.Sprintf("via: drill Ø%s", mm3(s.via.drill)), fmt.Sprintf("pad Ø%s", mm3(s.via.pad)))
 		} else {
 			label(f, "open end", v.X(s.x0)-1.2, v.Y(s.tip)+s.side*1.4, "R", noteFontPt, colMuted)
 		}
