@@ -7,8 +7,11 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"reflect"
 	"strings"
 	"testing"
+
+	"stubcraft/stackups"
 )
 
 func runRoot(t *testing.T, args ...string) (string, error) {
@@ -501,5 +504,23 @@ func TestBuildBentStub(t *testing.T) {
 	}
 	if !strings.Contains(string(data), "bends 90°") {
 		t.Error("no bend note in report.json")
+	}
+}
+
+// "stackups show" prints TOML that decodes back to the same preset.
+func TestStackupsShowRoundTrip(t *testing.T) {
+	for _, name := range presetNames() {
+		out, err := runRoot(t, "stackups", "show", name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got, err := stackups.Decode(strings.NewReader(out), name+".toml")
+		if err != nil {
+			t.Fatalf("%s: %v\n%s", name, err, out)
+		}
+		want, _ := stackups.Preset(name)
+		if !reflect.DeepEqual(got, want) {
+			t.Errorf("%s: shown %+v, preset %+v", name, got, want)
+		}
 	}
 }
