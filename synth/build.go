@@ -184,7 +184,6 @@ func Build(in BuildInput) (*Result, error) {
 			return nil, err
 		}
 		r.Tolerance = &t
-		r.Notes = append(r.Notes, t.Notes...)
 	}
 	return r, nil
 }

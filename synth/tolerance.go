@@ -20,7 +20,6 @@ type Tolerance struct {
 	S11DB    []float64 // |S11| at f0 of each sample, dB, in sample order
 	P50, P90 float64   // median and 90th percentile of S11DB
 	Yield    float64   // fraction of samples below YieldThresholdDB
-	Notes    []string
 }
 
 // Analyse draws spec.Samples boards whose εr, dielectric thickness, etched
