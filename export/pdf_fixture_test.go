@@ -65,10 +65,10 @@ func fixtureReport(ds drawingSpec) Report {
 			ThicknessMM: 1.6, CopperThicknessUM: 35, RoughnessUM: 1.2, ConductivitySPerM: 5.8e7, MaskThicknessUM: &mask, MaskEr: &maskEr},
 		Load: ReportLoad{ROhm: 31, XOhm: -24, GammaMag: 0.3756, VSWR: 2.2, ReturnLossDB: 8.5},
 		Elements: []ReportElement{
-			{ID: "feed-load", Role: "feed", Z0Ohm: 50, Z0F0Ohm: 49.87, EpsEffF0: 3.337, WidthMM: 2.985, ElectricalDeg: 26.91, LineLengthMM: 5, DrawnLengthMM: 5},
+			{ID: "feed-load", Role: "line", Feed: true, Z0Ohm: 50, Z0F0Ohm: 49.87, EpsEffF0: 3.337, WidthMM: 2.985, ElectricalDeg: 26.91, LineLengthMM: 5, DrawnLengthMM: 5},
 			{ID: "line-1", Role: "line", Z0Ohm: 50, Z0F0Ohm: 49.87, EpsEffF0: 3.337, WidthMM: 2.985, ElectricalDeg: 41.27, LineLengthMM: ds.line + 0.654,
 				TeeMM: -0.789, RecentreMM: 0.135, DrawnLengthMM: ds.line},
-			{ID: "feed-source", Role: "feed", Z0Ohm: 50, Z0F0Ohm: 49.87, EpsEffF0: 3.337, WidthMM: 2.985, ElectricalDeg: 26.91, LineLengthMM: 5, DrawnLengthMM: 5},
+			{ID: "feed-source", Role: "line", Feed: true, Z0Ohm: 50, Z0F0Ohm: 49.87, EpsEffF0: 3.337, WidthMM: 2.985, ElectricalDeg: 26.91, LineLengthMM: 5, DrawnLengthMM: 5},
 			{ID: "stub-1", Role: "stub", End: end, Z0Ohm: 50, Z0F0Ohm: 49.87, EpsEffF0: 3.337, WidthMM: ds.stubW, ElectricalDeg: 58.36,
 				LineLengthMM: drawn + 0.512 + 0.221, OpenEndMM: -0.512, TeeMM: -0.221, DrawnLengthMM: drawn, AttachedTo: "line-1"},
 		},

@@ -37,6 +37,9 @@ func (d *doc) elementTable(x, y, w float64) float64 {
 			if e.End != "" {
 				return e.Role + ", " + e.End
 			}
+			if e.Feed {
+				return "feed line"
+			}
 			return e.Role
 		}},
 		{"Z0", "(Ω)", 13, func(e ReportElement) string { return fmt.Sprintf("%.2f", e.Z0Ohm) }},

@@ -79,7 +79,8 @@ type ReportSection struct {
 // ReportElement is one element of the corrected physical network.
 type ReportElement struct {
 	ID            string  `json:"id"`
-	Role          string  `json:"role"`
+	Role          string  `json:"role"`      // "line" or "stub"
+	Feed          bool    `json:"port_feed"` // a line to a port, drawn to the layout's feed length
 	End           string  `json:"end"`
 	Z0Ohm         float64 `json:"z0_ohm"`
 	Z0F0Ohm       float64 `json:"z0_model_f0_ohm"`
@@ -167,10 +168,13 @@ func NewReport(r *synth.Result, version string) Report {
 	}
 	els := r.Physical.Elements
 	for _, e := range els {
-		re := ReportElement{ID: e.ID, Role: string(e.Role), Z0Ohm: e.Z0, Z0F0Ohm: e.Params.Z0, EpsEffF0: e.Params.EpsEff,
+		re := ReportElement{ID: e.ID, Role: string(e.Role), Feed: e.Role == synth.RoleFeed, Z0Ohm: e.Z0, Z0F0Ohm: e.Params.Z0, EpsEffF0: e.Params.EpsEff,
 			WidthMM: e.Width * 1e3, ElectricalDeg: e.ElectricalDeg, LineLengthMM: e.LineLength * 1e3,
 			OpenEndMM: e.OpenEnd * 1e3, TeeMM: e.Tee * 1e3, ViaMM: e.Via * 1e3, RecentreMM: e.Recentre * 1e3,
 			DrawnLengthMM: e.DrawnLength * 1e3}
+		if re.Feed {
+			re.Role = string(synth.RoleLine)
+		}
 		if e.Role == synth.RoleStub {
 			re.End = e.End.String()
 			re.AttachedTo = throughID(els, e.At)

@@ -237,7 +237,11 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 		if end == "" {
 			end = "-"
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%.1f\t%.3f\t%.2f\t%.3f\t%+.3f\t%+.3f\t%+.3f\t%+.3f\t%.3f\t\n", e.ID, e.Role, end, e.Z0Ohm, e.WidthMM,
+		role := e.Role
+		if e.Feed {
+			role = "feed"
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%.1f\t%.3f\t%.2f\t%.3f\t%+.3f\t%+.3f\t%+.3f\t%+.3f\t%.3f\t\n", e.ID, role, end, e.Z0Ohm, e.WidthMM,
 			e.ElectricalDeg, e.LineLengthMM, e.OpenEndMM, e.TeeMM, e.ViaMM, e.RecentreMM, e.DrawnLengthMM)
 	}
 	if err := tw.Flush(); err != nil {

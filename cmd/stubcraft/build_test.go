@@ -35,6 +35,7 @@ type reportFile struct {
 	Elements []struct {
 		ID            string  `json:"id"`
 		Role          string  `json:"role"`
+		Feed          bool    `json:"port_feed"`
 		End           string  `json:"end"`
 		Z0Ohm         float64 `json:"z0_ohm"`
 		WidthMM       float64 `json:"width_mm"`
@@ -93,11 +94,15 @@ func TestBuildDemo(t *testing.T) {
 	roles := map[string]int{}
 	for _, e := range rep.Elements {
 		roles[e.Role]++
+		if e.Feed {
+			roles["feed"]++
+		}
 		if e.WidthMM <= 0 || e.DrawnLengthMM <= 0 {
 			t.Errorf("element %+v", e)
 		}
 	}
-	if roles["stub"] != 1 || roles["line"] != 1 || roles["feed"] != 2 {
+	// The issue's roles are line and stub; the two port feeds are lines.
+	if roles["stub"] != 1 || roles["line"] != 3 || roles["feed"] != 2 || len(roles) != 3 {
 		t.Errorf("roles %v", roles)
 	}
 	if rep.Tolerance == nil || rep.Tolerance.P50 > rep.Tolerance.P90 || len(rep.Cautions) < 4 || rep.Bandwidth10DBHz <= 0 {
