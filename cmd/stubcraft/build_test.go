@@ -529,3 +529,31 @@ func TestStackupsShowRoundTrip(t *testing.T) {
 		}
 	}
 }
+
+// Every example design builds; the decoder fixture whose arbitrary
+// lengths do not match is refused as a mismatch.
+func TestExampleDesignsBuild(t *testing.T) {
+	files, err := filepath.Glob(filepath.Join("..", "..", "testdata", "designs", "*.toml"))
+	if err != nil || len(files) == 0 {
+		t.Fatalf("no example designs: %v", err)
+	}
+	for _, file := range files {
+		base := filepath.Base(file)
+		if strings.HasPrefix(base, "bad-") {
+			continue
+		}
+		t.Run(base, func(t *testing.T) {
+			dir := filepath.Join(t.TempDir(), "out")
+			_, err := runRoot(t, "build", file, "-o", dir, "--samples", "50")
+			if base == "sensor-antenna-sections.toml" {
+				if err == nil || !strings.Contains(err.Error(), "does not match") {
+					t.Errorf("want a mismatch refusal, got %v", err)
+				}
+				return
+			}
+			if err != nil {
+				t.Fatal(err)
+			}
+		})
+	}
+}
