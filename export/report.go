@@ -48,6 +48,8 @@ type ReportStackup struct {
 	Er                float64  `json:"er"`
 	ErFrequencyHz     float64  `json:"er_frequency_hz,omitempty"`
 	LossTangent       float64  `json:"loss_tangent"`
+	ErF0              float64  `json:"er_at_f0"`           // εr used at the design frequency
+	LossTangentF0     float64  `json:"loss_tangent_at_f0"` // tanδ used at the design frequency
 	ThicknessMM       float64  `json:"dielectric_thickness_mm"`
 	CopperThicknessUM float64  `json:"copper_thickness_um"`
 	RoughnessUM       float64  `json:"copper_roughness_um"`
@@ -145,6 +147,7 @@ func NewReport(r *synth.Result, version string) Report {
 		LossTangent: st.Dielectric.LossTangent, ThicknessMM: st.Dielectric.Thickness * 1e3,
 		CopperThicknessUM: st.Copper.Thickness * 1e6, RoughnessUM: st.Copper.Roughness * 1e6,
 		ConductivitySPerM: st.Copper.Conductivity}
+	rep.Stackup.ErF0, rep.Stackup.LossTangentF0 = r.Physical.Board.Sub.Er, r.Physical.Board.Sub.LossTangent
 	if rep.Stackup.Line == "" {
 		rep.Stackup.Line = "microstrip"
 	}

@@ -114,7 +114,7 @@ func Build(in BuildInput) (*Result, error) {
 	d := in.Design
 	spreadNotes := applyStackupSpread(&d, in.Stackup)
 	f0, z0 := d.Freq, d.Z0
-	sub := in.Stackup.Substrate()
+	sub, subNote := SubstrateAt(in.Stackup, f0)
 	mk := in.Lines
 	if mk == nil {
 		mk = LineMakerFor(in.Stackup, NewSolverCache())
@@ -135,7 +135,7 @@ func Build(in BuildInput) (*Result, error) {
 		return nil, d.KeyError("", fmt.Errorf("on stackup %s at %.6g GHz: %w", in.Stackup.Name, f0/1e9, err))
 	}
 	r := &Result{Design: d, Stackup: in.Stackup, LoadF0: zl, Sections: sections, Physical: ph}
-	r.Notes = append(append(append(r.Notes, notes...), ph.Notes...), spreadNotes...)
+	r.Notes = append(append(append(append(r.Notes, subNote...), notes...), ph.Notes...), spreadNotes...)
 	r.Warnings = append(r.Warnings, ph.Warnings...)
 	if len(ph.Elements) > 0 {
 		r.Model = ph.Elements[0].Model

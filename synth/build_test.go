@@ -416,3 +416,29 @@ func TestToleranceMakerNominal(t *testing.T) {
 		}
 	}
 }
+
+// A stackup's εr given at another frequency is moved to f0 by the
+// wideband Debye model and the build says so; without er_frequency, or at
+// that frequency, nothing moves.
+func TestSubstrateAtDesignFrequency(t *testing.T) {
+	st := preset(t, "fr4-1.6mm")
+	if st.Dielectric.ErFrequency != 1e9 {
+		t.Skipf("the preset gives εr at %g Hz", st.Dielectric.ErFrequency)
+	}
+	sub, notes := SubstrateAt(st, 2.45e9)
+	want, _ := physical.FitWidebandDebye(st.Dielectric.Er, st.Dielectric.LossTangent, 1e9).At(2.45e9)
+	if sub.Er != want || len(notes) != 1 || !strings.Contains(notes[0], "wideband Debye") {
+		t.Errorf("εr %.4f (want %.4f), notes %q", sub.Er, want, notes)
+	}
+	if same, notes := SubstrateAt(st, 1e9); same.Er != st.Dielectric.Er || notes != nil {
+		t.Errorf("at the reference frequency: εr %.4f, notes %q", same.Er, notes)
+	}
+	st.Dielectric.ErFrequency = 0
+	if same, _ := SubstrateAt(st, 2.45e9); same.Er != st.Dielectric.Er {
+		t.Errorf("without er_frequency: εr %.4f", same.Er)
+	}
+	r := build(t, strings.Replace(fr4Open, "%s", "open", 1), "fr4-1.6mm", true)
+	if r.Physical.Board.Sub.Er != want {
+		t.Errorf("the build used εr %.4f, want %.4f", r.Physical.Board.Sub.Er, want)
+	}
+}

@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"fmt"
 	"math"
 
 	"stubcraft/physical"
@@ -33,6 +34,21 @@ func LineMakerFor(st stackups.Stackup, cache *SolverCache) physical.LineMaker {
 		geometry, gap = fieldsolve.GCPW, st.Gap
 	}
 	return fieldsolve.Maker(geometry, gap, cache)
+}
+
+// SubstrateAt returns the cross-section data of st for a design at f0:
+// when the stackup gives the frequency its εr and loss tangent were
+// measured at, they are moved to f0 by the wideband Debye model
+// (physical.WidebandDebye), and a note says so.
+func SubstrateAt(st stackups.Stackup, f0 float64) (physical.Substrate, []string) {
+	sub := st.Substrate()
+	fr := st.Dielectric.ErFrequency
+	if fr <= 0 || fr == f0 {
+		return sub, nil
+	}
+	at := sub.At(fr, f0)
+	return at, []string{fmt.Sprintf("dielectric: εr %.3f and tanδ %.4f at %.4g GHz become %.3f and %.4f at %.4g GHz (wideband Debye model, Djordjevic-Sarkar 2001)",
+		sub.Er, sub.LossTangent, fr/1e9, at.Er, at.LossTangent, f0/1e9)}
 }
 
 // ToleranceMaker returns the line maker the tolerance analysis uses for

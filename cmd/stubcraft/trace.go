@@ -29,6 +29,9 @@ type traceReport struct {
 	AlphaDielDBPerM    float64  `json:"alpha_dielectric_db_per_m"`
 	AlphaTotalDBPerM   float64  `json:"alpha_total_db_per_m"`
 	LossDB             *float64 `json:"loss_db,omitempty"`
+	Er                 float64  `json:"er_at_freq"`
+	LossTangent        float64  `json:"loss_tangent_at_freq"`
+	Notes              []string `json:"notes"`
 	Warnings           []string `json:"warnings"`
 }
 
@@ -66,7 +69,7 @@ of that electrical length at --freq is given too.`,
 			cache := synth.NewSolverCache()
 			maker := synth.LineMakerFor(st, cache)
 			defer solverProgress(cache)()
-			sub := st.Substrate()
+			sub, subNotes := synth.SubstrateAt(st, freq)
 			var model physical.LineModel
 			var warnings []string
 			if z0Arg != "" {
@@ -104,6 +107,9 @@ of that electrical length at --freq is given too.`,
 				AlphaDielDBPerM:    p.AlphaDielectric * physical.NpDB,
 				AlphaTotalDBPerM:   p.Alpha() * physical.NpDB,
 				Warnings:           nonNil(warnings),
+				Notes:              nonNil(subNotes),
+				Er:                 sub.Er,
+				LossTangent:        sub.LossTangent,
 			}
 			if lengthArg != "" {
 				deg, err := units.ParseElectricalLength(lengthArg)
@@ -140,6 +146,7 @@ func printTrace(w io.Writer, r traceReport) error {
 	row := func(k, format string, v ...any) { fmt.Fprintf(tw, k+"\t"+format+"\n", v...) }
 	row("stackup", "%s", r.Stackup)
 	row("model", "%s", r.Model)
+	row("εr, tanδ at frequency", "%.3f, %.4f", r.Er, r.LossTangent)
 	row("frequency", "%.6g GHz", r.FrequencyHz/1e9)
 	row("width", "%.4f mm", r.WidthMM)
 	row("Z0 at frequency", "%.3f Ω", r.Z0Ohm)
@@ -157,6 +164,9 @@ func printTrace(w io.Writer, r traceReport) error {
 	row("attenuation, total", "%.3f dB/m", r.AlphaTotalDBPerM)
 	if err := tw.Flush(); err != nil {
 		return err
+	}
+	for _, n := range r.Notes {
+		fmt.Fprintln(w, "note:", n)
 	}
 	for _, warn := range r.Warnings {
 		fmt.Fprintln(w, "warning:", warn)
