@@ -237,7 +237,7 @@ func (d *doc) s11Chart(x, y, w, h float64) {
 		yv := math.Max(d.rep.S11DBF0, ylo)
 		setFill(f, colCurveA)
 		f.Circle(c.X(f0), c.Y(yv), 0.7, "F")
-		label(f, minus(fmt.Sprintf("%.1f dB at f0", d.rep.S11DBF0)), c.X(f0)+1.5, math.Min(c.Y(yv)+2.5, y+h-2), "L", noteFontPt, colCurveA)
+		label(f, minus(ModelDB(d.rep.S11DBF0)+" at f0"), c.X(f0)+1.5, math.Min(c.Y(yv)+2.5, y+h-2), "L", noteFontPt, colCurveA)
 	}
 }
 
@@ -412,8 +412,8 @@ func (d *doc) results(x, y, w float64) {
 	f := d.pdf
 	r := d.rep
 	lines := []string{
-		minus(fmt.Sprintf("|S11| at f0: %.1f dB drawn, %.1f dB without the discontinuity corrections, %.1f dB before re-centring", r.S11DBF0, r.S11DBF0Uncorr, r.Recentring.S11DBBefore)),
-		minus(fmt.Sprintf("return loss %.1f dB, VSWR %.2f, network loss %.3f dB at f0", r.ReturnLossDBF0, r.VSWRF0, r.NetworkLossDBF0)),
+		minus(fmt.Sprintf("|S11| at f0: %s drawn, %s without the discontinuity corrections, %s before re-centring", ModelDB(r.S11DBF0), ModelDB(r.S11DBF0Uncorr), ModelDB(r.Recentring.S11DBBefore))),
+		minus(fmt.Sprintf("return loss %s, VSWR %.2f, network loss %.3f dB at f0", returnLossText(r.ReturnLossDBF0), r.VSWRF0, r.NetworkLossDBF0)),
 	}
 	if r.Bandwidth10DBHz > 0 {
 		lines = append(lines, minus(fmt.Sprintf("band |S11| < −10 dB: %.4g to %.4g GHz (%.1f MHz)", r.Band10DBHz[0]/1e9, r.Band10DBHz[1]/1e9, r.Bandwidth10DBHz/1e6)))

@@ -2,6 +2,7 @@ package export
 
 import (
 	"encoding/json"
+	"fmt"
 	"io"
 	"math"
 	"math/cmplx"
@@ -129,6 +130,23 @@ type ReportTolerance struct {
 	Yield        float64   `json:"yield"`
 	YieldBelowDB float64   `json:"yield_threshold_db"`
 	SamplesS11DB []float64 `json:"samples_s11_db"`
+}
+
+// ModelDB prints a simulated |S11| in dB; below −100 dB the digits say
+// nothing a network analyser could see, so it says "below −100 dB".
+func ModelDB(db float64) string {
+	if db < -100 {
+		return "below −100 dB"
+	}
+	return fmt.Sprintf("%.1f dB", db)
+}
+
+// returnLossText prints a simulated return loss, "above 100 dB" past it.
+func returnLossText(rl float64) string {
+	if rl > 100 {
+		return "above 100 dB"
+	}
+	return fmt.Sprintf("%.1f dB", rl)
 }
 
 // NewReport gathers the report of a build.

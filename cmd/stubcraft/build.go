@@ -217,15 +217,6 @@ func inputTouchstone(res *synth.Result) *physical.Touchstone {
 	return t
 }
 
-// dbText prints a model's |S11| in dB; below −100 dB the digits say
-// nothing a network analyser could see.
-func dbText(db float64) string {
-	if db < -100 {
-		return "below −100 dB"
-	}
-	return fmt.Sprintf("%.1f dB", db)
-}
-
 // printSummary writes the human-readable account of a build.
 func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) error {
 	fmt.Fprintf(w, "%s at %.6g GHz, %g Ω, on %s (%s)\n", rep.Name, rep.FrequencyHz/1e9, rep.Z0Ohm, rep.Stackup.Name, rep.Model)
@@ -248,7 +239,7 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 		return err
 	}
 	fmt.Fprintf(w, "\n|S11| at f0: %s drawn (%s without the discontinuity corrections; %s before re-centring)\n",
-		dbText(rep.S11DBF0), dbText(rep.S11DBF0Uncorr), dbText(rep.Recentring.S11DBBefore))
+		export.ModelDB(rep.S11DBF0), export.ModelDB(rep.S11DBF0Uncorr), export.ModelDB(rep.Recentring.S11DBBefore))
 	if rep.Bandwidth10DBHz > 0 {
 		fmt.Fprintf(w, "band |S11| < −10 dB: %.4g–%.4g GHz (%.1f MHz)\n", rep.Band10DBHz[0]/1e9, rep.Band10DBHz[1]/1e9, rep.Bandwidth10DBHz/1e6)
 	}

@@ -8,6 +8,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"stubcraft/export"
 	"stubcraft/stackups"
 	"stubcraft/synth"
 	"stubcraft/units"
@@ -156,7 +157,7 @@ func printCompare(w io.Writer, rows []compareRow, minWidth float64) error {
 			ok = "NO"
 		}
 		fmt.Fprintf(tw, "%s\t%s\t%.2f\t%.2f\t%.3f\t%s\t%s\t%.3f\t%s\n", r.Stackup, strings.Join(ws, ", "), r.CopperLengthMM,
-			r.CopperAreaMM2, r.InsertionDB, strings.TrimSuffix(dbText(r.S11DBF0), " dB"), p90, r.MinWidthMM, ok)
+			r.CopperAreaMM2, r.InsertionDB, strings.TrimSuffix(export.ModelDB(r.S11DBF0), " dB"), p90, r.MinWidthMM, ok)
 	}
 	return tw.Flush()
 }
