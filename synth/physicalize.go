@@ -50,7 +50,6 @@ type Physical struct {
 	Board    physical.Board
 	Notes    []string // what was moved or decided, for the report
 	Warnings []string // validity and fab warnings
-	lines    map[float64]WidthResult
 }
 
 // PhysicalOptions are the layout choices that change the electrical network.
@@ -93,9 +92,10 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 			return Physical{}, fmt.Errorf("sections %d and %d are two stubs at one point; one stub per tee is supported", i, i+1)
 		}
 	}
-	p := Physical{lines: map[float64]WidthResult{}}
+	var p Physical
+	widths := map[float64]WidthResult{} // one synthesis per impedance
 	line := func(z float64) (WidthResult, error) {
-		if r, ok := p.lines[z]; ok {
+		if r, ok := widths[z]; ok {
 			return r, nil
 		}
 		r, err := WidthWith(mk, sub, z, f0)
@@ -105,7 +105,7 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 		for _, w := range r.Warnings {
 			p.warn(fmt.Sprintf("%.4g Ω line: %s", z, w))
 		}
-		p.lines[z] = r
+		widths[z] = r
 		return r, nil
 	}
 	element := func(id string, role Role, z, deg float64) (Element, error) {
