@@ -17,17 +17,16 @@ type goldenRow struct {
 	z0s, e0s, z0f, ef, alphaC, alphaD float64
 }
 
-// readGolden reads the scikit-rf MLine table made by
-// testdata/skrf/make_mline_table.py (its header records the versions, the
-// command and the three corrections made to scikit-rf 0.15.4).
-func readGolden(t *testing.T) []goldenRow {
+// readTable reads a tab-separated reference table under testdata/skrf:
+// '#' comment lines, one header line starting "er", then rows of numbers,
+// each of them cols wide. It returns the rows with their line numbers.
+func readTable(t *testing.T, name string, cols int) (rows [][]float64, lines []int) {
 	t.Helper()
-	f, err := os.Open("../testdata/skrf/mline_golden.tsv")
+	f, err := os.Open("../testdata/skrf/" + name)
 	if err != nil {
 		t.Fatal(err)
 	}
 	defer f.Close()
-	var rows []goldenRow
 	sc := bufio.NewScanner(f)
 	n := 0
 	for sc.Scan() {
@@ -37,25 +36,39 @@ func readGolden(t *testing.T) []goldenRow {
 			continue
 		}
 		fields := strings.Split(text, "\t")
-		if len(fields) != 14 {
-			t.Fatalf("mline_golden.tsv:%d: %d fields, want 14", n, len(fields))
+		if len(fields) != cols {
+			t.Fatalf("%s:%d: %d fields, want %d", name, n, len(fields), cols)
 		}
-		var v [14]float64
+		v := make([]float64, cols)
 		for i, s := range fields {
 			if v[i], err = strconv.ParseFloat(s, 64); err != nil {
-				t.Fatalf("mline_golden.tsv:%d: field %d: %v", n, i+1, err)
+				t.Fatalf("%s:%d: field %d: %v", name, n, i+1, err)
 			}
 		}
-		rows = append(rows, goldenRow{
-			line: n,
+		rows = append(rows, v)
+		lines = append(lines, n)
+	}
+	if err := sc.Err(); err != nil {
+		t.Fatal(err)
+	}
+	return rows, lines
+}
+
+// readGolden reads the scikit-rf MLine table made by
+// testdata/skrf/make_mline_table.py (its header records the versions, the
+// command and the three corrections made to scikit-rf 0.15.4).
+func readGolden(t *testing.T) []goldenRow {
+	t.Helper()
+	table, lines := readTable(t, "mline_golden.tsv", 14)
+	rows := make([]goldenRow, len(table))
+	for k, v := range table {
+		rows[k] = goldenRow{
+			line: lines[k],
 			sub: Substrate{Er: v[0], Height: v[1], CopperThickness: v[3],
 				Conductivity: v[4], Roughness: v[5], LossTangent: v[6]},
 			width: v[2], freq: v[7],
 			z0s: v[8], e0s: v[9], z0f: v[10], ef: v[11], alphaC: v[12], alphaD: v[13],
-		})
-	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
+		}
 	}
 	return rows
 }

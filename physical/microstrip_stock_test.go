@@ -1,11 +1,7 @@
 package physical
 
 import (
-	"bufio"
 	"math"
-	"os"
-	"strconv"
-	"strings"
 	"testing"
 )
 
@@ -16,29 +12,9 @@ import (
 // do not enter the static Z0, the static εeff or the Kirschning-Jansen
 // εeff(f), so these must agree to the table's ten digits.
 func TestMicrostripStockLibrary(t *testing.T) {
-	f, err := os.Open("../testdata/skrf/mline_stock.tsv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	sc := bufio.NewScanner(f)
-	n, rows := 0, 0
-	for sc.Scan() {
-		n++
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || strings.HasPrefix(line, "er\t") || line == "" {
-			continue
-		}
-		fields := strings.Split(line, "\t")
-		if len(fields) != 7 {
-			t.Fatalf("mline_stock.tsv:%d: %d fields, want 7", n, len(fields))
-		}
-		v := make([]float64, 7)
-		for i, s := range fields {
-			if v[i], err = strconv.ParseFloat(s, 64); err != nil {
-				t.Fatalf("mline_stock.tsv:%d: %v", n, err)
-			}
-		}
+	table, lines := readTable(t, "mline_stock.tsv", 7)
+	for k, v := range table {
+		n := lines[k]
 		er, h, w, freq := v[0], v[1], v[2], v[3]
 		m, err := NewMicrostrip(w, Substrate{Er: er, Height: h})
 		if err != nil {
@@ -55,9 +31,8 @@ func TestMicrostripStockLibrary(t *testing.T) {
 					n, er, w/h, freq*h*1e-6, c.name, c.got, c.want)
 			}
 		}
-		rows++
 	}
-	if rows < 300 {
-		t.Fatalf("only %d rows read", rows)
+	if len(table) < 300 {
+		t.Fatalf("only %d rows read", len(table))
 	}
 }
