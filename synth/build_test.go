@@ -164,10 +164,11 @@ func TestBuildMatchesAtF0(t *testing.T) {
 	}
 }
 
-// A line made negative by the feed carve moves to the next solution,
-// half a guided wavelength longer, and says so.
-func TestNegativeLengthMovesHalfWave(t *testing.T) {
-	d := decodeTestDesign(t, `
+// lineStubDesign is a matched 50 Ω load behind a 50 Ω line of the given
+// electrical length and a quarter-wave open stub (which, ideal, is a
+// short: the network is for geometry, not for matching).
+func lineStubDesign(lineLength string) string {
+	return `
 name = "t"
 frequency = "2.45GHz"
 z0 = 50
@@ -177,13 +178,19 @@ impedance = "50"
 [[section]]
 kind = "line"
 z0 = 50
-length = "10deg"
+length = "` + lineLength + `"
 [[section]]
 kind = "stub"
 end = "open"
 z0 = 50
 length = "0.25wl"
-`)
+`
+}
+
+// A line made negative by the feed carve moves to the next solution,
+// half a guided wavelength longer, and says so.
+func TestNegativeLengthMovesHalfWave(t *testing.T) {
+	d := decodeTestDesign(t, lineStubDesign("10deg"))
 	r, err := Build(BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(50), SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
@@ -342,23 +349,7 @@ func TestDoubleStubSections(t *testing.T) {
 // A line too short to hold its stub borrows length from the load-side
 // feed, which is the same line: the electrical total is unchanged.
 func TestFirstLineBorrowsFromFeed(t *testing.T) {
-	d := decodeTestDesign(t, `
-name = "t"
-frequency = "2.45GHz"
-z0 = 50
-stackup = "fr4-1.6mm"
-[load]
-impedance = "50"
-[[section]]
-kind = "line"
-z0 = 50
-length = "28deg"
-[[section]]
-kind = "stub"
-end = "open"
-z0 = 50
-length = "0.25wl"
-`)
+	d := decodeTestDesign(t, lineStubDesign("28deg"))
 	r, err := Build(BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(50), SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
