@@ -125,6 +125,30 @@ func NewSim(b Board, mk LineMaker) (*Sim, error) {
 	return s, nil
 }
 
+// Relength returns the simulation of the same board with other drawn
+// lengths (through lines, then stubs, in Board order). The line models
+// depend only on the widths and the substrate, so they are shared.
+func (s *Sim) Relength(through, stubs []float64) (*Sim, error) {
+	if len(through) != len(s.board.Through) || len(stubs) != len(s.board.Stubs) {
+		return nil, fmt.Errorf("board: %d through and %d stub lengths for %d and %d lines", len(through), len(stubs), len(s.board.Through), len(s.board.Stubs))
+	}
+	b := s.board
+	b.Through = append([]Trace(nil), b.Through...)
+	b.Stubs = append([]Stub(nil), b.Stubs...)
+	for i, l := range through {
+		b.Through[i].Length = l
+	}
+	for i, l := range stubs {
+		b.Stubs[i].Length = l
+	}
+	if err := b.Validate(); err != nil {
+		return nil, err
+	}
+	q := *s
+	q.board = b
+	return &q, nil
+}
+
 // Board returns the board being simulated.
 func (s *Sim) Board() Board { return s.board }
 

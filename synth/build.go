@@ -162,10 +162,7 @@ func Build(in BuildInput) (*Result, error) {
 	}
 	r.Uncorr = uncorr.InputReflection(f0, zl, z0)
 
-	if err := r.recentre(mk, zl); err != nil {
-		return nil, err
-	}
-	sim, err := physical.NewSim(r.Physical.Board, mk)
+	sim, err := r.recentre(mk, zl)
 	if err != nil {
 		return nil, err
 	}
@@ -225,8 +222,9 @@ const RecentreWarn = 0.01
 // recentre lets Nelder-Mead (gonum/optimize) adjust the drawn lengths of
 // the lines and stubs of the solution so that the full model's |S11| at f0
 // is least. The corrections put the layout close already; this takes out
-// what they cannot: loss, and the small asymmetries of the tee model.
-func (r *Result) recentre(mk physical.LineMaker, zl complex128) error {
+// what they cannot: loss, and the small asymmetries of the tee model. It
+// returns the simulation of the layout it keeps.
+func (r *Result) recentre(mk physical.LineMaker, zl complex128) (*physical.Sim, error) {
 	f0, z0 := r.Design.Freq, r.Design.Z0
 	ph := &r.Physical
 	var idx []int
@@ -243,25 +241,37 @@ func (r *Result) recentre(mk physical.LineMaker, zl complex128) error {
 	// simplex is well scaled.
 	lg := ph.Elements[idx[0]].Params.GuidedWavelength()
 	minLen := ph.minLengths()
-	boardFor := func(x []float64) (physical.Board, bool) {
-		q := *ph
-		q.Elements = append([]Element(nil), ph.Elements...)
-		for k, i := range idx {
-			l := start[k] + x[k]*lg
-			if l < minLen[i] || math.Abs(x[k]) > MaxRecentre {
-				return physical.Board{}, false
+	base, err := physical.NewSim(ph.Board, mk)
+	if err != nil {
+		return nil, err
+	}
+	r.Recentre.Before = base.InputReflection(f0, zl, z0)
+	// simFor is the layout with the adjustable lengths moved by x; the
+	// line models are made once, in base.
+	simFor := func(x []float64) (*physical.Sim, bool) {
+		var through, stubs []float64
+		k := 0
+		for i, e := range ph.Elements {
+			l := e.DrawnLength
+			if k < len(idx) && idx[k] == i {
+				l = start[k] + x[k]*lg
+				if l < minLen[i] || math.Abs(x[k]) > MaxRecentre {
+					return nil, false
+				}
+				k++
 			}
-			q.Elements[i].DrawnLength = l
+			if e.Role == RoleStub {
+				stubs = append(stubs, l)
+			} else {
+				through = append(through, l)
+			}
 		}
-		return q.board(ph.Board.Sub, ph.Board.Via), true
+		sim, err := base.Relength(through, stubs)
+		return sim, err == nil
 	}
 	objective := func(x []float64) float64 {
-		b, ok := boardFor(x)
+		sim, ok := simFor(x)
 		if !ok {
-			return 10
-		}
-		sim, err := physical.NewSim(b, mk)
-		if err != nil {
 			return 10
 		}
 		g := sim.InputReflection(f0, zl, z0)
@@ -274,17 +284,12 @@ func (r *Result) recentre(mk physical.LineMaker, zl complex128) error {
 		}
 		return real(g)*real(g) + imag(g)*imag(g) + 1e-10*pull
 	}
-	before, err := physical.NewSim(ph.Board, mk)
-	if err != nil {
-		return err
-	}
-	r.Recentre.Before = before.InputReflection(f0, zl, z0)
 	x0 := make([]float64, len(idx))
 	res, err := optimize.Minimize(optimize.Problem{Func: objective}, x0,
 		&optimize.Settings{FuncEvaluations: 2000, Converger: &optimize.FunctionConverge{Absolute: 1e-14, Iterations: 50}},
 		&optimize.NelderMead{InitialVertices: nil, SimplexSize: 0.01})
 	if err != nil && res == nil {
-		return fmt.Errorf("re-centring: %w", err)
+		return nil, fmt.Errorf("re-centring: %w", err)
 	}
 	r.Recentre.Evaluations = res.FuncEvaluations
 	if res.F >= objective(x0) {
@@ -294,7 +299,7 @@ func (r *Result) recentre(mk physical.LineMaker, zl complex128) error {
 			r.Recentre.IDs = append(r.Recentre.IDs, ph.Elements[i].ID)
 			r.Recentre.Changes = append(r.Recentre.Changes, 0)
 		}
-		return nil
+		return base, nil
 	}
 	for k, i := range idx {
 		e := &ph.Elements[i]
@@ -311,12 +316,12 @@ func (r *Result) recentre(mk physical.LineMaker, zl complex128) error {
 				e.ID, e.Recentre*1e3, 100*math.Abs(res.X[k])))
 		}
 	}
-	after, err := physical.NewSim(ph.Board, mk)
-	if err != nil {
-		return err
+	after, ok := simFor(res.X)
+	if !ok {
+		return nil, fmt.Errorf("re-centring: the optimum %v left the allowed lengths", res.X)
 	}
 	r.Recentre.After = after.InputReflection(f0, zl, z0)
-	return nil
+	return after, nil
 }
 
 // sweep fills r.Sweep and the bandwidths.
