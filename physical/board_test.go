@@ -46,3 +46,32 @@ func discOutsideBand(r, a float64) float64 {
 	}
 	return 2 * sum
 }
+
+// Relength gives the same network as a Sim made afresh from the relengthed
+// board, and refuses a wrong number of lengths.
+func TestSimRelength(t *testing.T) {
+	sub := Substrate{Er: 3.48, Height: 0.508e-3, CopperThickness: 35e-6, LossTangent: 0.0037}
+	b := Board{Sub: sub, Through: []Trace{{1.1e-3, 5e-3}, {1.1e-3, 7e-3}}, Stubs: []Stub{{At: 0, Width: 1.1e-3, Length: 6e-3}}}
+	s, err := NewSim(b, MicrostripMaker)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := s.Relength([]float64{4e-3, 8e-3}, []float64{5.5e-3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b.Through[0].Length, b.Through[1].Length, b.Stubs[0].Length = 4e-3, 8e-3, 5.5e-3
+	fresh, err := NewSim(b, MicrostripMaker)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.ABCD(2.45e9) != fresh.ABCD(2.45e9) {
+		t.Errorf("relengthed %v, fresh %v", r.ABCD(2.45e9), fresh.ABCD(2.45e9))
+	}
+	if s.Board().Through[0].Length != 5e-3 {
+		t.Error("Relength changed the original")
+	}
+	if _, err := s.Relength([]float64{1e-3}, nil); err == nil {
+		t.Error("wrong counts accepted")
+	}
+}
