@@ -91,6 +91,9 @@ func NewSim(b Board, mk LineMaker) (*Sim, error) {
 	if err := b.Validate(); err != nil {
 		return nil, err
 	}
+	// The Sim keeps its own copy: the caller may go on editing b.
+	b.Through = append([]Trace(nil), b.Through...)
+	b.Stubs = append([]Stub(nil), b.Stubs...)
 	s := &Sim{board: b, stubAt: make([]int, len(b.Through))}
 	models := map[float64]LineModel{}
 	get := func(w float64) (LineModel, error) {
