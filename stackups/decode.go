@@ -10,7 +10,7 @@ import (
 	"github.com/BurntSushi/toml"
 
 	"stubcraft/physical"
-	"stubcraft/units"
+	"stubcraft/physical/units"
 )
 
 // schema returns the keys a stackup file may hold: the top-level keys, and

@@ -8,7 +8,7 @@ import (
 	"strings"
 	"testing"
 
-	"stubcraft/units"
+	"stubcraft/physical/units"
 )
 
 // baseFile is a complete stackup using every key of the schema, one key a

@@ -6,7 +6,7 @@ import (
 	"strconv"
 	"strings"
 
-	"stubcraft/units"
+	"stubcraft/physical/units"
 )
 
 // Encode writes s to w as a stackup file that Decode reads back to an equal

@@ -8,7 +8,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"stubcraft/units"
+	"stubcraft/physical/units"
 )
 
 // literal writes a decoded TOML value the way a TOML file would hold it,

@@ -5,7 +5,7 @@ import (
 	"math/rand"
 	"testing"
 
-	"stubcraft/units"
+	"stubcraft/physical/units"
 )
 
 func TestPercent(t *testing.T) {

@@ -12,7 +12,7 @@ import (
 
 	"github.com/BurntSushi/toml"
 
-	"stubcraft/units"
+	"stubcraft/physical/units"
 )
 
 // The file as the TOML reader sees it. Leaf values are `any` so that a

@@ -9,9 +9,9 @@ import (
 	"github.com/spf13/cobra"
 
 	"stubcraft/export"
+	"stubcraft/physical/units"
 	"stubcraft/stackups"
 	"stubcraft/synth"
-	"stubcraft/units"
 )
 
 // compareRow is one stackup's outcome in "stubcraft compare".

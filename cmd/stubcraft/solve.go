@@ -11,8 +11,8 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"stubcraft/physical/units"
 	"stubcraft/synth"
-	"stubcraft/units"
 )
 
 // solveOptions are the flags of the solve command, as typed.

@@ -8,8 +8,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"stubcraft/physical"
+	"stubcraft/physical/units"
 	"stubcraft/synth"
-	"stubcraft/units"
 )
 
 // traceReport is the JSON form of "stubcraft trace"; every key says its unit.

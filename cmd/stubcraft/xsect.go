@@ -15,8 +15,8 @@ import (
 	"github.com/spf13/cobra"
 
 	"stubcraft/physical/fieldsolve"
+	"stubcraft/physical/units"
 	"stubcraft/stackups"
-	"stubcraft/units"
 )
 
 // xsectFlags holds the text of the xsect command's flags; quantities are
