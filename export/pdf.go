@@ -115,7 +115,9 @@ func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOp
 	f.SetAutoPageBreak(false, 0)
 	f.SetMargins(0, 0, 0)
 	for _, ff := range fontFiles() {
-		f.AddUTF8FontFromBytes(ff.family, ff.style, ff.ttf)
+		// A copy: gofpdf writes into the bytes it is given while it
+		// subsets, which would change the next drawing of the process.
+		f.AddUTF8FontFromBytes(ff.family, ff.style, bytes.Clone(ff.ttf))
 	}
 	d := &doc{pdf: f, pg: pg, rep: rep, opt: opt, total: total}
 	d.boardSheets(b, plan)
