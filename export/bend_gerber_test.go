@@ -9,7 +9,6 @@ import (
 	"strings"
 	"testing"
 
-	"stubcraft/export/internal/gerberread"
 	"stubcraft/synth/geom"
 )
 
@@ -177,14 +176,7 @@ func TestBentStubInGerber(t *testing.T) {
 			}
 			// A shorted stub's via: on the second leg's centre line, its
 			// drawn length ending there (the Excellon file's hit).
-			var b bytes.Buffer
-			if err := WriteExcellon(&b, l, refMeta()); err != nil {
-				t.Fatal(err)
-			}
-			drill, err := gerberread.ReadExcellon(&b)
-			if err != nil {
-				t.Fatal(err)
-			}
+			drill := readDrill(t, l)
 			if tt.leg2ToVia > 0 {
 				if len(drill.Hits) != 1 {
 					t.Fatalf("%d drill hits", len(drill.Hits))

@@ -18,9 +18,25 @@ import (
 // decimal point (at least three decimals, trailing zeros beyond them
 // dropped, exact to the nanometre), so the zero-suppression mode stated in
 // the header (TZ: trailing zeros kept) never has to be applied by a reader.
-// Tools are numbered by ascending diameter. The output depends only on the
-// arguments.
+// Tools are numbered by ascending diameter.
+//
+// The header carries the Gerber X2 attributes in the form X2-aware CAM
+// reads from Excellon comments ("; #@! TF.FileFunction,Plated,1,2,PTH",
+// "; #@! TA.AperFunction,Plated,PTH,ViaDrill" before each tool; the
+// attribute values of the Gerber Layer Format Specification 2023.08,
+// .FileFunction and .AperFunction for drill layers; the comment form is
+// common practice, no source), and says in plain words that the holes are
+// plated. All of stubcraft's holes are plated vias, so no non-plated file
+// is ever written. A layout without holes gets no file: ErrEmptyLayer.
+// The output depends only on the arguments.
 func WriteExcellon(w io.Writer, l geom.Layout, meta Meta) error {
+	if len(l.Vias) == 0 {
+		return fmt.Errorf("export: Excellon drill file: %w", ErrEmptyLayer)
+	}
+	guid, err := meta.ProjectGUID()
+	if err != nil {
+		return err
+	}
 	var sizes []int64
 	for _, v := range l.Vias {
 		if v.Drill <= 0 {
@@ -36,9 +52,16 @@ func WriteExcellon(w io.Writer, l geom.Layout, meta Meta) error {
 	p("M48")
 	p("; %s %s %s, plated through holes", commentText(Application), commentText(meta.version()), commentText(l.Name))
 	p("; created %s", meta.creationDate())
+	p("; #@! TF.GenerationSoftware,%s,%s,%s", attrField(Vendor), attrField(Application), attrField(meta.version()))
+	p("; #@! TF.CreationDate,%s", meta.creationDate())
+	p("; #@! TF.ProjectId,%s,%s,%s", attrField(meta.name()), guid, attrField(meta.revision()))
+	p("; #@! TF.SameCoordinates,%s", guid)
+	p("; #@! TF.FileFunction,%s", DrillPTH.FileFunction())
+	p("; #@! TF.FilePolarity,Positive")
 	p("FMAT,2")
 	p("METRIC,TZ")
 	for i, d := range sizes {
+		p("; #@! TA.AperFunction,Plated,PTH,ViaDrill")
 		p("T%02dC%s", i+1, drillMM(d))
 	}
 	p("%%")

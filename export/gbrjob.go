@@ -76,8 +76,10 @@ type jobMaterial struct {
 // ProjectId, the board Size (mm), LayerNumber 2 and BoardThickness (the
 // dielectric plus both coppers, mm), FilesAttributes naming the Gerber
 // files by Layer.FileName(l.Name), and MaterialStackup from top to bottom.
-// The drill layer is listed only when the layout has vias, the solder mask
-// only when stack.Mask.
+// FilesAttributes lists every file a build writes for the layout, each
+// with its function: the Gerber layers that have content (LayersOf) and,
+// when there are holes, the Excellon drill file. The solder-mask material
+// is in the stack-up only when stack.Mask gives its thickness.
 func WriteGerberJob(w io.Writer, l geom.Layout, meta Meta, stack JobStack) error {
 	guid, err := meta.ProjectGUID()
 	if err != nil {
@@ -114,11 +116,11 @@ func WriteGerberJob(w io.Writer, l geom.Layout, meta Meta, stack JobStack) error
 			BoardThickness: mmNumber(geom.Nanometres(stack.DielectricThickness) + 2*cu),
 		},
 	}
-	for _, ly := range Layers() {
-		if (ly == SoldermaskTop && !stack.Mask) || (ly == DrillPTH && len(l.Vias) == 0) {
-			continue
-		}
+	for _, ly := range LayersOf(l) {
 		j.FilesAttributes = append(j.FilesAttributes, jobFile{ly.FileName(l.Name), ly.FileFunction(), ly.FilePolarity()})
+	}
+	if len(l.Vias) > 0 {
+		j.FilesAttributes = append(j.FilesAttributes, jobFile{ExcellonFileName(l.Name), DrillPTH.FileFunction(), "Positive"})
 	}
 	if stack.Mask {
 		m := jobMaterial{Type: "SolderMask", Thickness: mmNumber(geom.Nanometres(stack.MaskThickness)), Name: "Top solder mask"}

@@ -3,6 +3,7 @@ package export
 import (
 	"bytes"
 	"encoding/json"
+	"strings"
 	"testing"
 )
 
@@ -52,7 +53,9 @@ func TestGerberJob(t *testing.T) {
 		g.ProjectId.GUID != "f205030f-a43b-5ed3-9ef1-747cc36142ae" {
 		t.Errorf("general specs %+v", g)
 	}
-	wantFiles := []string{"Copper,L1,Top", "Copper,L2,Bot", "Soldermask,Top", "Profile,NP", "Plated,1,2,PTH"}
+	// Every file a build writes, each with its function: the five Gerbers
+	// and the Excellon file.
+	wantFiles := []string{"Copper,L1,Top", "Copper,L2,Bot", "Soldermask,Top", "Profile,NP", "Plated,1,2,PTH", "Plated,1,2,PTH"}
 	if len(j.FilesAttributes) != len(wantFiles) {
 		t.Fatalf("files %+v", j.FilesAttributes)
 	}
@@ -96,5 +99,33 @@ func TestGerberJobRefuses(t *testing.T) {
 		if err := WriteGerberJob(&bytes.Buffer{}, l, refMeta(), s); err == nil {
 			t.Errorf("stack %+v: no error", s)
 		}
+	}
+}
+
+// TestGerberJobListsWrittenFiles: a board without holes lists no drill
+// file, and the mask is listed whenever its file is written, whether or
+// not the stack-up gives the mask's material (Gerber Job Format,
+// FilesAttributes: every file of the fabrication data set, from memory).
+func TestGerberJobListsWrittenFiles(t *testing.T) {
+	l := build(t, openSpec())
+	st := refStack()
+	st.Mask = false
+	var b bytes.Buffer
+	if err := WriteGerberJob(&b, l, refMeta(), st); err != nil {
+		t.Fatal(err)
+	}
+	var j struct {
+		FilesAttributes []struct{ Path, FileFunction string }
+	}
+	if err := json.Unmarshal(b.Bytes(), &j); err != nil {
+		t.Fatal(err)
+	}
+	var got []string
+	for _, f := range j.FilesAttributes {
+		got = append(got, f.Path)
+	}
+	want := []string{"open-copper-top.gbr", "open-copper-bottom.gbr", "open-mask-top.gbr", "open-outline.gbr"}
+	if strings.Join(got, " ") != strings.Join(want, " ") {
+		t.Errorf("files %v, want %v", got, want)
 	}
 }

@@ -2,9 +2,11 @@ package export
 
 import (
 	"bufio"
+	"errors"
 	"fmt"
 	"io"
 	"strconv"
+	"strings"
 
 	"stubcraft/synth/geom"
 )
@@ -23,6 +25,38 @@ const (
 
 // Layers lists every Layer in the order a job file lists them.
 func Layers() []Layer { return []Layer{CopperTop, CopperBottom, SoldermaskTop, Profile, DrillPTH} }
+
+// Has reports whether the layout puts anything on the layer: a file is
+// written only for a layer with content (an empty drill or mask Gerber
+// reads as a different, older format to some readers and tells a fab
+// nothing).
+func (ly Layer) Has(l geom.Layout) bool {
+	switch ly {
+	case CopperTop:
+		return len(l.Copper) > 0 || len(l.Pads) > 0
+	case CopperBottom:
+		return len(l.Ground) >= 3
+	case Profile:
+		return len(l.Board) >= 3
+	case SoldermaskTop:
+		return len(l.MaskOpenings) > 0
+	case DrillPTH:
+		return len(l.Vias) > 0
+	}
+	return false
+}
+
+// LayersOf lists the layers of l that have content, in the order of
+// Layers.
+func LayersOf(l geom.Layout) []Layer {
+	var out []Layer
+	for _, ly := range Layers() {
+		if ly.Has(l) {
+			out = append(out, ly)
+		}
+	}
+	return out
+}
 
 // String returns the layer's name as used in file names.
 func (ly Layer) String() string {
@@ -89,6 +123,9 @@ func WriteGerber(w io.Writer, l geom.Layout, layer Layer, meta Meta) error {
 	if layer.FileFunction() == "" {
 		return fmt.Errorf("export: unknown Gerber layer %d", int(layer))
 	}
+	if !layer.Has(l) {
+		return fmt.Errorf("export: %s Gerber: %w", layer, ErrEmptyLayer)
+	}
 	guid, err := meta.ProjectGUID()
 	if err != nil {
 		return err
@@ -102,12 +139,12 @@ func WriteGerber(w io.Writer, l geom.Layout, layer Layer, meta Meta) error {
 			g.regionAperture("Conductor")
 		}
 		for _, n := range l.Copper {
-			g.region(n.Outline, "Conductor", n.Name)
+			g.region(n.Outline, "Conductor", l.DCNet(n.Name))
 		}
-		g.flashes(l.Pads)
+		g.flashes(l, l.Pads)
 	case CopperBottom:
 		g.regionAperture("Conductor")
-		g.region(l.Ground, "Conductor", geom.NetGround)
+		g.region(l.Ground, "Conductor", l.DCNet(geom.NetGround))
 	case Profile:
 		g.line("%TA.AperFunction,Profile*%")
 		g.line("%ADD10C," + geom.FormatMM(ProfileLineWidth) + "*%")
@@ -132,6 +169,10 @@ func WriteGerber(w io.Writer, l geom.Layout, layer Layer, meta Meta) error {
 	return nil
 }
 
+// ErrEmptyLayer is returned for a file that would have no content: a
+// layer the layout leaves empty, a drill file without holes.
+var ErrEmptyLayer = errors.New("the layout puts nothing on this layer")
+
 // ProfileLineWidth is the width of the board outline's draw, nm. The
 // specification leaves it free; a thin line keeps the rendered outline
 // close to the board edge.
@@ -139,12 +180,16 @@ const ProfileLineWidth = 50000
 
 // gerber accumulates the first write error, in the manner of bufio.Writer.
 type gerber struct {
-	w      *bufio.Writer
-	err    error
-	codes  []padKey // aperture D-codes 10, 11, ... in order of first use
-	holes  []int64
-	objNet string
+	w     *bufio.Writer
+	err   error
+	codes []padKey // aperture D-codes 10, 11, ... in order of first use
+	holes []int64
+	obj   objAttrs // the object attributes in force
 }
+
+// objAttrs are the object attributes a writer attaches to a graphical
+// object: the net (.N) and the pin (.P, "J1,1").
+type objAttrs struct{ net, pin string }
 
 type padKey struct {
 	function string
@@ -218,31 +263,37 @@ func (g *gerber) code(k padKey) int {
 	return -1
 }
 
-func (g *gerber) flashes(pads []geom.Pad) {
+func (g *gerber) flashes(l geom.Layout, pads []geom.Pad) {
 	cur := -1
 	for _, p := range pads {
-		g.net(p.Net)
+		g.object(objAttrs{l.DCNet(p.Net), p.Pin})
 		if d := g.code(padKey{p.Function, p.W, p.H, p.Round}); d != cur {
 			cur = d
 			g.line("D" + strconv.Itoa(d) + "*")
 		}
 		g.line(xy(p.Center) + "D03*")
 	}
-	g.net("")
+	g.object(objAttrs{})
 }
 
-// net sets or, for "", clears the .N object attribute.
-func (g *gerber) net(n string) {
-	if n == g.objNet {
+// object sets the object attributes (.N net, .P pin; Gerber Layer Format
+// Specification 2023.08, the standard object attributes), clearing the
+// ones in force first; the zero value clears them.
+func (g *gerber) object(a objAttrs) {
+	if a == g.obj {
 		return
 	}
-	if g.objNet != "" {
+	if g.obj != (objAttrs{}) {
 		g.line("%TD*%")
 	}
-	if n != "" {
-		g.line("%TO.N," + attrField(n) + "*%")
+	if a.net != "" {
+		g.line("%TO.N," + attrField(a.net) + "*%")
 	}
-	g.objNet = n
+	if a.pin != "" {
+		ref, pin, _ := strings.Cut(a.pin, ",")
+		g.line("%TO.P," + attrField(ref) + "," + attrField(pin) + "*%")
+	}
+	g.obj = a
 }
 
 // region fills a polygon; function and net may be empty.
@@ -253,13 +304,13 @@ func (g *gerber) region(p geom.Polygon, function, net string) {
 	if function != "" {
 		g.line("%TA.AperFunction," + function + "*%")
 	}
-	g.net(net)
+	g.object(objAttrs{net: net})
 	g.line("G36*")
 	g.contour(p)
 	g.line("G37*")
-	if function != "" || g.objNet != "" {
+	if function != "" || g.obj != (objAttrs{}) {
 		g.line("%TD*%") // clears both the aperture and the object attributes
-		g.objNet = ""
+		g.obj = objAttrs{}
 	}
 }
 

@@ -33,20 +33,23 @@ func coplanarSpec() geom.Spec {
 	}
 }
 
-// netRegions splits the parsed regions by their .N attribute.
+// netRegions splits the parsed regions into the RF copper and the ground
+// pour by their .N attribute. When a shorted via joins the two, every
+// region carries the one DC net RF_GND, and the RF copper is the first
+// region (the writer's order, Layout.Copper).
 func netRegions(t *testing.T, f *gerberread.File) (rf geom.Polygon, gnd []geom.Polygon) {
 	t.Helper()
-	for _, r := range f.Regions {
+	for i, r := range f.Regions {
 		if r.Attrs[".AperFunction"] != "Conductor" {
 			t.Errorf("region without the Conductor function: %+v", r.Attrs)
 		}
-		switch r.Attrs[".N"] {
-		case geom.NetRF:
+		switch n := r.Attrs[".N"]; {
+		case n == geom.NetRF, n == geom.NetRFGround && i == 0:
 			if rf != nil {
 				t.Fatal("two RF regions")
 			}
 			rf = r.Outline
-		case geom.NetGround:
+		case n == geom.NetGround, n == geom.NetRFGround:
 			gnd = append(gnd, r.Outline)
 		default:
 			t.Errorf("region of net %q", r.Attrs[".N"])
@@ -56,6 +59,18 @@ func netRegions(t *testing.T, f *gerberread.File) (rf geom.Polygon, gnd []geom.P
 		t.Fatalf("want an RF region and GND regions, got %d regions", len(f.Regions))
 	}
 	return rf, gnd
+}
+
+// rfVia returns the centre of the layout's first via on the RF copper.
+func rfVia(t *testing.T, l geom.Layout) geom.Point {
+	t.Helper()
+	for _, v := range l.Vias {
+		if v.Net == geom.NetRF {
+			return v.Center
+		}
+	}
+	t.Fatal("no RF via")
+	return geom.Point{}
 }
 
 // intervals returns the inside intervals of all polygons along a line.
@@ -100,9 +115,9 @@ func TestGerberCoplanarClearance(t *testing.T) {
 	for i, fl := range top.Flashes {
 		a := top.Apertures[fl.D]
 		switch {
-		case fl.Attrs[".N"] == geom.NetRF && a.Attrs[".AperFunction"] == "ViaPad":
+		case fl.At == rfVia(t, l) && a.Attrs[".AperFunction"] == "ViaPad":
 			viaPad = &top.Flashes[i]
-		case a.Attrs[".AperFunction"] == "ComponentPad" && portPad == nil:
+		case a.Attrs[".AperFunction"] == geom.SMDPad && portPad == nil:
 			portPad = &top.Flashes[i]
 		}
 	}

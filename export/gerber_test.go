@@ -109,8 +109,10 @@ func TestGerberExact(t *testing.T) {
 	l := build(t, refSpec())
 
 	top := parse(t, gerberBytes(t, l, CopperTop))
-	if len(top.Regions) != 1 || top.Regions[0].Attrs[".AperFunction"] != "Conductor" || top.Regions[0].Attrs[".N"] != "RF" {
-		t.Fatalf("top regions %+v, want one Conductor region of net RF", top.Regions)
+	// The reference board's shorted stub joins the RF copper to the plane:
+	// one DC net.
+	if len(top.Regions) != 1 || top.Regions[0].Attrs[".AperFunction"] != "Conductor" || top.Regions[0].Attrs[".N"] != "RF_GND" {
+		t.Fatalf("top regions %+v, want one Conductor region of net RF_GND", top.Regions)
 	}
 	samePolygon(t, "top copper", top.Regions[0].Outline, l.Copper[0].Outline)
 	if len(top.Flashes) != len(l.Pads) {
@@ -123,14 +125,14 @@ func TestGerberExact(t *testing.T) {
 			wantShape = "C"
 		}
 		if fl.At != p.Center || a.W != p.W || a.H != p.H || a.Shape != wantShape ||
-			a.Attrs[".AperFunction"] != p.Function || fl.Attrs[".N"] != p.Net {
+			a.Attrs[".AperFunction"] != p.Function || fl.Attrs[".N"] != "RF_GND" {
 			t.Errorf("flash %d: %+v with %+v, want pad %+v", i, fl, a, p)
 		}
 	}
 
 	bot := parse(t, gerberBytes(t, l, CopperBottom))
-	if len(bot.Regions) != 1 || bot.Regions[0].Attrs[".N"] != "GND" {
-		t.Fatalf("bottom regions %+v, want the GND plane", bot.Regions)
+	if len(bot.Regions) != 1 || bot.Regions[0].Attrs[".N"] != "RF_GND" {
+		t.Fatalf("bottom regions %+v, want the plane on net RF_GND", bot.Regions)
 	}
 	samePolygon(t, "ground", bot.Regions[0].Outline, l.Ground)
 

@@ -118,8 +118,11 @@ const pixelMM = 25.4 / dpi // one pixel, mm
 
 func gerberFiles(t *testing.T, l geom.Layout) map[string][]byte {
 	files := map[string][]byte{}
-	for _, ly := range Layers() {
+	for _, ly := range LayersOf(l) {
 		files[ly.FileName(l.Name)] = gerberBytes(t, l, ly)
+	}
+	if len(l.Vias) == 0 {
+		return files
 	}
 	var b bytes.Buffer
 	if err := WriteExcellon(&b, l, refMeta()); err != nil {

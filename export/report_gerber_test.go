@@ -2,6 +2,7 @@ package export
 
 import (
 	"bytes"
+	"errors"
 	"math"
 	"strings"
 	"testing"
@@ -44,14 +45,7 @@ stub_side = "` + side + `"
 		t.Fatal(err)
 	}
 	top := parse(t, gerberBytes(t, lay, CopperTop))
-	var b bytes.Buffer
-	if err := WriteExcellon(&b, lay, refMeta()); err != nil {
-		t.Fatal(err)
-	}
-	drill, err := gerberread.ReadExcellon(&b)
-	if err != nil {
-		t.Fatal(err)
-	}
+	drill := readDrill(t, lay)
 	return NewReport(res, "test"), top, drill
 }
 
@@ -144,4 +138,26 @@ func TestReportDimensionsInGerber(t *testing.T) {
 			}
 		})
 	}
+}
+
+// readDrill writes and parses the layout's Excellon file; a layout without
+// holes must get no file (ErrEmptyLayer) and reads as no hits.
+func readDrill(t *testing.T, l geom.Layout) *gerberread.Drill {
+	t.Helper()
+	var b bytes.Buffer
+	err := WriteExcellon(&b, l, refMeta())
+	if len(l.Vias) == 0 {
+		if !errors.Is(err, ErrEmptyLayer) || b.Len() > 0 {
+			t.Fatalf("no holes: WriteExcellon wrote %d bytes, err %v; want nothing and ErrEmptyLayer", b.Len(), err)
+		}
+		return &gerberread.Drill{}
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	drill, err := gerberread.ReadExcellon(&b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return drill
 }

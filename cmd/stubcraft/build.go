@@ -168,12 +168,14 @@ func artefacts(res *synth.Result, rep export.Report, lay geom.Layout, created ti
 			return export.WriteTouchstone(w, inputTouchstone(res), touchstoneComments(res, "the input of the matched load"))
 		}},
 	}
-	for _, layer := range export.Layers() {
+	for _, layer := range export.LayersOf(lay) {
 		layer := layer
 		files = append(files, artefact{layer.FileName(base), func(w io.Writer) error { return export.WriteGerber(w, lay, layer, meta) }})
 	}
+	if len(lay.Vias) > 0 {
+		files = append(files, artefact{export.ExcellonFileName(base), func(w io.Writer) error { return export.WriteExcellon(w, lay, meta) }})
+	}
 	files = append(files,
-		artefact{export.ExcellonFileName(base), func(w io.Writer) error { return export.WriteExcellon(w, lay, meta) }},
 		artefact{export.JobFileName(base), func(w io.Writer) error { return export.WriteGerberJob(w, lay, meta, jobStack(res)) }},
 	)
 	files = append(files, drawingArtefacts(res, rep, lay, created, page)...)

@@ -113,9 +113,15 @@ func TestBuildDemo(t *testing.T) {
 	for _, n := range names {
 		got = append(got, n.Name())
 	}
-	for _, want := range []string{"report.json", "network.s2p", "matched.s1p", ".gbrjob", "copper-top.gbr", "drill.drl"} {
+	for _, want := range []string{"report.json", "network.s2p", "matched.s1p", ".gbrjob", "copper-top.gbr"} {
 		if !strings.Contains(strings.Join(got, " "), want) {
 			t.Errorf("no %s among %v", want, got)
+		}
+	}
+	// The demo's stub is open: no holes, so no drill files at all.
+	for _, unwanted := range []string{"drill.drl", "drill-plated.gbr"} {
+		if strings.Contains(strings.Join(got, " "), unwanted) {
+			t.Errorf("an open-stub build wrote %s: %v", unwanted, got)
 		}
 	}
 }
@@ -429,8 +435,10 @@ func TestBuildGCPW(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(string(top), "%TO.N,GND*%") {
-		t.Error("no ground pour net in the top copper")
+	// The shorted stub joins the RF copper to the plane, and the stitching
+	// vias join the pour to it: every top region is on the one DC net.
+	if strings.Count(string(top), "%TO.N,RF_GND*%") < 2 || strings.Contains(string(top), "%TO.N,GND*%") {
+		t.Error("the top copper is not all on net RF_GND")
 	}
 	drill, err := os.ReadFile(filepath.Join(dir, "gcpw-probe-match-drill.drl"))
 	if err != nil {

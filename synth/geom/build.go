@@ -195,9 +195,10 @@ func Build(s Spec) (Layout, error) {
 
 	var padRects []Rect
 	if hasPad {
-		for _, cx := range []int64{padL / 2, boardX - padL + padL/2} {
+		for i, cx := range []int64{padL / 2, boardX - padL + padL/2} {
 			c := Point{cx, yc}
-			l.Pads = append(l.Pads, Pad{Net: NetRF, Function: ComponentPad, Center: c, W: padL, H: padW})
+			pin := [2]string{PinLoad, PinSource}[i]
+			l.Pads = append(l.Pads, Pad{Net: NetRF, Function: SMDPad, Center: c, W: padL, H: padW, Pin: pin})
 			padRects = append(padRects, Rect{Point{cx - padL/2, yc - padW/2}, Point{cx - padL/2 + padL, yc - padW/2 + padW}})
 		}
 	}

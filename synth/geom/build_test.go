@@ -80,7 +80,7 @@ func TestBuildReference(t *testing.T) {
 	// one ViaPad.
 	var comp int
 	for _, p := range l.Pads {
-		if p.Function == ComponentPad {
+		if p.Function == SMDPad {
 			comp++
 			if p.W != 1e6 || p.H != 2e6 || p.Center.Y != 5.9e6 {
 				t.Errorf("port pad %+v, want 1×2 mm at y 5.9 mm", p)

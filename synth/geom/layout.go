@@ -21,20 +21,61 @@ type Net struct {
 	Outline Polygon
 }
 
-// Pad functions, named after the Gerber aperture functions they become.
+// Pad functions, named after the Gerber aperture functions they become
+// (Gerber Layer Format Specification 2023.08, .AperFunction): a port pad
+// is a surface-mount pad defined by its copper, a via pad a via's annular
+// ring.
 const (
-	ComponentPad = "ComponentPad"
-	ViaPad       = "ViaPad"
+	SMDPad = "SMDPad,CuDef"
+	ViaPad = "ViaPad"
 )
 
 // Pad is a flashed pad: a W×H rectangle, or a circle of diameter W when
 // Round.
 type Pad struct {
 	Net      string
-	Function string // ComponentPad or ViaPad
+	Function string // SMDPad or ViaPad
 	Center   Point
 	W, H     int64
 	Round    bool
+	// Pin is the connector pin a port pad lands, as the Gerber .P
+	// attribute's reference descriptor and pin number ("J1,1"); empty for
+	// other pads.
+	Pin string
+}
+
+// Port connectors: J1 at the source port, J2 at the load port, each landing
+// its pin 1 on a port pad (the pin numbering of a generic two-terminal
+// edge connector: 1 signal).
+const (
+	PinSource = "J1,1"
+	PinLoad   = "J2,1"
+)
+
+// NetRFGround is the name of the one DC net that the RF copper and the
+// ground become when a via joins them (a shorted stub).
+const NetRFGround = "RF_GND"
+
+// ShortedToGround reports whether a plated hole joins the RF copper to the
+// ground plane, so that the two are one DC net.
+func (l Layout) ShortedToGround() bool {
+	for _, v := range l.Vias {
+		if v.Net == NetRF {
+			return true
+		}
+	}
+	return false
+}
+
+// DCNet returns the net name that objects of the given role (NetRF or
+// NetGround, as Copper, Pads and Vias are marked) carry in the fabrication
+// files: objects joined by copper or plated holes carry one name, so with a
+// shorted stub both roles are NetRFGround.
+func (l Layout) DCNet(role string) string {
+	if role != "" && l.ShortedToGround() {
+		return NetRFGround
+	}
+	return role
 }
 
 // Via is a plated through hole.

@@ -342,20 +342,37 @@ type Hit struct {
 type Drill struct {
 	Tools map[int]int64 // tool number → diameter, nm
 	Hits  []Hit
+	// FileAttrs are the X2 file attributes written as "; #@! TF.name,value"
+	// comments; ToolAttrs the "; #@! TA.name,value" comments in force when
+	// each tool was defined.
+	FileAttrs map[string]string
+	ToolAttrs map[int]map[string]string
 }
 
 // ReadExcellon parses the Excellon subset export writes: M48, METRIC,
 // TnnC<d> tools, %, G90, G05, Tnn selections, decimal X…Y… hits, M30.
 func ReadExcellon(r io.Reader) (*Drill, error) {
-	d := &Drill{Tools: map[int]int64{}}
+	d := &Drill{Tools: map[int]int64{}, FileAttrs: map[string]string{}, ToolAttrs: map[int]map[string]string{}}
 	sc := bufio.NewScanner(r)
 	header, metric, ended, tool := false, false, false, -1
+	ta := map[string]string{}
 	n := 0
 	for sc.Scan() {
 		n++
 		line := strings.TrimSpace(sc.Text())
 		bad := func(why string) error { return fmt.Errorf("gerberread: excellon line %d %q: %s", n, line, why) }
 		switch {
+		case strings.HasPrefix(line, "; #@! T"):
+			kind, rest := line[len("; #@! T"):len("; #@! T")+1], line[len("; #@! T")+1:]
+			name, value, _ := strings.Cut(rest, ",")
+			switch kind {
+			case "F":
+				d.FileAttrs[name] = value
+			case "A":
+				ta[name] = value
+			default:
+				return nil, bad("unknown attribute comment")
+			}
 		case line == "" || strings.HasPrefix(line, ";"):
 		case n == 1:
 			if line != "M48" {
@@ -376,6 +393,7 @@ func ReadExcellon(r io.Reader) (*Drill, error) {
 			if d.Tools[t], err = ParseMM(size); err != nil {
 				return nil, bad(err.Error())
 			}
+			d.ToolAttrs[t] = copyAttrs(ta)
 		case header:
 			return nil, bad("unsupported header line")
 		case line == "G90" || line == "G05":
