@@ -2,6 +2,7 @@ package export
 
 import (
 	"bytes"
+	"context"
 	"errors"
 	"math"
 	"strings"
@@ -36,7 +37,7 @@ stub_side = "` + side + `"
 		t.Fatal(err)
 	}
 	st, _ := stackups.Preset("hydrocarbon-ceramic-0.51mm")
-	res, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: synth.ConstantLoad(d.Load.Impedance), SkipTolerance: true})
+	res, err := synth.Simulate(context.Background(), synth.BuildInput{Design: d, Stackup: st, Load: synth.ConstantLoad(d.Load.Impedance), SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -9,6 +10,7 @@ import (
 
 	"stubcraft/physical"
 	"stubcraft/stackups"
+	"stubcraft/synth/geom"
 )
 
 // Load is the impedance to be matched, as a function of frequency.
@@ -48,30 +50,32 @@ type BuildInput struct {
 	Lines physical.LineMaker
 	// SkipTolerance turns the Monte Carlo analysis off.
 	SkipTolerance bool
+	// AcceptMismatch lets Build return a layout whose |S11| at f0 is above
+	// MismatchLimitDB instead of refusing it with a *MismatchError.
+	AcceptMismatch bool
 }
 
 // Result is a built design: the corrected physical network and the proof
 // that it matches.
 type Result struct {
-	Design   Design
-	Stackup  stackups.Stackup
-	Model    string // the line model used
-	LoadF0   complex128
-	Physical Physical
-	Sections []Section // the electrical network, from the load
-	Notes    []string
-	Warnings []string
-	Recentre Recentring
-	S11F0    complex128 // the drawn layout at f0, full model
-	Uncorr   complex128 // at f0, without the discontinuity corrections
-	Sweep    Sweep
-	BW10     Band
-	BW20     Band
-	LossF0DB float64 // the network's own dissipation at f0, dB
-	// BelowFabMinimum lists the elements narrower than the design's fab
-	// minimum width; build refuses such a design, compare reports it.
-	BelowFabMinimum []string
-	Tolerance       *Tolerance
+	Design    Design
+	Stackup   stackups.Stackup
+	Model     string // the line model used
+	LoadF0    complex128
+	Physical  Physical
+	Sections  []Section // the electrical network, from the load
+	Notes     []string
+	Warnings  []string
+	Recentre  Recentring
+	S11F0     complex128 // the drawn layout at f0, full model
+	Uncorr    complex128 // at f0, without the discontinuity corrections
+	Sweep     Sweep
+	BW10      Band
+	BW20      Band
+	LossF0DB  float64 // the network's own dissipation at f0, dB
+	Tolerance *Tolerance
+	// Layout is the board geometry; Build fills it, Simulate does not.
+	Layout geom.Layout
 }
 
 // Band is a contiguous frequency range around f0.
@@ -109,8 +113,48 @@ type Recentring struct {
 
 // Build runs the whole path for one design on one stackup: electrical
 // solution, widths and lengths, discontinuity corrections, re-centring,
-// band sweep and tolerance analysis.
-func Build(in BuildInput) (*Result, error) {
+// band sweep, tolerance analysis, board geometry and its notes, and the
+// checks that refuse a design: an already matched load (*MatchedError), a
+// layout that does not match (*MismatchError, unless in.AcceptMismatch), a
+// track below the fab minimum (*FabMinimumError) and a board larger than
+// MaxBoardSize (*BoardSizeError). Refusals come wrapped in a *DesignError
+// naming the design file; find them with errors.As. The result is what the
+// writers of package export take.
+func Build(ctx context.Context, in BuildInput) (*Result, error) {
+	r, err := Simulate(ctx, in)
+	if err != nil {
+		return nil, err
+	}
+	d := r.Design
+	if m := r.mismatch(); m != nil && !in.AcceptMismatch {
+		return nil, d.KeyError("", m)
+	}
+	if f := fabMinimum(r.Physical, d.Fab.MinWidth); f != nil {
+		return nil, d.KeyError("fab.min_width", f)
+	}
+	lay, err := geom.Build(r.GeomSpec())
+	if err != nil {
+		return nil, d.KeyError("", fmt.Errorf("layout: %w", err))
+	}
+	lo, hi := lay.Board.Bounds()
+	w, h := float64(hi.X-lo.X)*1e-9, float64(hi.Y-lo.Y)*1e-9
+	if w > MaxBoardSize || h > MaxBoardSize {
+		return nil, d.KeyError("", fmt.Errorf("layout: %w", &BoardSizeError{Width: w, Height: h, Max: MaxBoardSize}))
+	}
+	r.Layout = lay
+	r.Notes = append(r.Notes, r.LayoutNotes(lay)...)
+	return r, nil
+}
+
+// Simulate runs the electrical and physical part of Build: electrical
+// solution, widths and lengths, discontinuity corrections, re-centring,
+// band sweep and tolerance analysis. It draws no geometry and refuses
+// nothing but an already matched load; CheckFabMinimum and S11F0 say what
+// Build would refuse.
+func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
+	if err := ctx.Err(); err != nil {
+		return nil, fmt.Errorf("build: %w", err)
+	}
 	d := in.Design
 	spreadNotes := applyStackupSpread(&d, in.Stackup)
 	f0, z0 := d.Freq, d.Z0
@@ -148,12 +192,6 @@ func Build(in BuildInput) (*Result, error) {
 	}
 	if in.Stackup.Line == "gcpw" {
 		r.Warnings = append(r.Warnings, "grounded coplanar lines: the T-junction, open-end and via models are microstrip models and only approximate the coplanar discontinuities; measure before trusting the last dB")
-	}
-	for _, e := range ph.Elements {
-		if e.Width < d.Fab.MinWidth {
-			r.BelowFabMinimum = append(r.BelowFabMinimum, d.KeyError("fab.min_width",
-				fmt.Errorf("%s is %.3f mm wide, below the fab minimum %.3f mm", e.ID, e.Width*1e3, d.Fab.MinWidth*1e3)).Error())
-		}
 	}
 
 	uncorr, err := physical.NewSim(ph.Uncorrected(), mk)

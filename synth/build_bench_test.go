@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"context"
 	"strings"
 	"testing"
 )
@@ -14,7 +15,7 @@ func BenchmarkBuildDemo(b *testing.B) {
 	}
 	st := preset(&testing.T{}, "fr4-1.6mm")
 	for i := 0; i < b.N; i++ {
-		if _, err := Build(BuildInput{Design: d, Stackup: st, Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true}); err != nil {
+		if _, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: st, Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true}); err != nil {
 			b.Fatal(err)
 		}
 	}
@@ -28,7 +29,7 @@ func BenchmarkMonteCarlo1000(b *testing.B) {
 		b.Fatal(err)
 	}
 	st := preset(&testing.T{}, "fr4-1.6mm")
-	r, err := Build(BuildInput{Design: d, Stackup: st, Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true})
+	r, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: st, Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true})
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"context"
 	"math"
 	"math/cmplx"
 	"os"
@@ -50,7 +51,7 @@ seed = 3
 func build(t *testing.T, design, stackup string, skipTol bool) *Result {
 	t.Helper()
 	d := decodeTestDesign(t, design)
-	r, err := Build(BuildInput{Design: d, Stackup: preset(t, stackup), Load: ConstantLoad(d.Load.Impedance), SkipTolerance: skipTol})
+	r, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: preset(t, stackup), Load: ConstantLoad(d.Load.Impedance), SkipTolerance: skipTol})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -191,7 +192,7 @@ length = "0.25wl"
 // half a guided wavelength longer, and says so.
 func TestNegativeLengthMovesHalfWave(t *testing.T) {
 	d := decodeTestDesign(t, lineStubDesign("10deg"))
-	r, err := Build(BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(50), SkipTolerance: true})
+	r, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(50), SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -254,11 +255,11 @@ func TestTouchstoneLoadBuild(t *testing.T) {
 		t.Fatal(err)
 	}
 	d := decodeTestDesign(t, strings.Replace(fr4Open, "%s", "open", 1))
-	a, err := Build(BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(z), SkipTolerance: true})
+	a, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(z), SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}
-	b, err := Build(BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: TouchstoneLoad{File: ts, Path: "c.s1p"}, SkipTolerance: true})
+	b, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: TouchstoneLoad{File: ts, Path: "c.s1p"}, SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -305,7 +306,7 @@ func TestDoubleStubSections(t *testing.T) {
 	lossless := preset(t, "fr4-1.6mm")
 	lossless.Dielectric.LossTangent = 0
 	lossless.Copper.Conductivity = 1e15
-	r, err := Build(BuildInput{Design: d, Stackup: lossless, Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true})
+	r, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: lossless, Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -337,7 +338,7 @@ func TestDoubleStubSections(t *testing.T) {
 	if line2.Tee <= tee.ThroughShift {
 		t.Errorf("line2 tee correction %.4g m, want more than one shift (%.4g m)", line2.Tee, tee.ThroughShift)
 	}
-	lossy, err := Build(BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true})
+	lossy, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -350,7 +351,7 @@ func TestDoubleStubSections(t *testing.T) {
 // feed, which is the same line: the electrical total is unchanged.
 func TestFirstLineBorrowsFromFeed(t *testing.T) {
 	d := decodeTestDesign(t, lineStubDesign("28deg"))
-	r, err := Build(BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(50), SkipTolerance: true})
+	r, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(50), SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -1,6 +1,7 @@
 package synth_test
 
 import (
+	"context"
 	"math"
 	"strings"
 	"testing"
@@ -40,7 +41,7 @@ max_board = ["40mm", "16mm"]
 	if !ok {
 		t.Fatal("no preset hydrocarbon-ceramic-0.51mm")
 	}
-	res, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: synth.ConstantLoad(d.Load.Impedance), SkipTolerance: true})
+	res, err := synth.Simulate(context.Background(), synth.BuildInput{Design: d, Stackup: st, Load: synth.ConstantLoad(d.Load.Impedance), SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -83,7 +84,7 @@ max_board = ["40mm", "16mm"]
 	}
 	// The same design with room keeps the stub straight and has no note.
 	d.Layout.MaxBoard = [2]float64{}
-	res2, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: synth.ConstantLoad(d.Load.Impedance), SkipTolerance: true})
+	res2, err := synth.Simulate(context.Background(), synth.BuildInput{Design: d, Stackup: st, Load: synth.ConstantLoad(d.Load.Impedance), SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -153,7 +153,7 @@ func SolveShuntStubZ(zLoad complex128, z0, lineZ0, stubZ0 float64, end StubEnd) 
 		return nil, fmt.Errorf("load %s ohm: %w: it is purely reactive (|Γ| = 1)", matchZText(zLoad), ErrUnmatchable)
 	}
 	if gamma < MatchedGamma {
-		return nil, fmt.Errorf("load %s ohm on %g ohm: %w (|Γ| = %.2g), no stub is needed", matchZText(zLoad), z0, ErrMatched, gamma)
+		return nil, &MatchedError{Load: zLoad, Z0: z0, Gamma: gamma}
 	}
 
 	zl := zLoad / complex(lineZ0, 0)

@@ -29,11 +29,21 @@ func LineMakerFor(st stackups.Stackup, cache *SolverCache) physical.LineMaker {
 	if !UsesFieldSolver(st) {
 		return physical.MicrostripMaker
 	}
-	geometry, gap := fieldsolve.Microstrip, 0.0
-	if st.Line == "gcpw" {
-		geometry, gap = fieldsolve.GCPW, st.Gap
+	cs := CrossSectionOf(st)
+	return fieldsolve.Maker(cs.Geometry, cs.Gap, cache)
+}
+
+// CrossSectionOf returns the field solver's cross-section of a line on st,
+// without its width: geometry (microstrip or grounded coplanar), gap,
+// dielectric, copper and mask.
+func CrossSectionOf(st stackups.Stackup) fieldsolve.CrossSection {
+	sub := st.Substrate()
+	cs := fieldsolve.CrossSection{Geometry: fieldsolve.Microstrip, Er: sub.Er, Height: sub.Height, Thickness: sub.CopperThickness,
+		MaskThickness: sub.MaskThickness, MaskEr: sub.MaskEr}
+	if st.Line == stackups.GCPW {
+		cs.Geometry, cs.Gap = fieldsolve.GCPW, st.Gap
 	}
-	return fieldsolve.Maker(geometry, gap, cache)
+	return cs
 }
 
 // SubstrateAt returns the cross-section data of st for a design at f0:

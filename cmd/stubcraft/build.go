@@ -4,17 +4,13 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math/cmplx"
 	"strings"
 	"text/tabwriter"
-	"time"
 
 	"github.com/spf13/cobra"
 
 	"stubcraft/export"
-	"stubcraft/physical"
 	"stubcraft/synth"
-	"stubcraft/synth/geom"
 )
 
 func cautionText() string {
@@ -52,7 +48,7 @@ replaced only with --force; nothing is written when any step fails.
 			if len(args) == 1 {
 				path = args[0]
 			}
-			d, st, load, err := loadDesign(path, stackupArg)
+			in, err := loadDesign(path, stackupArg)
 			if err != nil {
 				return err
 			}
@@ -60,48 +56,37 @@ replaced only with --force; nothing is written when any step fails.
 				if samples < 0 {
 					return fmt.Errorf("--samples %d: must not be negative", samples)
 				}
-				d.Tolerance.Samples = samples
+				in.Design.Tolerance.Samples = samples
 			}
 			page, err := parsePage(pageArg, scaleArg)
 			if err != nil {
 				return err
 			}
 			cache := synth.NewSolverCache()
+			in.Lines = synth.LineMakerFor(in.Stackup, cache)
+			in.SkipTolerance, in.AcceptMismatch = noTolerance, acceptMismatch
 			stop := solverProgress(cache)
-			res, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: load, SkipTolerance: noTolerance,
-				Lines: synth.LineMakerFor(st, cache)})
+			res, err := synth.Build(cmd.Context(), in)
 			stop()
 			if err != nil {
+				var mismatch *synth.MismatchError
+				if errors.As(err, &mismatch) {
+					err = fmt.Errorf("%w; fix the network or pass --accept-mismatch to write it anyway", err)
+				}
 				return inDesign(path, err)
 			}
-			if db := synth.S11DB(res.S11F0); db > -10 && !acceptMismatch {
-				g := cmplx.Abs(physical.Reflection(synth.SectionsInput(res.Sections, res.LoadF0), d.Z0))
-				return inDesign(path, fmt.Errorf("the layout does not match: |S11| at %.6g GHz is %.1f dB, the electrical network alone gives |Γ| = %.3f and the lines lose %.2f dB; fix the network or pass --accept-mismatch to write it anyway",
-					d.Freq/1e9, db, g, res.LossF0DB))
-			}
-			if len(res.BelowFabMinimum) > 0 {
-				return errors.New(strings.Join(res.BelowFabMinimum, "; "))
-			}
-			lay, err := geom.Build(res.GeomSpec())
-			if err != nil {
-				return fmt.Errorf("%s: layout: %w", designName(path), err)
-			}
-			if err := checkBoardSize(lay); err != nil {
-				return fmt.Errorf("%s: layout: %w", designName(path), err)
-			}
-			res.Notes = append(res.Notes, res.LayoutNotes(lay)...)
 			created, err := creationTime()
 			if err != nil {
 				return err
 			}
-			rep := export.NewReport(res, version)
-			files, err := artefacts(res, rep, lay, created, page)
-			if err != nil {
-				return err
+			var files []artefact
+			for _, f := range export.Files(res, export.FileOptions{Version: version, Created: created, Page: page.Size, Fit: page.Fit}) {
+				files = append(files, artefact{f.Name, f.Write})
 			}
 			if err := writeDir(outDir, force, files); err != nil {
 				return err
 			}
+			rep := export.NewReport(res, version)
 			if asJSON {
 				return export.WriteReport(cmd.OutOrStdout(), rep)
 			}
@@ -125,20 +110,6 @@ replaced only with --force; nothing is written when any step fails.
 	return cmd
 }
 
-// MaxBoardSize is the largest board build draws, m: beyond it no panel,
-// plotter or drawing sheet makes sense, and the frequency is usually wrong.
-const MaxBoardSize = 0.5
-
-// checkBoardSize refuses a layout larger than MaxBoardSize.
-func checkBoardSize(lay geom.Layout) error {
-	lo, hi := lay.Board.Bounds()
-	w, h := float64(hi.X-lo.X)*1e-9, float64(hi.Y-lo.Y)*1e-9
-	if w > MaxBoardSize || h > MaxBoardSize {
-		return fmt.Errorf("the board would be %.4g × %.4g mm, larger than %.0f mm: check the frequency and the lengths", w*1e3, h*1e3, MaxBoardSize*1e3)
-	}
-	return nil
-}
-
 // inDesign names the design file in err unless err already does.
 func inDesign(path string, err error) error {
 	var de *synth.DesignError
@@ -153,70 +124,6 @@ func designName(path string) string {
 		return "demo design"
 	}
 	return path
-}
-
-// artefacts lists every file of a build's output directory.
-func artefacts(res *synth.Result, rep export.Report, lay geom.Layout, created time.Time, page pageSpec) ([]artefact, error) {
-	meta := export.Meta{ProjectName: res.Design.Name, Version: version, Created: created}
-	base := res.Design.Name
-	files := []artefact{
-		{"report.json", func(w io.Writer) error { return export.WriteReport(w, rep) }},
-		{"network.s2p", func(w io.Writer) error {
-			return export.WriteTouchstone(w, networkTouchstone(res), touchstoneComments(res, "the matching network: port 1 the source side, port 2 the load port"))
-		}},
-		{"matched.s1p", func(w io.Writer) error {
-			return export.WriteTouchstone(w, inputTouchstone(res), touchstoneComments(res, "the input of the matched load"))
-		}},
-	}
-	for _, layer := range export.LayersOf(lay) {
-		layer := layer
-		files = append(files, artefact{layer.FileName(base), func(w io.Writer) error { return export.WriteGerber(w, lay, layer, meta) }})
-	}
-	if len(lay.Vias) > 0 {
-		files = append(files, artefact{export.ExcellonFileName(base), func(w io.Writer) error { return export.WriteExcellon(w, lay, meta) }})
-	}
-	files = append(files,
-		artefact{export.JobFileName(base), func(w io.Writer) error { return export.WriteGerberJob(w, lay, meta, jobStack(res)) }},
-	)
-	files = append(files, drawingArtefacts(res, rep, lay, created, page)...)
-	return files, nil
-}
-
-func jobStack(res *synth.Result) export.JobStack {
-	st := res.Stackup
-	js := export.JobStack{DielectricName: st.Name, Er: st.Dielectric.Er, LossTangent: st.Dielectric.LossTangent,
-		DielectricThickness: st.Dielectric.Thickness, CopperThickness: st.Copper.Thickness}
-	if st.Mask != nil {
-		js.Mask, js.MaskThickness, js.MaskEr = true, st.Mask.Thickness, st.Mask.Er
-	}
-	return js
-}
-
-func touchstoneComments(res *synth.Result, what string) []string {
-	return []string{
-		fmt.Sprintf("stubcraft %s: %s", version, what),
-		fmt.Sprintf("design %s at %.6g GHz on %s, reference %g ohm", res.Design.Name, res.Design.Freq/1e9, res.Stackup.Name, res.Design.Z0),
-		"simulated, not measured: verify with a network analyser",
-	}
-}
-
-func networkTouchstone(res *synth.Result) *physical.Touchstone {
-	t := &physical.Touchstone{Ports: 2, Z0: res.Design.Z0}
-	for i, f := range res.Sweep.Freqs {
-		s := res.Sweep.Network[i]
-		t.Freqs = append(t.Freqs, f)
-		t.S = append(t.S, []complex128{s[0][0], s[0][1], s[1][0], s[1][1]})
-	}
-	return t
-}
-
-func inputTouchstone(res *synth.Result) *physical.Touchstone {
-	t := &physical.Touchstone{Ports: 1, Z0: res.Design.Z0}
-	for i, f := range res.Sweep.Freqs {
-		t.Freqs = append(t.Freqs, f)
-		t.S = append(t.S, []complex128{res.Sweep.S11[i]})
-	}
-	return t
 }
 
 // printSummary writes the human-readable account of a build.

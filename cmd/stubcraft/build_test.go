@@ -9,6 +9,7 @@ import (
 	"path/filepath"
 	"reflect"
 	"strings"
+	"stubcraft/synth"
 	"testing"
 
 	"stubcraft/stackups"
@@ -486,10 +487,7 @@ length = "36deg"
 	if _, err := runRoot(t, "build", wrong, "-o", out, "--no-tolerance", "--accept-mismatch"); err != nil {
 		t.Fatalf("--accept-mismatch: %v", err)
 	}
-	demo, err := demoFS.ReadFile(demoDesign)
-	if err != nil {
-		t.Fatal(err)
-	}
+	demo := synth.DemoTOML()
 	slow := write("slow.toml", strings.Replace(string(demo), `frequency = "2.45GHz"`, `frequency = "1kHz"`, 1))
 	huge := filepath.Join(parent, "huge")
 	if _, err := runRoot(t, "build", slow, "-o", huge, "--no-tolerance", "--accept-mismatch"); err == nil || !strings.Contains(err.Error(), "larger than 500 mm") {

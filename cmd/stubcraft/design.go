@@ -1,90 +1,31 @@
 package main
 
 import (
-	"bytes"
-	"embed"
 	"fmt"
 	"os"
-	"path/filepath"
 	"strconv"
 	"time"
 
-	"stubcraft/physical"
 	"stubcraft/stackups"
 	"stubcraft/synth"
 )
 
-//go:embed demo/*.toml
-var demoFS embed.FS
-
-// demoDesign is the design built when no file is given.
-const demoDesign = "demo/soil-probe.toml"
-
-// loadDesign decodes the design at path, or the embedded demo when path is
-// empty, and reads the stackup and load it refers to. stackupOverride, when
+// loadDesign loads the design at path, or the embedded demo when path is
+// empty, with the stackup and load it refers to. stackupOverride, when
 // set, replaces the design's stackup.
-func loadDesign(path, stackupOverride string) (synth.Design, stackups.Stackup, synth.Load, error) {
-	var (
-		data []byte
-		err  error
-		dir  string
-		name = path
-	)
-	if path == "" {
-		data, err = demoFS.ReadFile(demoDesign)
-		name = "(demo) " + filepath.Base(demoDesign)
-	} else {
-		data, err = os.ReadFile(path)
-		dir = filepath.Dir(path)
-	}
-	if err != nil {
-		return synth.Design{}, stackups.Stackup{}, nil, err
-	}
-	d, err := synth.DecodeDesign(bytes.NewReader(data), name, dir)
-	if err != nil {
-		return synth.Design{}, stackups.Stackup{}, nil, err
-	}
-	ref := d.StackupRef()
+func loadDesign(path, stackupOverride string) (synth.BuildInput, error) {
+	var opt synth.LoadOptions
 	if stackupOverride != "" {
-		ref = stackupOverride
-	}
-	st, err := stackups.Load(ref)
-	if err != nil {
-		if stackupOverride != "" {
-			return synth.Design{}, stackups.Stackup{}, nil, fmt.Errorf("--stackup %q: %w", stackupOverride, err)
+		st, err := stackups.Load(stackupOverride)
+		if err != nil {
+			return synth.BuildInput{}, fmt.Errorf("--stackup %q: %w", stackupOverride, err)
 		}
-		return synth.Design{}, stackups.Stackup{}, nil, d.KeyError("stackup", err)
+		opt.Stackup = &st
 	}
-	load, err := openLoad(d)
-	if err != nil {
-		return synth.Design{}, stackups.Stackup{}, nil, d.KeyError("load.touchstone", err)
+	if path == "" {
+		return synth.LoadDemo(opt)
 	}
-	return d, st, load, nil
-}
-
-// openLoad returns the design's load: a constant or a Touchstone file.
-func openLoad(d synth.Design) (synth.Load, error) {
-	if d.Load.Touchstone == "" {
-		return synth.ConstantLoad(d.Load.Impedance), nil
-	}
-	path := d.Load.Touchstone
-	ports, err := physical.TouchstonePorts(path)
-	if err != nil {
-		return nil, err
-	}
-	if ports != 1 {
-		return nil, fmt.Errorf("%s: a load is a one-port (.s1p) file", path)
-	}
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	t, err := physical.ReadTouchstone(f, path, 1)
-	if err != nil {
-		return nil, err
-	}
-	return synth.TouchstoneLoad{File: t, Path: path}, nil
+	return synth.LoadDesign(path, opt)
 }
 
 // creationTime is SOURCE_DATE_EPOCH when set (reproducible builds), else now.

@@ -3,12 +3,13 @@
 package main
 
 import (
+	"context"
 	"fmt"
 	"os"
 )
 
 func main() {
-	if err := newRootCmd().Execute(); err != nil {
+	if err := newRootCmd().ExecuteContext(context.Background()); err != nil {
 		fmt.Fprintln(os.Stderr, "stubcraft:", err)
 		os.Exit(1)
 	}

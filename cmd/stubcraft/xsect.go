@@ -5,9 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"os"
-	"strconv"
 	"strings"
 	"text/tabwriter"
 	"time"
@@ -17,6 +15,7 @@ import (
 	"stubcraft/physical/fieldsolve"
 	"stubcraft/physical/units"
 	"stubcraft/stackups"
+	"stubcraft/synth"
 )
 
 // xsectFlags holds the text of the xsect command's flags; quantities are
@@ -133,12 +132,8 @@ func (f *xsectFlags) crossSection(cmd *cobra.Command) (fieldsolve.CrossSection, 
 		if err != nil {
 			return cs, 0, fmt.Errorf("--stackup %q: %w", f.stackup, err)
 		}
-		sub := st.Substrate()
-		cs.Er, height, cs.Thickness = sub.Er, sub.Height, sub.CopperThickness
-		cs.MaskThickness, cs.MaskEr = sub.MaskThickness, sub.MaskEr
-		if st.Line == stackups.GCPW {
-			cs.Geometry, cs.Gap = fieldsolve.GCPW, st.Gap
-		}
+		cs = synth.CrossSectionOf(st)
+		height, cs.Height = cs.Height, 0
 	}
 	if f.geometry != "" {
 		g, err := fieldsolve.ParseGeometry(f.geometry)
@@ -165,23 +160,15 @@ func (f *xsectFlags) crossSection(cmd *cobra.Command) (fieldsolve.CrossSection, 
 		*dst = v
 		return nil
 	}
-	number := func(flag, text string, dst *float64) error {
+	number := func(flag, text string, dst *float64, parse func(string) (float64, error)) error {
 		if text == "" {
 			return nil
 		}
-		t := strings.TrimSpace(text)
-		scale := 1.0
-		if flag == "tolerance" && strings.HasSuffix(t, "%") {
-			t, scale = strings.TrimSpace(strings.TrimSuffix(t, "%")), 0.01
+		v, err := parse(text)
+		if err != nil {
+			return fmt.Errorf("--%s %q: %w", flag, text, err)
 		}
-		if flag == "etch-angle" {
-			t = strings.TrimSpace(strings.TrimSuffix(strings.TrimSuffix(t, "deg"), "°"))
-		}
-		v, err := strconv.ParseFloat(t, 64)
-		if err != nil || math.IsNaN(v) || math.IsInf(v, 0) {
-			return fmt.Errorf("--%s %q: not a number", flag, text)
-		}
-		*dst = v * scale
+		*dst = v
 		return nil
 	}
 	if f.width == "" {
@@ -191,14 +178,14 @@ func (f *xsectFlags) crossSection(cmd *cobra.Command) (fieldsolve.CrossSection, 
 	for _, err := range []error{
 		length("width", f.width, &cs.Width, false),
 		length("height", f.height, &height, false),
-		number("er", f.er, &cs.Er),
+		number("er", f.er, &cs.Er, units.ParseNumber),
 		length("gap", f.gap, &cs.Gap, false),
 		length("ground-width", f.gndW, &cs.GroundWidth, false),
 		length("mask-thickness", f.maskT, &cs.MaskThickness, false),
-		number("mask-er", f.maskEr, &cs.MaskEr),
-		number("etch-angle", f.etch, &cs.EtchAngleDeg),
+		number("mask-er", f.maskEr, &cs.MaskEr, units.ParseNumber),
+		number("etch-angle", f.etch, &cs.EtchAngleDeg, units.ParseAngle),
 		length("offset", f.offset, &cs.Offset, true),
-		number("tolerance", f.tolerance, &tol),
+		number("tolerance", f.tolerance, &tol, units.ParseFraction),
 	} {
 		if err != nil {
 			return cs, 0, err

@@ -28,7 +28,7 @@ func buildModel(t *testing.T, design string) (tune.Model, float64, float64) {
 		t.Fatal(err)
 	}
 	load := synth.ConstantLoad(d.Load.Impedance)
-	res, err := synth.Build(synth.BuildInput{Design: d, Stackup: st, Load: load, SkipTolerance: true})
+	res, err := synth.Simulate(context.Background(), synth.BuildInput{Design: d, Stackup: st, Load: load, SkipTolerance: true})
 	if err != nil {
 		t.Fatal(err)
 	}

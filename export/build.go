@@ -1,0 +1,132 @@
+package export
+
+import (
+	"bytes"
+	"fmt"
+	"io"
+	"sort"
+	"time"
+
+	"stubcraft/physical"
+	"stubcraft/stackups"
+	"stubcraft/synth"
+)
+
+// Artefact is one file of a build: its name in the output directory and
+// the function that writes its bytes.
+type Artefact struct {
+	Name  string
+	Write func(io.Writer) error
+}
+
+// FileOptions say how the files of a build are made.
+type FileOptions struct {
+	Version string    // the tool version written into every file
+	Created time.Time // the creation date written into every file (SOURCE_DATE_EPOCH for reproducible output)
+	Page    string    // the drawing's paper, see DrawingOptions
+	Fit     string    // a board larger than the page, see DrawingOptions
+}
+
+// Files lists every file of a built design (the result of synth.Build,
+// with its Layout), in the order they are written: report.json, the
+// Touchstone files, the Gerber layers, the drill and job files, the
+// drawing, the SVG preview and the plots.
+func Files(res *synth.Result, opt FileOptions) []Artefact {
+	rep := NewReport(res, opt.Version)
+	lay := res.Layout
+	meta := Meta{ProjectName: res.Design.Name, Version: opt.Version, Created: opt.Created}
+	base := res.Design.Name
+	files := []Artefact{
+		{"report.json", func(w io.Writer) error { return WriteReport(w, rep) }},
+		{"network.s2p", func(w io.Writer) error {
+			return WriteTouchstone(w, NetworkTouchstone(res), TouchstoneComments(res, opt.Version, "the matching network: port 1 the source side, port 2 the load port"))
+		}},
+		{"matched.s1p", func(w io.Writer) error {
+			return WriteTouchstone(w, InputTouchstone(res), TouchstoneComments(res, opt.Version, "the input of the matched load"))
+		}},
+	}
+	for _, layer := range LayersOf(lay) {
+		files = append(files, Artefact{layer.FileName(base), func(w io.Writer) error { return WriteGerber(w, lay, layer, meta) }})
+	}
+	if len(lay.Vias) > 0 {
+		files = append(files, Artefact{ExcellonFileName(base), func(w io.Writer) error { return WriteExcellon(w, lay, meta) }})
+	}
+	files = append(files,
+		Artefact{JobFileName(base), func(w io.Writer) error { return WriteGerberJob(w, lay, meta, JobStackOf(res.Stackup)) }},
+	)
+	dopt := DrawingOptions{Page: opt.Page, Fit: opt.Fit, Created: opt.Created, Version: opt.Version}
+	files = append(files,
+		Artefact{"drawing.pdf", func(w io.Writer) error { return WritePDF(w, rep, lay, dopt) }},
+		Artefact{"layout.svg", func(w io.Writer) error { return WriteSVG(w, rep, lay) }},
+	)
+	// The plots are rendered once, lazily, by the first plot file written;
+	// a failure is reported by every plot file.
+	var (
+		plots   map[string][]byte
+		plotErr error
+		done    bool
+	)
+	render := func() (map[string][]byte, error) {
+		if !done {
+			plots, plotErr = WritePlots(rep)
+			done = true
+		}
+		return plots, plotErr
+	}
+	names := PlotNames()
+	sort.Strings(names)
+	for _, name := range names {
+		files = append(files, Artefact{name, func(w io.Writer) error {
+			m, err := render()
+			if err != nil {
+				return fmt.Errorf("plots: %w", err)
+			}
+			_, err = io.Copy(w, bytes.NewReader(m[name]))
+			return err
+		}})
+	}
+	return files
+}
+
+// JobStackOf returns the material stack the Gerber job file reports for st.
+func JobStackOf(st stackups.Stackup) JobStack {
+	js := JobStack{DielectricName: st.Name, Er: st.Dielectric.Er, LossTangent: st.Dielectric.LossTangent,
+		DielectricThickness: st.Dielectric.Thickness, CopperThickness: st.Copper.Thickness}
+	if st.Mask != nil {
+		js.Mask, js.MaskThickness, js.MaskEr = true, st.Mask.Thickness, st.Mask.Er
+	}
+	return js
+}
+
+// TouchstoneComments returns the comment lines of a build's Touchstone
+// files: the tool, what the file holds, the design and that it is simulated.
+func TouchstoneComments(res *synth.Result, version, what string) []string {
+	return []string{
+		fmt.Sprintf("stubcraft %s: %s", version, what),
+		fmt.Sprintf("design %s at %.6g GHz on %s, reference %g ohm", res.Design.Name, res.Design.Freq/1e9, res.Stackup.Name, res.Design.Z0),
+		"simulated, not measured: verify with a network analyser",
+	}
+}
+
+// NetworkTouchstone returns the matching network alone as a two-port
+// across the sweep (port 1 the source side, port 2 the load port).
+func NetworkTouchstone(res *synth.Result) *physical.Touchstone {
+	t := &physical.Touchstone{Ports: 2, Z0: res.Design.Z0}
+	for i, f := range res.Sweep.Freqs {
+		s := res.Sweep.Network[i]
+		t.Freqs = append(t.Freqs, f)
+		t.S = append(t.S, []complex128{s[0][0], s[0][1], s[1][0], s[1][1]})
+	}
+	return t
+}
+
+// InputTouchstone returns the input of the matched load as a one-port
+// across the sweep.
+func InputTouchstone(res *synth.Result) *physical.Touchstone {
+	t := &physical.Touchstone{Ports: 1, Z0: res.Design.Z0}
+	for i, f := range res.Sweep.Freqs {
+		t.Freqs = append(t.Freqs, f)
+		t.S = append(t.S, []complex128{res.Sweep.S11[i]})
+	}
+	return t
+}
