@@ -158,10 +158,11 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	d := in.Design
 	spreadNotes := applyStackupSpread(&d, in.Stackup)
 	f0, z0 := d.Freq, d.Z0
-	sub, subNote := SubstrateAt(in.Stackup, f0)
+	sizing, maskNotes, maskWarnings := MaskRule(&d, in.Stackup)
+	sub, subNote := SubstrateAt(sizing, f0)
 	mk := in.Lines
-	if mk == nil {
-		mk = LineMakerFor(in.Stackup, NewSolverCache())
+	if mk == nil || sizing.Mask != in.Stackup.Mask {
+		mk = LineMakerFor(sizing, NewSolverCache())
 	}
 	zl, err := in.Load.Impedance(f0)
 	if err != nil {
@@ -179,12 +180,12 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 		return nil, d.KeyError("", fmt.Errorf("on stackup %s at %.6g GHz: %w", in.Stackup.Name, f0/1e9, err))
 	}
 	r := &Result{Design: d, Stackup: in.Stackup, LoadF0: zl, Sections: sections, Physical: ph}
-	r.Notes = append(append(append(append(r.Notes, subNote...), notes...), ph.Notes...), spreadNotes...)
-	r.Warnings = append(r.Warnings, ph.Warnings...)
+	r.Notes = append(append(append(append(append(r.Notes, subNote...), notes...), ph.Notes...), spreadNotes...), maskNotes...)
+	r.Warnings = append(append(r.Warnings, ph.Warnings...), maskWarnings...)
 	if len(ph.Elements) > 0 {
 		r.Model = ph.Elements[0].Model
 	}
-	if UsesFieldSolver(in.Stackup) {
+	if UsesFieldSolver(sizing) {
 		r.Notes = append(r.Notes, "line widths from the 2-D field solver (solder mask or grounded coplanar lines); the tee, open-end and via corrections use the closed-form microstrip models")
 	}
 	if len(ph.Board.Stubs) > 0 {
@@ -210,7 +211,7 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 		return nil, err
 	}
 	if !in.SkipTolerance && d.Tolerance.Samples > 0 {
-		tmk, err := ToleranceMaker(r.Physical.Board, mk, UsesFieldSolver(in.Stackup), f0)
+		tmk, err := ToleranceMaker(r.Physical.Board, mk, UsesFieldSolver(sizing), f0)
 		if err != nil {
 			return nil, err
 		}

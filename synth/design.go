@@ -105,7 +105,7 @@ type LayoutSpec struct {
 	FeedLength float64    // feed line at each port, m
 	StubSide   string     // "up" or "down": the side of the through line the stub goes
 	Margin     float64    // board margin around the copper, m
-	Mask       string     // "open": a solder-mask window over the RF copper; "cover"
+	Mask       string     // MaskAuto (the default: follow the stackup), MaskOpen (a solder-mask window over the RF copper) or MaskCover (mask over it, the port pads open); see MaskRule
 	MaxBoard   [2]float64 // largest board, width and height, m; zero: no limit
 	ViaDrill   float64    // drill of the via of a shorted stub, m
 	ViaPad     float64    // pad around that via, m
@@ -140,7 +140,7 @@ type ToleranceSpec struct {
 
 // DefaultLayout returns the layout used when a design file has none.
 func DefaultLayout() LayoutSpec {
-	return LayoutSpec{FeedLength: 5e-3, StubSide: "up", Margin: 5e-3, Mask: "open", ViaDrill: 0.3e-3, ViaPad: 0.6e-3}
+	return LayoutSpec{FeedLength: 5e-3, StubSide: "up", Margin: 5e-3, Mask: MaskAuto, ViaDrill: 0.3e-3, ViaPad: 0.6e-3}
 }
 
 // DefaultFab returns the board maker's limits used when a design file

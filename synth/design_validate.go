@@ -163,8 +163,8 @@ func (c *designCheck) checkLayout(l LayoutSpec) {
 	if !(l.Margin >= 0) || !designFinite(l.Margin) {
 		c.fail("layout.margin", designMM(l.Margin), "the margin must not be negative")
 	}
-	if l.Mask != "open" && l.Mask != "cover" {
-		c.fail("layout.mask", strconv.Quote(l.Mask), "use open (a window over the RF copper) or cover")
+	if l.Mask != MaskAuto && l.Mask != MaskOpen && l.Mask != MaskCover {
+		c.fail("layout.mask", strconv.Quote(l.Mask), "use auto (follow the stackup's [mask]), open (a window over the RF copper) or cover")
 	}
 	if l.MaxBoard != [2]float64{} {
 		for _, v := range l.MaxBoard {
