@@ -39,7 +39,7 @@ type Via struct {
 
 // Board is a matching network as drawn in copper: the through line from
 // the load port (Through[0]) to the source port, the stubs on it and the
-// via used by shorted stubs. Every tee, open end and via is modelled from
+// via used by shorted stubs. Every tee, width step, open end and via is modelled from
 // this geometry at each frequency, so simulating a Board checks the
 // corrections rather than assuming them.
 type Board struct {
@@ -84,6 +84,10 @@ type Sim struct {
 	through []LineModel
 	stubs   []LineModel
 	stubAt  []int // stub index at each through boundary, or -1
+	// steps holds the width step at the boundary after each through
+	// line (side A the source side, Through[i+1]; side B Through[i]), or
+	// nil where there is a stub or no change of width.
+	steps []*StepParams
 }
 
 // NewSim makes the line models of b with mk.
@@ -125,7 +129,24 @@ func NewSim(b Board, mk LineMaker) (*Sim, error) {
 		s.stubs = append(s.stubs, m)
 		s.stubAt[st.At] = i
 	}
+	s.steps = make([]*StepParams, len(b.Through))
+	for i := 0; i+1 < len(b.Through); i++ {
+		if s.stubAt[i] >= 0 || b.Through[i].Width == b.Through[i+1].Width {
+			continue
+		}
+		p := s.Step(i).Params()
+		s.steps[i] = &p
+	}
 	return s, nil
+}
+
+// Step returns the width step at the boundary after Through[i], side A
+// the source side (Through[i+1]), with the lines' static properties.
+func (s *Sim) Step(i int) Step {
+	za, ea := s.through[i+1].Static()
+	zb, eb := s.through[i].Static()
+	return Step{WA: s.board.Through[i+1].Width, WB: s.board.Through[i].Width,
+		ZA: za, ZB: zb, EpsEffA: ea, EpsEffB: eb, H: s.board.Sub.Height, Er: s.board.Sub.Er}
 }
 
 // Relength returns the simulation of the same board with other drawn
@@ -190,6 +211,9 @@ func (s *Sim) ABCD(freq float64) ABCD {
 		}
 		if i < n-1 && juncs[i] != nil {
 			m = m.Mul(juncs[i].tee.ThroughWithStub(juncs[i].y))
+		}
+		if s.steps[i] != nil {
+			m = m.Mul(s.steps[i].ABCD(freq))
 		}
 		m = m.Mul(Line(params[i], l))
 	}

@@ -191,6 +191,12 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	if len(ph.Board.Stubs) > 0 {
 		r.Notes = append(r.Notes, "the T-junction model (Hammerstad 1981) is written from memory of the paper and not checked against it; the corrections it drives are listed per element (tee_mm)")
 	}
+	for _, e := range ph.Elements {
+		if e.Step != 0 {
+			r.Notes = append(r.Notes, "width steps are modelled and compensated with the closed forms of Gupta, Garg, Bahl and Bhartia (1996), written from memory and checked only against exact limits; the corrections are listed per element (step_mm)")
+			break
+		}
+	}
 	if in.Stackup.Line == "gcpw" {
 		r.Warnings = append(r.Warnings, "grounded coplanar lines: the T-junction, open-end and via models are microstrip models and only approximate the coplanar discontinuities; measure before trusting the last dB")
 	}

@@ -21,7 +21,7 @@ const (
 // Element is one line of the physical network, with what was done to its
 // length. Lengths are metres; the corrections are signed changes, so
 //
-//	DrawnLength = LineLength + OpenEnd + Tee + Via + Recentre.
+//	DrawnLength = LineLength + OpenEnd + Tee + Via + Step + Recentre.
 //
 // A through element's drawn length runs along the centre line between its
 // ends (a port edge or a tee's centre line); a stub's runs from the through
@@ -37,6 +37,7 @@ type Element struct {
 	OpenEnd       float64 // open-end shortening (Kirschning-Jansen-Koster), m
 	Tee           float64 // T-junction compensation (Hammerstad), m
 	Via           float64 // via-inductance compensation (Goldfarb-Pucel), m
+	Step          float64 // width-step compensation (Gupta, Garg, Bahl and Bhartia), m
 	Recentre      float64 // change made by the re-centring optimiser, m
 	DrawnLength   float64 // the copper drawn, m
 	At            int     // stubs: index of the through element on the load side of the tee
@@ -202,9 +203,10 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 			return Physical{}, err
 		}
 	}
+	p.compensateSteps(through, stubs, widths, sub)
 	for j := range through {
 		e := &through[j]
-		e.DrawnLength = e.LineLength + e.Tee
+		e.DrawnLength = e.LineLength + e.Tee + e.Step
 		for e.Role == RoleLine && e.DrawnLength < 0 {
 			half := e.Params.GuidedWavelength() / 2
 			e.ElectricalDeg += 180
@@ -221,6 +223,42 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 	p.Elements = append(through, stubs...)
 	p.Board = p.board(sub, opt.Via)
 	return p, nil
+}
+
+// compensateSteps shortens the through lines on each side of a change of
+// width where no stub sits by the step's equivalent lengths
+// (physical.StepParams.Lengths). A feed keeps its drawn length: its share
+// goes to the line on the other side, as the same phase.
+func (p *Physical) compensateSteps(through, stubs []Element, widths map[float64]WidthResult, sub physical.Substrate) {
+	hasStub := map[int]bool{}
+	for _, st := range stubs {
+		hasStub[st.At] = true
+	}
+	for j := 0; j+1 < len(through); j++ {
+		b, a := &through[j], &through[j+1] // side B toward the load, side A toward the source
+		if hasStub[j] || a.Width == b.Width {
+			continue
+		}
+		wa, wb := widths[a.Z0], widths[b.Z0]
+		step := physical.Step{WA: a.Width, WB: b.Width, ZA: wa.Z0Static, ZB: wb.Z0Static,
+			EpsEffA: wa.EpsEffStatic, EpsEffB: wb.EpsEffStatic, H: sub.Height, Er: sub.Er}
+		sp := step.Params()
+		for _, w := range sp.Warnings {
+			p.warn(fmt.Sprintf("%s/%s: %s", b.ID, a.ID, w))
+		}
+		dA, dB := sp.Lengths(step)
+		switch {
+		case a.Role == RoleFeed && b.Role == RoleFeed:
+		case a.Role == RoleFeed:
+			dB += dA * a.Params.Beta() / b.Params.Beta()
+			dA = 0
+		case b.Role == RoleFeed:
+			dA += dB * b.Params.Beta() / a.Params.Beta()
+			dB = 0
+		}
+		a.Step -= dA
+		b.Step -= dB
+	}
 }
 
 // minLengths returns, per element, the shortest drawn length the layout

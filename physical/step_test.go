@@ -1,0 +1,152 @@
+package physical
+
+import (
+	"math"
+	"math/cmplx"
+	"testing"
+)
+
+// stepOn returns the step between two closed-form microstrips of widths wa
+// and wb on sub, with their static impedances and permittivities.
+func stepOn(t *testing.T, wa, wb float64, sub Substrate) Step {
+	t.Helper()
+	ma, err := NewMicrostrip(wa, sub)
+	if err != nil {
+		t.Fatal(err)
+	}
+	mb, err := NewMicrostrip(wb, sub)
+	if err != nil {
+		t.Fatal(err)
+	}
+	za, ea := ma.Static()
+	zb, eb := mb.Static()
+	return Step{WA: wa, WB: wb, ZA: za, ZB: zb, EpsEffA: ea, EpsEffB: eb, H: sub.Height, Er: sub.Er}
+}
+
+// The transcription of the closed forms (Gupta, Garg, Bahl and Bhartia
+// 1996 §3.5, from memory), worked by hand for W1/W2 = 2 on εr 4.4, h =
+// 1.6 mm, W1 = 3 mm: log 4.4 = 0.643453, so Cs/√(W1W2) = (10.1·0.643453 +
+// 2.33)·2 − 12.6·0.643453 − 3.17 = 6.38024 pF/m and Cs = 6.38024e-12 ·
+// √(4.5e-6) = 13.5345 fF; Ls/h = 40.5 − 75·0.301030 + 0.2 = 18.1228 nH/m,
+// Ls = 28.9964 pH. This checks the transcription only, not the model.
+func TestStepTranscription(t *testing.T) {
+	s := Step{WA: 3e-3, WB: 1.5e-3, ZA: 30, ZB: 50, EpsEffA: 3.5, EpsEffB: 3.3, H: 1.6e-3, Er: 4.4}
+	p := s.Params()
+	if math.Abs(p.C-13.5345e-15) > 0.0005e-15 {
+		t.Errorf("Cs = %.5f fF, want 13.5345 fF (by hand)", p.C*1e15)
+	}
+	if ls := p.LA + p.LB; math.Abs(ls-28.9964e-12) > 0.0005e-12 {
+		t.Errorf("Ls = %.5f pH, want 28.9964 pH (by hand)", ls*1e12)
+	}
+	// Split by the per-unit-length inductances Z·√εeff (by hand:
+	// 30·√3.5 = 56.1249, 50·√3.3 = 90.8295).
+	if want := 28.9964e-12 * 56.1249 / (56.1249 + 90.8295); math.Abs(p.LA-want) > 0.0005e-12 {
+		t.Errorf("L on the wide side %.5f pH, want %.5f pH (by hand)", p.LA*1e12, want*1e12)
+	}
+	if len(p.Warnings) != 0 {
+		t.Errorf("warnings %v inside the model's range", p.Warnings)
+	}
+}
+
+// Exact limits of any step model. No change of width is no discontinuity;
+// at 0 Hz the series inductances and shunt capacitance vanish, so the step
+// is a plain junction (identity chain matrix); the network is lossless
+// and reciprocal (AD − BC = 1); the circuit does not depend on which side
+// is called A. And, at fixed impedances, the widths and the height scale
+// together, so as h → 0 a quasi-TEM step becomes an ideal junction at any
+// fixed frequency: every element must vanish in proportion to h.
+func TestStepExactLimits(t *testing.T) {
+	sub := Substrate{Er: 4.4, Height: 1.6e-3, CopperThickness: 0}
+	if p := stepOn(t, 3e-3, 3e-3, sub).Params(); p.LA != 0 || p.LB != 0 || p.C != 0 {
+		t.Errorf("equal widths: %+v, want no discontinuity (exact)", p)
+	}
+	for _, w := range [][2]float64{{3e-3, 1.5e-3}, {1.2e-3, 3.4e-3}, {3e-3, 2.6e-3}, {5e-3, 0.8e-3}} {
+		s := stepOn(t, w[0], w[1], sub)
+		p := s.Params()
+		if a := p.ABCD(0); a != Identity() {
+			t.Errorf("%v at 0 Hz: %v, want the identity (exact)", w, a)
+		}
+		a := p.ABCD(3e9)
+		if d := cmplx.Abs(a.Det() - 1); d > 1e-12 {
+			t.Errorf("%v: AD − BC − 1 = %.3g (reciprocal, exact)", w, d)
+		}
+		// Lossless: A and D real, B and C imaginary (exact for L and C).
+		if imag(a[0][0]) != 0 || imag(a[1][1]) != 0 || real(a[0][1]) != 0 || real(a[1][0]) != 0 {
+			t.Errorf("%v: %v is not lossless", w, a)
+		}
+		r := Step{WA: s.WB, WB: s.WA, ZA: s.ZB, ZB: s.ZA, EpsEffA: s.EpsEffB, EpsEffB: s.EpsEffA, H: s.H, Er: s.Er}.Params()
+		if r.LA != p.LB || r.LB != p.LA || r.C != p.C {
+			t.Errorf("%v: reversed %+v, forward %+v", w, r, p)
+		}
+		if !(p.C > 0 && p.LA > 0 && p.LB > 0) {
+			t.Errorf("%v: %+v, want positive elements", w, p)
+		}
+		for _, k := range []float64{1e-2, 1e-4} {
+			sk := Step{WA: s.WA * k, WB: s.WB * k, ZA: s.ZA, ZB: s.ZB, EpsEffA: s.EpsEffA, EpsEffB: s.EpsEffB, H: s.H * k, Er: s.Er}
+			pk := sk.Params()
+			for _, c := range [][2]float64{{pk.C, p.C}, {pk.LA, p.LA}, {pk.LB, p.LB}} {
+				if math.Abs(c[0]-k*c[1]) > 1e-12*c[1] {
+					t.Errorf("%v scaled by %g: element %g, want %g (∝ h)", w, k, c[0], k*c[1])
+				}
+			}
+		}
+	}
+	// As the ratio goes to 1 the inductance formula goes to 0 by itself
+	// (40.5·(r−1) − 75·log r = (40.5 − 75/ln 10)(r−1) + O((r−1)²)), and the
+	// capacitance with it.
+	p := stepOn(t, 3e-3, 3e-3*(1-1e-6), sub).Params()
+	if p.LA+p.LB > 1e-6*1.6e-3*1e-9*10 || p.C > 1e-18 {
+		t.Errorf("ratio 1 + 1e-6: %+v, want elements of order 1e-6 of a step", p)
+	}
+}
+
+// A step's excess capacitance cannot exceed what the wide line's end would
+// carry on its own: the open-end capacitance Δl·√εeff/(Z·c0), from the
+// independent Kirschning-Jansen-Koster open-end model (1981). The narrow
+// line covers part of that end, so across the model's range the step's Cs
+// lies below it.
+func TestStepCapacitanceBelowOpenEnd(t *testing.T) {
+	sub := Substrate{Er: 4.4, Height: 1.6e-3}
+	wide := 3e-3
+	m, _ := NewMicrostrip(wide, sub)
+	z, e := m.Static()
+	dl, _ := OpenEndExtension(wide, sub.Height, sub.Er, e, 1e6)
+	cOpen := dl * math.Sqrt(e) / (z * C0)
+	for _, r := range []float64{1.2, 1.5, 2, 3, 3.5} {
+		p := stepOn(t, wide, wide/r, sub).Params()
+		if !(p.C < cOpen) {
+			t.Errorf("W1/W2 = %g: Cs = %.4g fF, open end of the wide line %.4g fF", r, p.C*1e15, cOpen*1e15)
+		}
+	}
+}
+
+// A board whose through line changes width is simulated with the step:
+// against the bare cascade of the two lines the step shifts S11, by an
+// amount that goes to zero as the frequency falls (the elements are
+// reactances ∝ f).
+func TestSimIncludesStep(t *testing.T) {
+	sub := Substrate{Er: 4.4, Height: 1.6e-3, CopperThickness: 35e-6}
+	b := Board{Sub: sub, Through: []Trace{{Width: 1.5e-3, Length: 10e-3}, {Width: 3e-3, Length: 10e-3}}}
+	sim, err := NewSim(b, MicrostripMaker)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ma, _ := NewMicrostrip(3e-3, sub)
+	mb, _ := NewMicrostrip(1.5e-3, sub)
+	for _, f := range []float64{1e9, 4e9} {
+		step := sim.Step(0).Params()
+		bare := Line(ma.At(f), 10e-3).Mul(Line(mb.At(f), 10e-3))
+		with := Line(ma.At(f), 10e-3).Mul(step.ABCD(f)).Mul(Line(mb.At(f), 10e-3))
+		got := sim.ABCD(f)
+		for i := 0; i < 2; i++ {
+			for j := 0; j < 2; j++ {
+				if cmplx.Abs(got[i][j]-with[i][j]) > 1e-12*(1+cmplx.Abs(with[i][j])) {
+					t.Fatalf("at %g GHz the simulation %v is not the cascade with the step %v", f/1e9, got, with)
+				}
+			}
+		}
+		if cmplx.Abs(Reflection(got.InputImpedance(50), 50)-Reflection(bare.InputImpedance(50), 50)) == 0 {
+			t.Errorf("at %g GHz the step changes nothing", f/1e9)
+		}
+	}
+}
