@@ -46,7 +46,7 @@ type BuildInput struct {
 	Design  Design
 	Stackup stackups.Stackup
 	Load    Load
-	// Lines makes line models; nil means LineMakerFor(Stackup, a new cache).
+	// Lines makes line models; nil means LineMakerFor(ctx, Stackup, a new cache).
 	Lines physical.LineMaker
 	// SkipTolerance turns the Monte Carlo analysis off.
 	SkipTolerance bool
@@ -162,7 +162,7 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	sub, subNote := SubstrateAt(sizing, f0)
 	mk := in.Lines
 	if mk == nil || sizing.Mask != in.Stackup.Mask {
-		mk = LineMakerFor(sizing, NewSolverCache())
+		mk = LineMakerFor(ctx, sizing, NewSolverCache())
 	}
 	zl, err := in.Load.Impedance(f0)
 	if err != nil {
@@ -207,7 +207,7 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	}
 	r.Uncorr = uncorr.InputReflection(f0, zl, z0)
 
-	sim, err := r.recentre(mk, zl)
+	sim, err := r.recentre(ctx, mk, zl)
 	if err != nil {
 		return nil, err
 	}
@@ -221,7 +221,7 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 		if err != nil {
 			return nil, err
 		}
-		t, err := Analyse(r.Physical.Board, sub, tmk, zl, f0, z0, d.Tolerance)
+		t, err := Analyse(ctx, r.Physical.Board, sub, tmk, zl, f0, z0, d.Tolerance)
 		if err != nil {
 			return nil, err
 		}
@@ -269,7 +269,7 @@ const RecentreWarn = 0.01
 // is least. The corrections put the layout close already; this takes out
 // what they cannot: loss, and the small asymmetries of the tee model. It
 // returns the simulation of the layout it keeps.
-func (r *Result) recentre(mk physical.LineMaker, zl complex128) (*physical.Sim, error) {
+func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex128) (*physical.Sim, error) {
 	f0, z0 := r.Design.Freq, r.Design.Z0
 	ph := &r.Physical
 	var idx []int
@@ -331,8 +331,11 @@ func (r *Result) recentre(mk physical.LineMaker, zl complex128) (*physical.Sim, 
 	}
 	x0 := make([]float64, len(idx))
 	res, err := optimize.Minimize(optimize.Problem{Func: objective}, x0,
-		&optimize.Settings{FuncEvaluations: 2000, Converger: &optimize.FunctionConverge{Absolute: 1e-14, Iterations: 50}},
+		&optimize.Settings{FuncEvaluations: 2000, Converger: contextConverger{ctx, &optimize.FunctionConverge{Absolute: 1e-14, Iterations: 50}}},
 		&optimize.NelderMead{InitialVertices: nil, SimplexSize: 0.01})
+	if cerr := ctx.Err(); cerr != nil {
+		return nil, fmt.Errorf("re-centring: %w", cerr)
+	}
 	if err != nil && res == nil {
 		return nil, fmt.Errorf("re-centring: %w", err)
 	}
@@ -367,6 +370,22 @@ func (r *Result) recentre(mk physical.LineMaker, zl complex128) (*physical.Sim, 
 	}
 	r.Recentre.After = after.InputReflection(f0, zl, z0)
 	return after, nil
+}
+
+// contextConverger stops an optimisation once ctx is done (the caller then
+// reports ctx.Err()); until then it defers to its inner converger.
+type contextConverger struct {
+	ctx   context.Context
+	inner optimize.Converger
+}
+
+func (c contextConverger) Init(dim int) { c.inner.Init(dim) }
+
+func (c contextConverger) Converged(loc *optimize.Location) optimize.Status {
+	if c.ctx.Err() != nil {
+		return optimize.Failure
+	}
+	return c.inner.Converged(loc)
 }
 
 // sweep fills r.Sweep and the bandwidths.

@@ -36,10 +36,10 @@ func BenchmarkMonteCarlo1000(b *testing.B) {
 	spec := d.Tolerance
 	spec.Samples = 1000
 	sub := st.Substrate()
-	mk := LineMakerFor(st, NewSolverCache())
+	mk := LineMakerFor(context.Background(), st, NewSolverCache())
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
-		if _, err := Analyse(r.Physical.Board, sub, mk, r.LoadF0, d.Freq, d.Z0, spec); err != nil {
+		if _, err := Analyse(context.Background(), r.Physical.Board, sub, mk, r.LoadF0, d.Freq, d.Z0, spec); err != nil {
 			b.Fatal(err)
 		}
 	}

@@ -383,7 +383,7 @@ func TestFirstLineBorrowsFromFeed(t *testing.T) {
 func TestToleranceMakerNominal(t *testing.T) {
 	st := preset(t, "fr4-1.6mm-masked")
 	sub := st.Substrate()
-	mk := LineMakerFor(st, NewSolverCache())
+	mk := LineMakerFor(context.Background(), st, NewSolverCache())
 	const f0, w = 2.45e9, 2.99e-3
 	b := physical.Board{Sub: sub, Through: []physical.Trace{{Width: w, Length: 1e-2}, {Width: w, Length: 1e-2}}}
 	tmk, err := ToleranceMaker(b, mk, true, f0)

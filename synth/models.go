@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"context"
 	"fmt"
 	"math"
 
@@ -24,13 +25,13 @@ func UsesFieldSolver(st stackups.Stackup) bool {
 
 // LineMakerFor returns the line model for strips on st: the closed-form
 // microstrip models for a bare microstrip, else the 2-D field solver
-// (results kept in cache).
-func LineMakerFor(st stackups.Stackup, cache *SolverCache) physical.LineMaker {
+// (results kept in cache), whose solves stop once ctx is done.
+func LineMakerFor(ctx context.Context, st stackups.Stackup, cache *SolverCache) physical.LineMaker {
 	if !UsesFieldSolver(st) {
 		return physical.MicrostripMaker
 	}
 	cs := CrossSectionOf(st)
-	return fieldsolve.Maker(cs.Geometry, cs.Gap, cache)
+	return fieldsolve.MakerContext(ctx, cs.Geometry, cs.Gap, cache)
 }
 
 // CrossSectionOf returns the field solver's cross-section of a line on st,

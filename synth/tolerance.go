@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"context"
 	"fmt"
 	"math/rand/v2"
 	"runtime"
@@ -30,7 +31,9 @@ type Tolerance struct {
 // moves all edges of one panel alike. The draw is reproducible: sample i
 // uses its own generator seeded from (spec.Seed, i), so the result does
 // not depend on how the samples are spread over the processors.
-func Analyse(b physical.Board, sub physical.Substrate, mk physical.LineMaker, zl complex128, f0, z0 float64, spec ToleranceSpec) (Tolerance, error) {
+// It stops between samples once ctx is done, returning an error that wraps
+// ctx.Err().
+func Analyse(ctx context.Context, b physical.Board, sub physical.Substrate, mk physical.LineMaker, zl complex128, f0, z0 float64, spec ToleranceSpec) (Tolerance, error) {
 	n := spec.Samples
 	if n <= 0 {
 		return Tolerance{}, fmt.Errorf("tolerance: %d samples", n)
@@ -47,6 +50,10 @@ func Analyse(b physical.Board, sub physical.Substrate, mk physical.LineMaker, zl
 		go func(w int) {
 			defer wg.Done()
 			for i := w; i < n; i += workers {
+				if err := ctx.Err(); err != nil {
+					errs[w] = fmt.Errorf("tolerance: %w", err)
+					return
+				}
 				v, err := sample(b, sub, mk, zl, f0, z0, spec, i)
 				if err != nil {
 					errs[w] = fmt.Errorf("tolerance sample %d: %w", i, err)

@@ -63,7 +63,7 @@ replaced only with --force; nothing is written when any step fails.
 				return err
 			}
 			cache := synth.NewSolverCache()
-			in.Lines = synth.LineMakerFor(in.Stackup, cache)
+			in.Lines = synth.LineMakerFor(cmd.Context(), in.Stackup, cache)
 			in.SkipTolerance, in.AcceptMismatch = noTolerance, acceptMismatch
 			stop := solverProgress(cache)
 			res, err := synth.Build(cmd.Context(), in)

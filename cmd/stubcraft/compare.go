@@ -87,8 +87,12 @@ meets the fab minimum. Nothing is written to disk.`,
 			var rows []compareRow
 			for _, st := range sts {
 				in := in
-				in.Stackup, in.Lines, in.SkipTolerance = st, synth.LineMakerFor(st, cache), noTolerance
+				in.Stackup, in.Lines, in.SkipTolerance = st, synth.LineMakerFor(cmd.Context(), st, cache), noTolerance
 				rows = append(rows, compareOne(cmd.Context(), in, minWidth))
+				if err := cmd.Context().Err(); err != nil {
+					stop()
+					return err
+				}
 			}
 			stop()
 			if asJSON {

@@ -67,7 +67,7 @@ of that electrical length at --freq is given too.`,
 				return fmt.Errorf("--freq %q: the frequency must be positive", freqArg)
 			}
 			cache := synth.NewSolverCache()
-			maker := synth.LineMakerFor(st, cache)
+			maker := synth.LineMakerFor(cmd.Context(), st, cache)
 			defer solverProgress(cache)()
 			sub, subNotes := synth.SubstrateAt(st, freq)
 			var model physical.LineModel

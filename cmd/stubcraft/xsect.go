@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -84,7 +85,7 @@ plane-to-plane spacing and --offset moves the strip up from the centre.`,
 			if err != nil {
 				return err
 			}
-			res, err := xsectSolve(cs, tol, os.Stderr)
+			res, err := xsectSolve(cmd.Context(), cs, tol, os.Stderr)
 			if err != nil {
 				var ie *fieldsolve.InputError
 				if errors.As(err, &ie) {
@@ -236,7 +237,7 @@ func (f *xsectFlags) crossSection(cmd *cobra.Command) (fieldsolve.CrossSection, 
 
 // xsectSolve runs the solver, showing progress on stderr when it takes more
 // than a second and stderr is a terminal.
-func xsectSolve(cs fieldsolve.CrossSection, tol float64, stderr *os.File) (fieldsolve.Result, error) {
+func xsectSolve(ctx context.Context, cs fieldsolve.CrossSection, tol float64, stderr *os.File) (fieldsolve.Result, error) {
 	start := time.Now()
 	tty := false
 	if st, err := stderr.Stat(); err == nil && st.Mode()&os.ModeCharDevice != 0 {
@@ -252,7 +253,7 @@ func xsectSolve(cs fieldsolve.CrossSection, tol float64, stderr *os.File) (field
 			}
 		}
 	}
-	res, err := fieldsolve.Solve(cs, opt)
+	res, err := fieldsolve.SolveContext(ctx, cs, opt)
 	if shown {
 		fmt.Fprintln(stderr)
 	}

@@ -1,6 +1,9 @@
 package fieldsolve
 
-import "sync"
+import (
+	"context"
+	"sync"
+)
 
 // Cache keeps the results of solves within one run, so that a cross-section
 // met again (in a sweep, a synthesis or a Monte Carlo draw that repeats) is
@@ -25,8 +28,14 @@ func NewCache() *Cache { return &Cache{m: make(map[cacheKey]Result)} }
 // solves it and stores the result. Failed solves are not stored.
 // opt.Progress is called only when a solve is run.
 func (c *Cache) Solve(cs CrossSection, opt Options) (Result, error) {
+	return c.SolveContext(context.Background(), cs, opt)
+}
+
+// SolveContext is Solve with a context that cancels a solve run (see
+// SolveContext).
+func (c *Cache) SolveContext(ctx context.Context, cs CrossSection, opt Options) (Result, error) {
 	if c == nil {
-		return Solve(cs, opt)
+		return SolveContext(ctx, cs, opt)
 	}
 	k := cacheKey{cs, opt.Tolerance, opt.MaxCells}
 	c.mu.Lock()
@@ -35,7 +44,7 @@ func (c *Cache) Solve(cs CrossSection, opt Options) (Result, error) {
 	if ok {
 		return r, nil
 	}
-	r, err := Solve(cs, opt)
+	r, err := SolveContext(ctx, cs, opt)
 	if err != nil {
 		return r, err
 	}

@@ -1,6 +1,7 @@
 package fieldsolve
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -46,7 +47,13 @@ func NewLineModel(cs CrossSection, sub physical.Substrate, cache *Cache) (physic
 
 // NewLineModelOptions is NewLineModel with solver options.
 func NewLineModelOptions(cs CrossSection, sub physical.Substrate, cache *Cache, opt Options) (*Model, error) {
-	res, err := cache.Solve(cs, opt)
+	return NewLineModelContext(context.Background(), cs, sub, cache, opt)
+}
+
+// NewLineModelContext is NewLineModelOptions with a context that cancels
+// the solve.
+func NewLineModelContext(ctx context.Context, cs CrossSection, sub physical.Substrate, cache *Cache, opt Options) (*Model, error) {
+	res, err := cache.SolveContext(ctx, cs, opt)
 	if err != nil && !errors.Is(err, ErrNotConverged) {
 		return nil, err
 	}
@@ -153,11 +160,16 @@ var _ physical.LineModel = (*Model)(nil)
 // given geometry (gap for GCPW, else 0) from a width and a substrate,
 // sharing cache between them. Its models keep their full type, *Model.
 func Maker(g Geometry, gap float64, cache *Cache) physical.LineMaker {
+	return MakerContext(context.Background(), g, gap, cache)
+}
+
+// MakerContext is Maker whose solves stop once ctx is done.
+func MakerContext(ctx context.Context, g Geometry, gap float64, cache *Cache) physical.LineMaker {
 	return func(width float64, sub physical.Substrate) (physical.LineModel, error) {
 		cs, err := FromSubstrate(g, width, gap, sub)
 		if err != nil {
 			return nil, err
 		}
-		return NewLineModelOptions(cs, sub, cache, Options{})
+		return NewLineModelContext(ctx, cs, sub, cache, Options{})
 	}
 }

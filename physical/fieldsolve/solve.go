@@ -1,6 +1,7 @@
 package fieldsolve
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -80,6 +81,12 @@ const (
 // cell limit comes first it returns the best answer and an error wrapping
 // ErrNotConverged. Invalid input gives an *InputError.
 func Solve(cs CrossSection, opt Options) (Result, error) {
+	return SolveContext(context.Background(), cs, opt)
+}
+
+// SolveContext is Solve that stops between grid levels once ctx is done,
+// returning an error that wraps ctx.Err().
+func SolveContext(ctx context.Context, cs CrossSection, opt Options) (Result, error) {
 	if err := cs.Validate(); err != nil {
 		return Result{}, err
 	}
@@ -107,6 +114,9 @@ func Solve(cs CrossSection, opt Options) (Result, error) {
 	var prevPhi, prevPhiAir []float64
 	n := startDensity
 	for level := 0; level < maxLevels; level++ {
+		if err := ctx.Err(); err != nil {
+			return Result{}, fmt.Errorf("fieldsolve: %w", err)
+		}
 		g := newGrid(&l, n)
 		cells := g.nx() * g.ny()
 		if level >= minLevels && cells > maxCells {
