@@ -339,8 +339,7 @@ func tiles(c, a float64) int {
 // centre of a shorted stub), beyond the leg's outer edge; its width across
 // the second leg beyond the end; and the miter, by a leader from the
 // chamfer. It returns the lowest paper y it drew at.
-func (d *doc) bentStubDims(s stubMM, v view) float64 {
-	f := d.pdf
+func (d *doc) bentStubDims(pen *ink, s stubMM, v view) float64 {
 	k := s.bend
 	tw, sd := k.toward, s.side
 	pad := 0.0
@@ -349,12 +348,13 @@ func (d *doc) bentStubDims(s stubMM, v view) float64 {
 	}
 	// First leg, on its outer side (away from the second leg).
 	xd := v.X(k.firstX) - tw*dimStubGap
-	dimV(f, v.X(k.firstX), v.Y(s.ref), v.X(k.firstX), v.Y(k.center.y), xd, mm3(k.leg1), tw < 0)
-	align, lx := "R", xd-1.2
+	pen.dimV(v.X(k.firstX), v.Y(s.ref), v.X(k.firstX), v.Y(k.center.y), xd, mm3(k.leg1), tw < 0)
+	align, lx := byte('R'), xd-1.2
 	if tw < 0 {
-		align, lx = "L", xd+1.2
+		align, lx = 'L', xd+1.2
 	}
-	label(f, "1st leg, to bend centre", lx, (v.Y(s.ref)+v.Y(k.center.y))/2-2.8, align, noteFontPt, colMuted)
+	ly := (v.Y(s.ref)+v.Y(k.center.y))/2 - 2.8
+	pen.note("1st leg, to bend centre", ptMM{xd, ly + 2.8}, spot{x: lx, y: ly, align: align}, spot{x: lx, y: ly + 5.6, align: align})
 	// Second leg, beyond its outer edge (and the via pad).
 	far := sd * math.Max(sd*k.outer, sd*(k.center.y+sd*pad/2))
 	yd := v.Y(far) - sd*(dimStubGap+2) // clear of the width dimension's extension lines
@@ -362,31 +362,33 @@ func (d *doc) bentStubDims(s stubMM, v view) float64 {
 	if k.via != nil {
 		endX = k.via.c.x
 	}
-	dimH(f, v.X(k.center.x), v.Y(k.center.y), v.X(endX), v.Y(k.center.y), yd, mm3(k.drawn2), sd < 0)
+	pen.dimH(v.X(k.center.x), v.Y(k.center.y), v.X(endX), v.Y(k.center.y), yd, mm3(k.drawn2), sd < 0)
 	note := "2nd leg, from bend centre"
 	if k.via != nil {
 		note += " to via centre"
 	}
-	label(f, note, v.X((k.center.x+endX)/2), yd-sd*3.4, "C", noteFontPt, colMuted)
+	nx := v.X((k.center.x + endX) / 2)
+	pen.note(note, ptMM{nx, yd}, spot{x: nx, y: yd - sd*3.4, align: 'C'}, spot{x: nx, y: yd - sd*6, align: 'C'})
 	// Width across the second leg, beyond its end.
 	xw := v.X(k.end.x) + tw*(dimStubGap+v.s*pad/2)
-	dimV(f, v.X(k.end.x), v.Y(k.inner), v.X(k.end.x), v.Y(k.outer), xw, mm3(math.Abs(k.outer-k.inner)), tw > 0)
+	pen.dimV(v.X(k.end.x), v.Y(k.inner), v.X(k.end.x), v.Y(k.outer), xw, mm3(math.Abs(k.outer-k.inner)), tw > 0)
 	if k.via != nil {
 		vx, vy := v.X(k.via.c.x), v.Y(k.via.c.y)
-		leader(f, vx, vy, vx+tw*6, v.Y(k.inner)+sd*4, fmt.Sprintf("via: drill Ø%s", mm3(k.via.drill)), fmt.Sprintf("pad Ø%s", mm3(k.via.pad)))
+		pen.leader(vx, vy, vx+tw*6, v.Y(k.inner)+sd*4, fmt.Sprintf("via: drill Ø%s", mm3(k.via.drill)), fmt.Sprintf("pad Ø%s", mm3(k.via.pad)))
 	} else {
-		align := "R"
+		align := byte('R')
 		if tw > 0 {
-			align = "L"
+			align = 'L'
 		}
-		label(f, "open end", v.X(k.end.x)+tw*1.2, v.Y(k.inner)+sd*1.8, align, noteFontPt, colMuted)
+		ex, ey := v.X(k.end.x), v.Y(k.inner)
+		pen.note("open end", ptMM{ex, ey}, spot{x: ex + tw*1.2, y: ey + sd*1.8, align: align}, spot{x: ex + tw*1.2, y: ey + sd*4.4, align: align})
 	}
 	// The miter: a leader from the chamfer's middle, outward along the
 	// corner's diagonal.
 	mx, my := v.X((k.chamfer[0].x+k.chamfer[1].x)/2), v.Y((k.chamfer[0].y+k.chamfer[1].y)/2)
 	cx, cy := v.X(k.corner.x), v.Y(k.corner.y)
 	ox, oy := cx-tw*6, cy-sd*6
-	leader(f, mx, my, ox, oy, fmt.Sprintf("miter %.0f %%", math.Round(100*k.miter)),
+	pen.leader(mx, my, ox, oy, fmt.Sprintf("miter %.0f %%", math.Round(100*k.miter)),
 		fmt.Sprintf("cut %s × %s", mm3(k.chamferLeg), mm3(k.chamferLeg)))
 	return math.Max(math.Max(yd+2.5, oy+6), v.Y(far))
 }

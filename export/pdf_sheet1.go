@@ -31,7 +31,7 @@ func (d *doc) boardSheets(b boardModel, p boardPlan) {
 		if p.detail == 0 {
 			x0 := a.x + (a.w-cw)/2
 			y0 := a.y + (a.h-ch)/2
-			d.drawBoard(b, view{p.scale, x0 + p.ext.left, y0 + p.ext.top + p.scale*b.h}, true)
+			d.drawBoard(b, view{p.scale, x0 + p.ext.left, y0 + p.ext.top + p.scale*b.h}, true, rect{a.x, a.y, a.x + a.w, a.y + a.h}, false)
 			d.scaleStrip(p, "")
 			return
 		}
@@ -40,10 +40,15 @@ func (d *doc) boardSheets(b boardModel, p boardPlan) {
 		dw, dh := q.canvas(b)
 		gap := (a.h - ch - dh - 2*viewCaptionH) / 3
 		y0 := a.y + gap
-		d.viewCaption(a.x, y0+4, "TRUE SIZE 1:1", "measure from this view")
 		x0 := a.x + (a.w-cw)/2
-		d.drawBoard(b, view{1, x0 + p.ext.left, y0 + viewCaptionH + p.ext.top + b.h}, true)
 		y1 := y0 + viewCaptionH + ch + gap
+		dropped := d.drawBoard(b, view{1, x0 + p.ext.left, y0 + viewCaptionH + p.ext.top + b.h}, true,
+			rect{a.x, y0 + viewCaptionH - gap/2, a.x + a.w, y1 - gap/2}, true)
+		remark := "measure from this view"
+		if dropped > 0 {
+			remark += fmt.Sprintf("; %d value(s) too tight to print at 1:1 are given in the enlarged view", dropped)
+		}
+		d.viewCaption(a.x, y0+4, "TRUE SIZE 1:1", remark)
 		setDraw(d.pdf, colRule)
 		d.pdf.SetLineWidth(0.2)
 		d.pdf.SetDashPattern([]float64{1, 1}, 0)
@@ -51,7 +56,8 @@ func (d *doc) boardSheets(b boardModel, p boardPlan) {
 		d.pdf.SetDashPattern(nil, 0)
 		d.viewCaption(a.x, y1+4, "ENLARGED VIEW "+p.detailRatio, "the same board and dimensions, magnified for reading: do not measure this view")
 		x1 := a.x + (a.w-dw)/2
-		d.drawBoard(b, view{p.detail, x1 + q.ext.left, y1 + viewCaptionH + q.ext.top + p.detail*b.h}, false)
+		d.drawBoard(b, view{p.detail, x1 + q.ext.left, y1 + viewCaptionH + q.ext.top + p.detail*b.h}, false,
+			rect{a.x, y1 + viewCaptionH, a.x + a.w, a.y + a.h}, false)
 		d.scaleStrip(p, "")
 		return
 	}
@@ -66,7 +72,7 @@ func (d *doc) boardSheets(b boardModel, p boardPlan) {
 			ox := a.x - float64(i)*stepX
 			oy := a.y - float64(j)*stepY
 			v := view{1, ox + p.ext.left, oy + p.ext.top + b.h}
-			d.drawBoard(b, v, true)
+			d.drawBoard(b, v, true, rect{ox, oy, ox + math.Max(cw, a.w), oy + math.Max(ch, a.h)}, false)
 			d.glueMarks(ox, oy, cw, ch, stepX, stepY, p)
 			f.ClipEnd()
 			setDraw(f, colRule)
@@ -218,10 +224,14 @@ func (d *doc) viewCaption(x, y float64, name, remark string) {
 }
 
 // drawBoard draws the board, its copper, vias and every dimension in view
-// v. The outline of the view to measure (measured) is tagged
-// /BoardOutline in the content stream.
-func (d *doc) drawBoard(b boardModel, v view, measured bool) {
+// v, its labels placed inside bounds clear of each other and of copper.
+// The outline of the view to measure (measured) is tagged /BoardOutline
+// in the content stream, its copper /Copper. With optional set, a value
+// that finds no clear spot is left out (for an enlarged view to show); it
+// returns how many were.
+func (d *doc) drawBoard(b boardModel, v view, measured bool, bounds rect, optional bool) int {
 	f := d.pdf
+	k := &ink{f: f, pl: newPlacer(pdfWidth(f), bounds), optional: optional}
 	// Board outline.
 	setFill(f, colBoard)
 	setDraw(f, colBoardEdge)
@@ -233,24 +243,42 @@ func (d *doc) drawBoard(b boardModel, v view, measured bool) {
 	f.RawWriteStr(tag)
 	f.Rect(v.X(0), v.Y(b.h), v.s*b.w, v.s*b.h, "FD")
 	f.RawWriteStr("EMC\n")
+	corners := []ptMM{{v.X(0), v.Y(0)}, {v.X(b.w), v.Y(0)}, {v.X(b.w), v.Y(b.h)}, {v.X(0), v.Y(b.h)}}
+	for i := range corners {
+		a, c := corners[i], corners[(i+1)%4]
+		k.pl.line(obsLine, 0, a.x, a.y, c.x, c.y)
+	}
 	// Copper.
 	setFill(f, colCopper)
 	setDraw(f, colCopperEdg)
 	f.SetLineWidth(0.12)
-	for k, poly := range b.copper {
+	f.RawWriteStr("/Copper BMC\n")
+	for i, poly := range b.copper {
 		setFill(f, colCopper)
-		if b.pour[k] {
+		if b.pour[i] {
 			setFill(f, colPour)
 		}
 		pts := make([]gofpdf.PointType, len(poly))
-		for i, q := range poly {
-			pts[i] = gofpdf.PointType{X: v.X(q.x), Y: v.Y(q.y)}
+		area := make([]ptMM, len(poly))
+		for j, q := range poly {
+			pts[j] = gofpdf.PointType{X: v.X(q.x), Y: v.Y(q.y)}
+			area[j] = ptMM{v.X(q.x), v.Y(q.y)}
 		}
 		f.Polygon(pts, "FD")
+		k.pl.add(newObstacle(obsCopper, 0, true, area...))
 	}
 	for _, p := range b.pads {
 		if p.round {
 			f.Circle(v.X(p.c.x), v.Y(p.c.y), v.s*p.w/2, "FD")
+			k.pl.add(newObstacle(obsCopper, 0, true, square(v.X(p.c.x), v.Y(p.c.y), v.s*p.w/2)...))
+		}
+	}
+	for _, via := range b.vias {
+		k.pl.add(newObstacle(obsCopper, 0, true, square(v.X(via.c.x), v.Y(via.c.y), v.s*via.pad/2)...))
+	}
+	f.RawWriteStr("EMC\n")
+	for _, p := range b.pads {
+		if p.round {
 			continue
 		}
 		f.SetDashPattern([]float64{0.6, 0.4}, 0)
@@ -264,19 +292,29 @@ func (d *doc) drawBoard(b boardModel, v view, measured bool) {
 		f.Line(v.X(via.c.x)-0.8, v.Y(via.c.y), v.X(via.c.x)+0.8, v.Y(via.c.y))
 		f.Line(v.X(via.c.x), v.Y(via.c.y)-0.8, v.X(via.c.x), v.Y(via.c.y)+0.8)
 	}
-	d.centreLines(b, v)
-	d.portLabels(b, v)
-	d.boardDims(b, v)
+	d.centreLines(k, b, v)
+	d.portLabels(k, b, v)
+	d.boardDims(k, b, v)
+	return k.flush()
+}
+
+// square is the square of half side r about (x, y), as a polygon.
+func square(x, y, r float64) []ptMM {
+	return []ptMM{{x - r, y - r}, {x + r, y - r}, {x + r, y + r}, {x - r, y + r}}
 }
 
 // centreLines draws the through line's and the stubs' centre lines
 // (long dash, short dash) and the reference-plane marks at each tee.
-func (d *doc) centreLines(b boardModel, v view) {
+func (d *doc) centreLines(k *ink, b boardModel, v view) {
 	f := d.pdf
 	setDraw(f, colRefPlane)
 	f.SetLineWidth(0.12)
 	f.SetDashPattern([]float64{3, 0.8, 0.6, 0.8}, 0)
-	f.Line(v.X(0)-3, v.Y(b.centreY), v.X(b.w)+3, v.Y(b.centreY))
+	centre := func(x1, y1, x2, y2 float64) {
+		f.Line(x1, y1, x2, y2)
+		k.pl.line(obsCentre, 0, x1, y1, x2, y2)
+	}
+	centre(v.X(0)-3, v.Y(b.centreY), v.X(b.w)+3, v.Y(b.centreY))
 	for _, s := range b.stubs {
 		if s.bend != nil {
 			d.bentCentreLine(s, v, b.centreY)
@@ -286,17 +324,19 @@ func (d *doc) centreLines(b boardModel, v view) {
 		if s.via != nil {
 			far = s.via.c.y + s.side*s.via.pad/2
 		}
-		f.Line(v.X(s.cx), v.Y(b.centreY), v.X(s.cx), v.Y(far)-s.side*2.5)
+		centre(v.X(s.cx), v.Y(b.centreY), v.X(s.cx), v.Y(far)-s.side*2.5)
 	}
 	f.SetDashPattern(nil, 0)
 	for _, s := range b.stubs {
 		// Reference plane: a plum bar across the stub at its root with
 		// triangles pointing at the plane, and the tee centre cross.
+		k.group()
 		y := v.Y(s.ref)
 		xl, xr := v.X(s.x0)-3.5, v.X(s.x1)+3.5
 		f.SetLineWidth(0.3)
 		f.SetDashPattern([]float64{1.2, 0.6}, 0)
 		f.Line(xl, y, xr, y)
+		k.pl.line(obsCentre, k.owner, xl, y, xr, y)
 		f.SetDashPattern(nil, 0)
 		setFill(f, colRefPlane)
 		for _, x := range []float64{xl, xr} {
@@ -306,39 +346,41 @@ func (d *doc) centreLines(b boardModel, v view) {
 		tx, ty := v.X(s.teeX), v.Y(s.teeY)
 		f.Line(tx-1.4, ty, tx+1.4, ty)
 		f.Line(tx, ty-1.4, tx, ty+1.4)
-		label(f, "ref. plane", xl-1.2, y-s.side*1.9, "R", noteFontPt, colRefPlane)
+		k.text(labelReq{lines: []string{"ref. plane"}, pt: noteFontPt, col: colRefPlane, anchor: ptMM{xl, y}, priority: 2,
+			spots: []spot{{x: xl - 1.2, y: y - s.side*1.9, align: 'R'}, {x: xl - 1.2, y: y + s.side*1.9, align: 'R'},
+				{x: xr + 1.2, y: y - s.side*1.9, align: 'L'}, {x: xr + 1.2, y: y + s.side*1.9, align: 'L'},
+				{x: xl - 1.2, y: y - s.side*4.5, align: 'R', leader: true}, {x: xr + 1.2, y: y - s.side*4.5, align: 'L', leader: true}}})
 	}
 }
 
 // portLabels names the load and source ports beside the board edges.
-func (d *doc) portLabels(b boardModel, v view) {
+func (d *doc) portLabels(k *ink, b boardModel, v view) {
 	f := d.pdf
 	for i, name := range []string{"load port", "source port"} {
+		k.group()
 		p := b.ports[i]
 		x, y := v.X(p.x), v.Y(p.y)
-		f.SetFont(fontSans, "B", 6.5)
-		setText(f, colAccent)
-		if i == 0 {
-			f.Text(x-2-f.GetStringWidth(name), y-1.2, name)
-			setDraw(f, colAccent)
-			setFill(f, colAccent)
-			f.SetLineWidth(0.2)
-			f.Line(x-12, y+0.8, x-2.5, y+0.8)
-			arrow(f, x-0.5, y+0.8, 1, 0)
-		} else {
-			f.Text(x+2, y-1.2, name)
-			setDraw(f, colAccent)
-			setFill(f, colAccent)
-			f.SetLineWidth(0.2)
-			f.Line(x+2.5, y+0.8, x+12, y+0.8)
-			arrow(f, x+0.5, y+0.8, -1, 0)
+		setDraw(f, colAccent)
+		setFill(f, colAccent)
+		f.SetLineWidth(0.2)
+		dir := -1.0
+		align := byte('R')
+		if i == 1 {
+			dir, align = 1, 'L'
 		}
+		f.Line(x+dir*12, y+0.8, x+dir*2.5, y+0.8)
+		k.pl.line(obsLine, k.owner, x+dir*12, y+0.8, x+dir*2.5, y+0.8)
+		arrow(f, x+dir*0.5, y+0.8, -dir, 0)
+		c := 6.5 * 25.4 / 72 * capEm / 2
+		k.text(labelReq{lines: []string{name}, pt: 6.5, bold: true, col: colAccent, anchor: ptMM{x + dir*12, y + 0.8},
+			spots: []spot{{x: x + dir*2, y: y - 1.2 - c, align: align}, {x: x + dir*2, y: y + 2.2 + c, align: align},
+				{x: x + dir*12.6, y: y + 0.8, align: align}, {x: x + dir*2, y: y - 3.8 - c, align: align},
+				{x: x + dir*2, y: y + 4.8 + c, align: align}}})
 	}
 }
 
 // boardDims draws every dimension of the board.
-func (d *doc) boardDims(b boardModel, v view) {
-	f := d.pdf
+func (d *doc) boardDims(k *ink, b boardModel, v view) {
 	// Segment widths, across each segment away from its stubs, the value
 	// on the side the stubs leave free, at alternating distances.
 	up := true
@@ -349,13 +391,13 @@ func (d *doc) boardDims(b boardModel, v view) {
 	}
 	for i, g := range b.segs {
 		x := v.X(widthDimX(b, g))
-		dimAcross(f, x, v.Y(g.hi), v.Y(g.lo), mm3(g.hi-g.lo), up, float64(i%2)*3.2)
+		k.dimAcross(x, v.Y(g.hi), v.Y(g.lo), mm3(g.hi-g.lo), up, float64(i%2)*3.2)
 	}
 	// Stubs: width beyond the end, drawn length beside, via callout.
 	low := v.Y(0)
 	for _, s := range b.stubs {
 		if s.bend != nil {
-			low = math.Max(low, d.bentStubDims(s, v))
+			low = math.Max(low, d.bentStubDims(k, s, v))
 			continue
 		}
 		far := s.tip
@@ -363,16 +405,18 @@ func (d *doc) boardDims(b boardModel, v view) {
 			far = s.via.c.y + s.side*s.via.pad/2
 		}
 		yd := v.Y(far) - s.side*dimStubGap
-		dimH(f, v.X(s.x0), v.Y(s.tip), v.X(s.x1), v.Y(s.tip), yd, mm3(s.x1-s.x0), false)
+		k.dimH(v.X(s.x0), v.Y(s.tip), v.X(s.x1), v.Y(s.tip), yd, mm3(s.x1-s.x0), false)
 		right := math.Max(v.X(s.x1), v.X(s.cx)+v.s*padOf(s)/2)
 		xd := right + dimStubGap
 		endX := v.X(s.x1)
 		if s.via != nil {
 			endX = v.X(s.cx) + v.s*s.via.pad/2
 		}
-		dimV(f, v.X(s.x1), v.Y(s.ref), endX, v.Y(s.end), xd, mm3(math.Abs(s.end-s.ref)), true)
+		k.dimV(v.X(s.x1), v.Y(s.ref), endX, v.Y(s.end), xd, mm3(math.Abs(s.end-s.ref)), true)
 		if s.via != nil {
-			label(f, "to via centre", xd+1.2, (v.Y(s.ref)+v.Y(s.end))/2+2.8, "L", noteFontPt, colMuted)
+			my := (v.Y(s.ref) + v.Y(s.end)) / 2
+			k.note("to via centre", ptMM{xd, my}, spot{x: xd + 1.2, y: my + 2.8, align: 'L'}, spot{x: xd + 1.2, y: my - 2.8, align: 'L'},
+				spot{x: xd - 1.2, y: my + 2.8, align: 'R'}, spot{x: xd + 1.2, y: my + 5.4, align: 'L'})
 			vx, vy := v.X(s.via.c.x), v.Y(s.via.c.y)
 			// The callout points left, clear of the length dimension on
 			// the right, unless another stub on this side stands close on
@@ -383,32 +427,42 @@ func (d *doc) boardDims(b boardModel, v view) {
 					tx = xd + 14
 				}
 			}
-			leader(f, vx, vy, tx, vy+s.side*3, fmt.Sprintf("via: drill Ø%s", mm3(s.via.drill)), fmt.Sprintf("pad Ø%s", mm3(s.via.pad)))
+			k.leader(vx, vy, tx, vy+s.side*3, fmt.Sprintf("via: drill Ø%s", mm3(s.via.drill)), fmt.Sprintf("pad Ø%s", mm3(s.via.pad)))
 		} else {
-			label(f, "open end", v.X(s.x0)-1.2, v.Y(s.tip)+s.side*1.4, "R", noteFontPt, colMuted)
+			tip := ptMM{v.X(s.cx), v.Y(s.tip)}
+			k.note("open end", tip, spot{x: v.X(s.x0) - 1.2, y: v.Y(s.tip) + s.side*1.4, align: 'R'},
+				spot{x: v.X(s.x1) + 1.2, y: v.Y(s.tip) + s.side*1.4, align: 'L'},
+				spot{x: v.X(s.x0) - 1.2, y: v.Y(s.tip) + s.side*4, align: 'R'},
+				spot{x: v.X(s.x0) - 1.2, y: v.Y(s.tip) - s.side*1.4, align: 'R'})
 		}
 		low = math.Max(low, yd)
 	}
 	// Rows under the board: segment lengths, stub positions, board length.
 	row := low + dimFirstRow
 	caption := func(s string, y float64) {
-		label(f, s, v.X(0)-3, y, "R", noteFontPt, colMuted)
+		k.text(labelReq{lines: []string{s}, pt: noteFontPt, col: colMuted, anchor: ptMM{v.X(0) - 3, y},
+			spots: []spot{{x: v.X(0) - 3, y: y, align: 'R'}}})
 	}
+	k.group()
 	caption("drawn lengths", row)
 	for i, g := range b.segs {
-		dimH(f, v.X(g.x0), v.Y(g.lo), v.X(g.x1), v.Y(g.lo), row, mm3(g.x1-g.x0), i%2 == 1)
+		k.dimH(v.X(g.x0), v.Y(g.lo), v.X(g.x1), v.Y(g.lo), row, mm3(g.x1-g.x0), i%2 == 1)
 	}
 	for _, s := range b.stubs {
 		row += dimRowGap
-		caption(s.id+" centre", row-1.3)
-		label(f, "from each board edge", v.X(0)-3, row+1.3, "R", noteFontPt-0.7, colMuted)
-		dimH(f, v.X(0), v.Y(0), v.X(s.cx), v.Y(b.centreY), row, mm3(s.cx), false)
-		dimH(f, v.X(s.cx), v.Y(b.centreY), v.X(b.w), v.Y(0), row, mm3(b.w-s.cx), false)
+		k.group()
+		k.text(labelReq{lines: []string{s.id + " centre"}, pt: noteFontPt, col: colMuted, anchor: ptMM{v.X(0) - 3, row},
+			spots: []spot{{x: v.X(0) - 3, y: row - 1.3, align: 'R'}}})
+		k.text(labelReq{lines: []string{"from each board edge"}, pt: noteFontPt - 0.7, col: colMuted, anchor: ptMM{v.X(0) - 3, row},
+			spots: []spot{{x: v.X(0) - 3, y: row + 1.3, align: 'R'}}})
+		k.dimH(v.X(0), v.Y(0), v.X(s.cx), v.Y(b.centreY), row, mm3(s.cx), false)
+		k.dimH(v.X(s.cx), v.Y(b.centreY), v.X(b.w), v.Y(0), row, mm3(b.w-s.cx), false)
 	}
 	row += dimRowGap
+	k.group()
 	caption("board", row)
-	dimH(f, v.X(0), v.Y(0), v.X(b.w), v.Y(0), row, mm3(b.w), false)
-	dimV(f, v.X(b.w), v.Y(0), v.X(b.w), v.Y(b.h), v.X(b.w)+heightDimOff, mm3(b.h), true)
+	k.dimH(v.X(0), v.Y(0), v.X(b.w), v.Y(0), row, mm3(b.w), false)
+	k.dimV(v.X(b.w), v.Y(0), v.X(b.w), v.Y(b.h), v.X(b.w)+heightDimOff, mm3(b.h), true)
 }
 
 // widthDimX is the x at which a segment's width is dimensioned: its

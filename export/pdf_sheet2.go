@@ -168,7 +168,7 @@ func (d *doc) stackup(x, y, w, h float64) {
 	}
 	layers = append(layers, layer{yy + diel/2, diel, fmt.Sprintf("dielectric: h = %s mm, εr = %.2f%s, tan δ = %.4f", mm3(st.ThicknessMM), st.Er, erAt, st.LossTangent)})
 	// Thickness dimension on the dielectric.
-	dimV(f, bx, yy, bx, yy+diel, bx+3.5, "h", true)
+	(&ink{f: f}).dimV(bx, yy, bx, yy+diel, bx+3.5, "h", true)
 	yy += diel
 	setFill(f, colCopper)
 	f.Rect(bx, yy, bw, cu, "F")

@@ -1,0 +1,394 @@
+package main
+
+import (
+	"bytes"
+	"compress/zlib"
+	"encoding/xml"
+	"io"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"golang.org/x/image/font"
+	"golang.org/x/image/font/gofont/goregular"
+	"golang.org/x/image/font/sfnt"
+	"golang.org/x/image/math/fixed"
+)
+
+// drawingMatrix is the set of builds whose drawings are checked for
+// readability: line widths from 0.2 to 3 mm, boards from a few mm at
+// 5.8 GHz to a 433 MHz board drawn scaled and tiled, bent, shorted and
+// coplanar stubs, and a hand-worked double stub.
+func drawingMatrix() []struct {
+	name string
+	args []string
+} {
+	td := filepath.Join("..", "..", "testdata")
+	return []struct {
+		name string
+		args []string
+	}{
+		{"demo", nil},
+		{"flex-thin", []string{filepath.Join(td, "drawing", "flex-thin.toml")}},
+		{"wifi-5g8", []string{filepath.Join(td, "drawing", "wifi-5g8.toml")}},
+		{"ism-433-scaled", []string{filepath.Join(td, "drawing", "ism-433.toml")}},
+		{"ism-433-tiled", []string{filepath.Join(td, "drawing", "ism-433.toml"), "--fit", "tile"}},
+		{"shorted-stub", []string{filepath.Join(td, "drawing", "shorted-stub.toml")}},
+		{"bent-stub", []string{filepath.Join(td, "designs", "compact-bent-stub.toml")}},
+		{"coplanar", []string{filepath.Join(td, "designs", "gcpw-probe.toml")}},
+		{"double-stub", []string{filepath.Join(td, "designs", "double-stub-sections.toml")}},
+	}
+}
+
+// pdfWord is a word as poppler reads it: its box in points, y down.
+type pdfWord struct {
+	text                   string
+	xMin, yMin, xMax, yMax float64
+}
+
+var (
+	pageRe = regexp.MustCompile(`<page width="([\d.]+)" height="([\d.]+)">`)
+	wordRe = regexp.MustCompile(`<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">([^<]*)</word>`)
+)
+
+// pdfWords runs poppler's pdftotext -bbox-layout on path and returns the
+// words of every page and the page heights in points.
+func pdfWords(t *testing.T, path string) ([][]pdfWord, []float64) {
+	t.Helper()
+	tool, err := exec.LookPath("pdftotext")
+	if err != nil {
+		t.Skipf("pdftotext (Debian poppler-utils) is not installed: %v", err)
+	}
+	out, err := exec.Command(tool, "-bbox-layout", path, "-").Output()
+	if err != nil {
+		t.Fatalf("pdftotext %s: %v", path, err)
+	}
+	var pages [][]pdfWord
+	var heights []float64
+	for _, chunk := range strings.Split(string(out), "</page>") {
+		m := pageRe.FindStringSubmatch(chunk)
+		if m == nil {
+			continue
+		}
+		h, _ := strconv.ParseFloat(m[2], 64)
+		heights = append(heights, h)
+		var ws []pdfWord
+		for _, w := range wordRe.FindAllStringSubmatch(chunk, -1) {
+			f := func(s string) float64 { v, _ := strconv.ParseFloat(s, 64); return v }
+			ws = append(ws, pdfWord{strings.TrimSpace(w[5]), f(w[1]), f(w[2]), f(w[3]), f(w[4])})
+		}
+		pages = append(pages, ws)
+	}
+	return pages, heights
+}
+
+// overlapArea is the area two word boxes share, points².
+func overlapArea(a, b pdfWord) float64 {
+	w := math.Min(a.xMax, b.xMax) - math.Max(a.xMin, b.xMin)
+	h := math.Min(a.yMax, b.yMax) - math.Max(a.yMin, b.yMin)
+	if w <= 0 || h <= 0 {
+		return 0
+	}
+	return w * h
+}
+
+// pagesContent returns the decompressed content stream of every page, in
+// order (gofpdf writes one stream per page, before the fonts' streams).
+func pagesContent(t *testing.T, pdf []byte, n int) []string {
+	t.Helper()
+	re := regexp.MustCompile(`(?s)/Filter /FlateDecode /Length \d+>>\nstream\n(.*?)\nendstream`)
+	var out []string
+	for _, m := range re.FindAllSubmatch(pdf, -1) {
+		zr, err := zlib.NewReader(bytes.NewReader(m[1]))
+		if err != nil {
+			continue
+		}
+		b, err := io.ReadAll(zr)
+		if err != nil {
+			continue
+		}
+		if strings.Contains(string(b), " Tf") || strings.Contains(string(b), " re") {
+			out = append(out, string(b))
+		}
+		if len(out) == n {
+			break
+		}
+	}
+	return out
+}
+
+// copperPaths returns the outlines drawn inside /Copper BMC … EMC in a
+// page's content stream, in poppler's coordinates (points, y down from the
+// top of a page of height h). A path with curves (a pad) is returned as
+// its control points' bounding box.
+func copperPaths(content string, h float64) [][][2]float64 {
+	var paths [][][2]float64
+	for _, blk := range regexp.MustCompile(`(?s)/Copper BMC\n(.*?)EMC`).FindAllStringSubmatch(content, -1) {
+		var cur [][2]float64
+		curved := false
+		var nums []float64
+		flush := func() {
+			if len(cur) > 2 {
+				if curved {
+					lo, hi := [2]float64{math.Inf(1), math.Inf(1)}, [2]float64{math.Inf(-1), math.Inf(-1)}
+					for _, p := range cur {
+						lo = [2]float64{math.Min(lo[0], p[0]), math.Min(lo[1], p[1])}
+						hi = [2]float64{math.Max(hi[0], p[0]), math.Max(hi[1], p[1])}
+					}
+					cur = [][2]float64{lo, {hi[0], lo[1]}, hi, {lo[0], hi[1]}}
+				}
+				paths = append(paths, cur)
+			}
+			cur, curved = nil, false
+		}
+		for _, tok := range strings.Fields(blk[1]) {
+			if v, err := strconv.ParseFloat(tok, 64); err == nil {
+				nums = append(nums, v)
+				continue
+			}
+			switch tok {
+			case "m":
+				flush()
+				fallthrough
+			case "l", "c":
+				for i := 0; i+1 < len(nums); i += 2 {
+					cur = append(cur, [2]float64{nums[i], h - nums[i+1]})
+				}
+				curved = curved || tok == "c"
+			case "h":
+			default:
+				flush()
+			}
+			nums = nil
+		}
+		flush()
+	}
+	return paths
+}
+
+// wordOnPolygon reports whether the word's box (shrunk by a hair) and the
+// polygon share area: a polygon vertex inside the box, the box's centre
+// inside the polygon, or an edge through the box.
+func wordOnPolygon(w pdfWord, poly [][2]float64) bool {
+	const hair = 0.3
+	x0, y0, x1, y1 := w.xMin+hair, w.yMin+hair, w.xMax-hair, w.yMax-hair
+	in := func(x, y float64) bool { return x > x0 && x < x1 && y > y0 && y < y1 }
+	inside := false
+	cx, cy := (x0+x1)/2, (y0+y1)/2
+	for i, j := 0, len(poly)-1; i < len(poly); j, i = i, i+1 {
+		a, b := poly[i], poly[j]
+		if in(a[0], a[1]) {
+			return true
+		}
+		if (a[1] > cy) != (b[1] > cy) && cx < (b[0]-a[0])*(cy-a[1])/(b[1]-a[1])+a[0] {
+			inside = !inside
+		}
+		// Sample the edge: copper edges are long and straight, a few
+		// hundred samples find any crossing of a word box.
+		for k := 1; k < 200; k++ {
+			s := float64(k) / 200
+			if in(a[0]+s*(b[0]-a[0]), a[1]+s*(b[1]-a[1])) {
+				return true
+			}
+		}
+	}
+	return inside
+}
+
+// runTogether matches a word made of two dimension values printed with no
+// gap between them ("5.0007.326").
+var runTogether = regexp.MustCompile(`\d\.\d{3}\d*\.\d`)
+
+// TestDrawingMatrix builds each design of the matrix once and checks, with
+// poppler's word boxes, that on every page of the drawing no two words
+// overlap, no word runs into another value, and no word lies over copper.
+func TestDrawingMatrix(t *testing.T) {
+	if _, err := exec.LookPath("pdftotext"); err != nil {
+		t.Skipf("pdftotext (Debian poppler-utils) is not installed: %v", err)
+	}
+	t.Setenv("SOURCE_DATE_EPOCH", "1767225600")
+	for _, m := range drawingMatrix() {
+		t.Run(m.name, func(t *testing.T) {
+			t.Parallel()
+			dir := filepath.Join(t.TempDir(), "out")
+			argv := append([]string{"build"}, m.args...)
+			argv = append(argv, "-o", dir, "--samples", "20", "--accept-mismatch")
+			if out, err := runRoot(t, argv...); err != nil {
+				t.Fatalf("%v\n%s", err, out)
+			}
+			path := filepath.Join(dir, "drawing.pdf")
+			pages, heights := pdfWords(t, path)
+			raw, err := os.ReadFile(path)
+			if err != nil {
+				t.Fatal(err)
+			}
+			contents := pagesContent(t, raw, len(pages))
+			for p, words := range pages {
+				for i := range words {
+					if runTogether.MatchString(words[i].text) {
+						t.Errorf("page %d: values run together: %q", p+1, words[i].text)
+					}
+					for j := i + 1; j < len(words); j++ {
+						if a := overlapArea(words[i], words[j]); a > 0.5 {
+							t.Errorf("page %d: %q and %q overlap (%.1f pt²)", p+1, words[i].text, words[j].text, a)
+						}
+					}
+				}
+				if p >= len(contents) {
+					t.Fatalf("page %d: no content stream found", p+1)
+				}
+				copper := copperPaths(contents[p], heights[p])
+				if p == 0 && len(copper) == 0 {
+					t.Fatalf("page 1: no copper found in the content stream")
+				}
+				for _, poly := range copper {
+					for _, w := range words {
+						if wordOnPolygon(w, poly) {
+							t.Errorf("page %d: %q lies over copper", p+1, w.text)
+						}
+					}
+				}
+			}
+			checkSVGText(t, filepath.Join(dir, "layout.svg"))
+			if os.Getenv("STUBCRAFT_DRAWING_DIR") != "" {
+				_ = os.WriteFile(filepath.Join(os.Getenv("STUBCRAFT_DRAWING_DIR"), m.name+".pdf"), raw, 0o644)
+			}
+		})
+	}
+}
+
+// svgText is a text element of layout.svg with the font size in force.
+type svgText struct {
+	X, Y   float64
+	Anchor string
+	Size   float64
+	Text   string
+}
+
+// svgContent reads the text elements (font-size inherited from the
+// enclosing groups) and the copper outlines (paths with id copper-N, pad
+// circles) of layout.svg.
+func svgContent(t *testing.T, path string) ([]svgText, [][][2]float64) {
+	t.Helper()
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	dec := xml.NewDecoder(bytes.NewReader(data))
+	var texts []svgText
+	var copper [][][2]float64
+	sizes := []float64{16}
+	attr := func(e xml.StartElement, name string) string {
+		for _, a := range e.Attr {
+			if a.Name.Local == name {
+				return a.Value
+			}
+		}
+		return ""
+	}
+	num := func(s string) float64 { v, _ := strconv.ParseFloat(s, 64); return v }
+	var cur *svgText
+	for {
+		tok, err := dec.Token()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			t.Fatalf("layout.svg: %v", err)
+		}
+		switch e := tok.(type) {
+		case xml.StartElement:
+			size := sizes[len(sizes)-1]
+			if v := attr(e, "font-size"); v != "" {
+				size = num(v)
+			}
+			sizes = append(sizes, size)
+			switch {
+			case e.Name.Local == "text":
+				cur = &svgText{X: num(attr(e, "x")), Y: num(attr(e, "y")), Anchor: attr(e, "text-anchor"), Size: size}
+			case e.Name.Local == "path" && strings.HasPrefix(attr(e, "id"), "copper-"):
+				var poly [][2]float64
+				f := strings.FieldsFunc(attr(e, "d"), func(r rune) bool { return r == 'M' || r == 'L' || r == 'Z' || r == ' ' })
+				for i := 0; i+1 < len(f); i += 2 {
+					poly = append(poly, [2]float64{num(f[i]), num(f[i+1])})
+				}
+				copper = append(copper, poly)
+			case e.Name.Local == "circle" && attr(e, "class") == "pad":
+				x, y, r := num(attr(e, "cx")), num(attr(e, "cy")), num(attr(e, "r"))
+				copper = append(copper, [][2]float64{{x - r, y - r}, {x + r, y - r}, {x + r, y + r}, {x - r, y + r}})
+			}
+		case xml.CharData:
+			if cur != nil {
+				cur.Text += string(e)
+			}
+		case xml.EndElement:
+			sizes = sizes[:len(sizes)-1]
+			if e.Name.Local == "text" && cur != nil {
+				texts = append(texts, *cur)
+				cur = nil
+			}
+		}
+	}
+	return texts, copper
+}
+
+// checkSVGText checks that no two text elements of layout.svg overlap and
+// none lies over copper, with each text's box from the metrics of the Go
+// Regular font the SVG names (advance widths; ascent 0.9, descent 0.2 em).
+func checkSVGText(t *testing.T, path string) {
+	t.Helper()
+	texts, copper := svgContent(t, path)
+	if len(texts) == 0 || len(copper) == 0 {
+		t.Fatalf("layout.svg: %d texts, %d copper shapes", len(texts), len(copper))
+	}
+	fnt, err := sfnt.Parse(goregular.TTF)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf sfnt.Buffer
+	upem := fnt.UnitsPerEm()
+	var boxes []pdfWord
+	for _, tx := range texts {
+		w := 0.0
+		for _, r := range tx.Text {
+			g, err := fnt.GlyphIndex(&buf, r)
+			if err != nil {
+				t.Fatal(err)
+			}
+			adv, err := fnt.GlyphAdvance(&buf, g, fixed.I(int(upem)), font.HintingNone)
+			if err != nil {
+				t.Fatal(err)
+			}
+			w += float64(adv) / 64 / float64(upem) * tx.Size
+		}
+		x := tx.X
+		switch tx.Anchor {
+		case "middle":
+			x -= w / 2
+		case "end":
+			x -= w
+		}
+		boxes = append(boxes, pdfWord{tx.Text, x, tx.Y - 0.9*tx.Size, x + w, tx.Y + 0.2*tx.Size})
+	}
+	for i := range boxes {
+		for j := i + 1; j < len(boxes); j++ {
+			if a := overlapArea(boxes[i], boxes[j]); a > 0.01 {
+				t.Errorf("layout.svg: %q and %q overlap (%.2f mm²)", boxes[i].text, boxes[j].text, a)
+			}
+		}
+		for _, poly := range copper {
+			// wordOnPolygon shrinks the box by 0.3 (points on a page); in
+			// millimetres grow it back to a hair of 0.05.
+			b := boxes[i]
+			b.xMin, b.yMin, b.xMax, b.yMax = b.xMin-0.25, b.yMin-0.25, b.xMax+0.25, b.yMax+0.25
+			if wordOnPolygon(b, poly) {
+				t.Errorf("layout.svg: %q lies over copper", boxes[i].text)
+			}
+		}
+	}
+}
