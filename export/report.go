@@ -9,37 +9,39 @@ import (
 
 	"stubcraft/physical"
 	"stubcraft/synth"
+	"stubcraft/synth/tune"
 )
 
 // Report is the machine-readable account of a build, written as
 // report.json. Every key carries its unit.
 type Report struct {
-	Tool            string           `json:"tool"`
-	Version         string           `json:"version"`
-	Name            string           `json:"name"`
-	FrequencyHz     float64          `json:"frequency_hz"`
-	Z0Ohm           float64          `json:"z0_ohm"`
-	Model           string           `json:"line_model"`
-	Stackup         ReportStackup    `json:"stackup"`
-	Load            ReportLoad       `json:"load"`
-	Electrical      []ReportSection  `json:"electrical"`
-	Elements        []ReportElement  `json:"elements"`
-	StubFromLoadMM  []float64        `json:"stub_from_load_port_mm"`
-	S11DBF0         float64          `json:"s11_db_f0"`
-	S11DBF0Uncorr   float64          `json:"s11_db_f0_uncorrected"`
-	Recentring      ReportRecentring `json:"recentring"`
-	ReturnLossDBF0  float64          `json:"return_loss_db_f0"`
-	VSWRF0          float64          `json:"vswr_f0"`
-	NetworkLossDBF0 float64          `json:"network_loss_db_f0"`
-	Bandwidth10DBHz float64          `json:"bandwidth_10db_hz"`
-	Band10DBHz      [2]float64       `json:"band_10db_hz"`
-	Bandwidth20DBHz float64          `json:"bandwidth_20db_hz"`
-	Band20DBHz      [2]float64       `json:"band_20db_hz"`
-	Sweep           ReportSweep      `json:"sweep"`
-	Tolerance       *ReportTolerance `json:"tolerance,omitempty"`
-	Notes           []string         `json:"notes"`
-	Warnings        []string         `json:"warnings"`
-	Cautions        []string         `json:"cautions"`
+	Tool            string              `json:"tool"`
+	Version         string              `json:"version"`
+	Name            string              `json:"name"`
+	FrequencyHz     float64             `json:"frequency_hz"`
+	Z0Ohm           float64             `json:"z0_ohm"`
+	Model           string              `json:"line_model"`
+	Stackup         ReportStackup       `json:"stackup"`
+	Load            ReportLoad          `json:"load"`
+	Electrical      []ReportSection     `json:"electrical"`
+	Elements        []ReportElement     `json:"elements"`
+	StubFromLoadMM  []float64           `json:"stub_from_load_port_mm"`
+	S11DBF0         float64             `json:"s11_db_f0"`
+	S11DBF0Uncorr   float64             `json:"s11_db_f0_uncorrected"`
+	Recentring      ReportRecentring    `json:"recentring"`
+	ReturnLossDBF0  float64             `json:"return_loss_db_f0"`
+	VSWRF0          float64             `json:"vswr_f0"`
+	NetworkLossDBF0 float64             `json:"network_loss_db_f0"`
+	Bandwidth10DBHz float64             `json:"bandwidth_10db_hz"`
+	Band10DBHz      [2]float64          `json:"band_10db_hz"`
+	Bandwidth20DBHz float64             `json:"bandwidth_20db_hz"`
+	Band20DBHz      [2]float64          `json:"band_20db_hz"`
+	Sweep           ReportSweep         `json:"sweep"`
+	Tolerance       *ReportTolerance    `json:"tolerance,omitempty"`
+	Sensitivity     []ReportSensitivity `json:"sensitivity"`
+	Notes           []string            `json:"notes"`
+	Warnings        []string            `json:"warnings"`
+	Cautions        []string            `json:"cautions"`
 }
 
 // ReportStackup holds the values of the stackup used.
@@ -116,6 +118,35 @@ type ReportSweep struct {
 	S11Im  []float64 `json:"s11_im"`
 	LoadRe []float64 `json:"load_gamma_re"`
 	LoadIm []float64 `json:"load_gamma_im"`
+}
+
+// ReportSensitivity says how the match moves for one step of one
+// quantity: an element's drawn length (+0.1 mm) or width (+10 µm), or the
+// board's εr (+1 %) or etch (+10 µm removed per edge).
+type ReportSensitivity struct {
+	ID       string `json:"id"`
+	Quantity string `json:"quantity"`
+	// Step is the perturbation in words with its unit, e.g. "+0.1 mm".
+	Step string `json:"step"`
+	// BestMatchShiftMHz is the move of the best-match frequency per step.
+	BestMatchShiftMHz float64 `json:"best_match_shift_mhz_per_step"`
+	// S11DBF0AfterStep is |S11| at f0 after one step, to first order.
+	S11DBF0AfterStep float64 `json:"s11_db_f0_after_step"`
+}
+
+// SensitivityStep says a quantity's step in words, with its unit.
+func SensitivityStep(q tune.Quantity) string {
+	switch q {
+	case tune.Length:
+		return fmt.Sprintf("+%g mm", tune.LengthStep*1e3)
+	case tune.Width:
+		return fmt.Sprintf("+%g µm", tune.WidthStep*1e6)
+	case tune.Er:
+		return fmt.Sprintf("+%g %% εr", tune.ErStep*100)
+	case tune.Etch:
+		return fmt.Sprintf("+%g µm etch per edge", tune.EtchStep*1e6)
+	}
+	return q.String()
 }
 
 // ReportTolerance is the Monte Carlo summary.
@@ -218,6 +249,11 @@ func NewReport(r *synth.Result, version string) Report {
 		gl := physical.Reflection(sw.ZLoad[i], d.Z0)
 		rep.Sweep.LoadRe = append(rep.Sweep.LoadRe, real(gl))
 		rep.Sweep.LoadIm = append(rep.Sweep.LoadIm, imag(gl))
+	}
+	rep.Sensitivity = []ReportSensitivity{}
+	for _, x := range r.Sensitivity {
+		rep.Sensitivity = append(rep.Sensitivity, ReportSensitivity{ID: x.ID, Quantity: x.Quantity.String(), Step: SensitivityStep(x.Quantity),
+			BestMatchShiftMHz: x.BestMatchShift / 1e6, S11DBF0AfterStep: synth.S11DB(x.S11F0)})
 	}
 	if t := r.Tolerance; t != nil {
 		rep.Tolerance = &ReportTolerance{Samples: t.Spec.Samples, Seed: t.Spec.Seed, ErRel: t.Spec.Er,

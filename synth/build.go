@@ -11,6 +11,7 @@ import (
 	"stubcraft/physical"
 	"stubcraft/stackups"
 	"stubcraft/synth/geom"
+	"stubcraft/synth/tune"
 )
 
 // Load is the impedance to be matched, as a function of frequency.
@@ -76,6 +77,12 @@ type Result struct {
 	Tolerance *Tolerance
 	// Layout is the board geometry; Build fills it, Simulate does not.
 	Layout geom.Layout
+	// Sensitivity says how the best match and S11 at f0 move per step of
+	// each element's length and width and of the board's εr and etch.
+	Sensitivity []tune.Sensitivity
+
+	load       Load               // the load, for the bench model
+	benchLines physical.LineMaker // line models of perturbed boards
 }
 
 // Band is a contiguous frequency range around f0.
@@ -216,11 +223,15 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	if err := r.sweep(sim, in.Load); err != nil {
 		return nil, err
 	}
+	tmk, err := ToleranceMaker(r.Physical.Board, mk, UsesFieldSolver(sizing), f0)
+	if err != nil {
+		return nil, err
+	}
+	r.load, r.benchLines = in.Load, tmk
+	if err := r.sensitivities(ctx); err != nil {
+		return nil, err
+	}
 	if !in.SkipTolerance && d.Tolerance.Samples > 0 {
-		tmk, err := ToleranceMaker(r.Physical.Board, mk, UsesFieldSolver(sizing), f0)
-		if err != nil {
-			return nil, err
-		}
 		t, err := Analyse(ctx, r.Physical.Board, sub, tmk, zl, f0, z0, d.Tolerance)
 		if err != nil {
 			return nil, err

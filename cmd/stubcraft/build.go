@@ -160,6 +160,9 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 		fmt.Fprintf(w, "tolerance (%d boards, seed %d): |S11| at f0 median %.1f dB, 90th percentile %.1f dB, yield below %.0f dB %.1f %%\n",
 			t.Samples, t.Seed, t.P50S11DB, t.P90S11DB, t.YieldBelowDB, 100*t.Yield)
 	}
+	if err := printSensitivity(w, rep.Sensitivity); err != nil {
+		return err
+	}
 	for _, n := range rep.Notes {
 		fmt.Fprintln(w, "note:", n)
 	}
@@ -168,4 +171,19 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 	}
 	fmt.Fprintf(w, "\nwrote %d files to %s\n\n%s", len(files), dir, cautionText())
 	return nil
+}
+
+// printSensitivity writes the sensitivity table: what one step of each
+// quantity does to the best match and to |S11| at f0.
+func printSensitivity(w io.Writer, sens []export.ReportSensitivity) error {
+	if len(sens) == 0 {
+		return nil
+	}
+	fmt.Fprintln(w, "\nsensitivity (per step; for the bench):")
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "element\tstep\tbest match (MHz)\t|S11| at f0 after (dB)\t")
+	for _, s := range sens {
+		fmt.Fprintf(tw, "%s\t%s\t%+.2f\t%s\t\n", s.ID, s.Step, s.BestMatchShiftMHz, export.ModelDB(s.S11DBF0AfterStep))
+	}
+	return tw.Flush()
 }
