@@ -109,6 +109,9 @@ type LayoutSpec struct {
 	MaxBoard   [2]float64 // largest board, width and height, m; zero: no limit
 	ViaDrill   float64    // drill of the via of a shorted stub, m
 	ViaPad     float64    // pad around that via, m
+	// EdgeClearance is the copper pull-back from the routed outline, m:
+	// everything but the signal line at the port edges keeps it.
+	EdgeClearance float64
 }
 
 // FabSpec holds the board maker's limits.
@@ -138,9 +141,15 @@ type ToleranceSpec struct {
 // Defaults of the optional tables (common practice, no source: values a
 // small board house commonly quotes).
 
+// DefaultEdgeClearance is the copper pull-back from the routed edge: board
+// houses commonly pull copper back 0.2–0.25 mm by default, so 0.3 mm
+// leaves them nothing to trim (common practice, no source).
+const DefaultEdgeClearance = 0.3e-3
+
 // DefaultLayout returns the layout used when a design file has none.
 func DefaultLayout() LayoutSpec {
-	return LayoutSpec{FeedLength: 5e-3, StubSide: "up", Margin: 5e-3, Mask: MaskAuto, ViaDrill: 0.3e-3, ViaPad: 0.6e-3}
+	return LayoutSpec{FeedLength: 5e-3, StubSide: "up", Margin: 5e-3, Mask: MaskAuto, ViaDrill: 0.3e-3, ViaPad: 0.6e-3,
+		EdgeClearance: DefaultEdgeClearance}
 }
 
 // DefaultFab returns the board maker's limits used when a design file

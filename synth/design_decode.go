@@ -60,6 +60,7 @@ type designRawLayout struct {
 	MaxBoard   any `toml:"max_board"`
 	ViaDrill   any `toml:"via_drill"`
 	ViaPad     any `toml:"via_pad"`
+	EdgeClear  any `toml:"edge_clearance"`
 }
 
 type designRawFab struct {
@@ -237,6 +238,7 @@ func (dd *designDecoder) design(raw *designRaw, dir string) Design {
 		designRead(dd, "layout.max_board", l.MaxBoard, designBoardSize, &d.Layout.MaxBoard, "")
 		designRead(dd, "layout.via_drill", l.ViaDrill, designLength, &d.Layout.ViaDrill, "")
 		designRead(dd, "layout.via_pad", l.ViaPad, designLength, &d.Layout.ViaPad, "")
+		designRead(dd, "layout.edge_clearance", l.EdgeClear, designLength, &d.Layout.EdgeClearance, "")
 	}
 	d.Fab = DefaultFab()
 	if f := raw.Fab; f != nil {

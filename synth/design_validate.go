@@ -163,6 +163,11 @@ func (c *designCheck) checkLayout(l LayoutSpec) {
 	if !(l.Margin >= 0) || !designFinite(l.Margin) {
 		c.fail("layout.margin", designMM(l.Margin), "the margin must not be negative")
 	}
+	if !(l.EdgeClearance >= 0) || !designFinite(l.EdgeClearance) || l.EdgeClearance > 5e-3 {
+		c.fail("layout.edge_clearance", designMM(l.EdgeClearance), "the copper pull-back from the routed edge must be 0–5 mm")
+	} else if l.Margin < l.EdgeClearance {
+		c.fail("layout.margin", designMM(l.Margin), "the margin must be at least the edge clearance %s", designMM(l.EdgeClearance))
+	}
 	if l.Mask != MaskAuto && l.Mask != MaskOpen && l.Mask != MaskCover {
 		c.fail("layout.mask", strconv.Quote(l.Mask), "use auto (follow the stackup's [mask]), open (a window over the RF copper) or cover")
 	}

@@ -32,6 +32,7 @@ func (r *Result) GeomSpec() geom.Spec {
 	s := geom.Spec{
 		Name:          d.Name,
 		Margin:        d.Layout.Margin,
+		EdgeClearance: d.Layout.EdgeClearance,
 		MaxBoard:      d.Layout.MaxBoard,
 		Height:        r.Stackup.Dielectric.Thickness,
 		Er:            r.Stackup.Dielectric.Er,

@@ -134,10 +134,13 @@ func Build(s Spec) (Layout, error) {
 		return r
 	}
 	board := Rect{Point{0, 0}, Point{boardX, boardY}}
+	// inner is the board pulled back by the edge clearance: all copper
+	// but the signal line at the two port edges stays inside it.
+	inner := board.Inset(-Nanometres(s.EdgeClearance))
 	l := Layout{
 		Name:   s.Name,
 		Board:  board.Polygon(),
-		Ground: board.Polygon(),
+		Ground: inner.Polygon(),
 	}
 	l.Marks.CentreY = yc
 	l.Marks.Ports = [2]Point{{0, yc}, {boardX, yc}}
@@ -205,7 +208,7 @@ func Build(s Spec) (Layout, error) {
 	mask = append(mask, padRects...)
 	keep = append(keep, padRects...)
 	if hasPour {
-		if err := l.addCoplanar(s, mask, board, cpw); err != nil {
+		if err := l.addCoplanar(s, mask, inner, cpw); err != nil {
 			return Layout{}, err
 		}
 	}
@@ -327,6 +330,13 @@ func check(s Spec) error {
 	}
 	if err := nonNeg("Margin", s.Margin); err != nil {
 		return err
+	}
+	if err := nonNeg("EdgeClearance", s.EdgeClearance); err != nil {
+		return err
+	}
+	if Nanometres(s.Margin) < Nanometres(s.EdgeClearance) {
+		return specErr("Margin", ErrRange, "%s mm is less than the edge clearance %s mm: the stubs' copper would come closer to the routed edge",
+			mm(Nanometres(s.Margin)), mm(Nanometres(s.EdgeClearance)))
 	}
 	if err := nonNeg("MaxBoard[0]", s.MaxBoard[0]); err != nil {
 		return err

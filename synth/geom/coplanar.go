@@ -105,7 +105,8 @@ func coplanarRule(s Spec) (r stitchRule, ok bool, err error) {
 	return r, true, nil
 }
 
-// addCoplanar draws the grounded-coplanar pour of l: the board minus the
+// addCoplanar draws the grounded-coplanar pour of l: board (the board
+// pulled back by the edge clearance) minus the
 // RF copper rf (line, stubs, port pads and the bounding squares of the via
 // pads) grown by the gap, as one GND net per piece, and the stitching vias
 // along the pour's edges that face the RF copper. A round via pad keeps

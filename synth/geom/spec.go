@@ -14,6 +14,12 @@ type Spec struct {
 	// Margin is the board margin around the copper in ±y. In x the through
 	// line's ends touch the board edge (edge launch).
 	Margin float64
+	// EdgeClearance is the pull-back of copper from the routed outline:
+	// the ground plane, a coplanar pour and its stitching vias stay this
+	// far inside the board, and Margin may not be less. Only the signal
+	// line (and its port pads) reaches the board edge at the two ports,
+	// for an edge-launch connector. 0: no pull-back.
+	EdgeClearance float64
 	// MaxBoard is an optional board size limit (x, y); 0 means unlimited.
 	// A stub whose straight copper would make the board taller than
 	// MaxBoard[1] is laid out as a mitred L (see Bend); the board is never
