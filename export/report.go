@@ -96,6 +96,7 @@ type ReportElement struct {
 	OpenEndMM     float64 `json:"open_end_mm"`
 	TeeMM         float64 `json:"tee_mm"`
 	StepMM        float64 `json:"step_mm,omitempty"`
+	TrimMM        float64 `json:"trim_mm,omitempty"`
 	ViaMM         float64 `json:"via_mm"`
 	RecentreMM    float64 `json:"recentre_mm"`
 	DrawnLengthMM float64 `json:"drawn_length_mm"`
@@ -223,7 +224,7 @@ func NewReport(r *synth.Result, version string) Report {
 	for _, e := range els {
 		re := ReportElement{ID: e.ID, Role: string(e.Role), Feed: e.Role == synth.RoleFeed, Z0Ohm: e.Z0, Z0F0Ohm: e.Params.Z0, EpsEffF0: e.Params.EpsEff,
 			WidthMM: e.Width * 1e3, ElectricalDeg: e.ElectricalDeg, LineLengthMM: e.LineLength * 1e3,
-			OpenEndMM: e.OpenEnd * 1e3, TeeMM: e.Tee * 1e3, StepMM: e.Step * 1e3, ViaMM: e.Via * 1e3, RecentreMM: e.Recentre * 1e3,
+			OpenEndMM: e.OpenEnd * 1e3, TeeMM: e.Tee * 1e3, StepMM: e.Step * 1e3, ViaMM: e.Via * 1e3, RecentreMM: e.Recentre * 1e3, TrimMM: e.Trim * 1e3,
 			DrawnLengthMM: e.DrawnLength * 1e3}
 		if re.Feed {
 			re.Role = string(synth.RoleLine)

@@ -2,8 +2,11 @@ package synth
 
 import (
 	"context"
+	"errors"
 	"fmt"
+	"math/cmplx"
 
+	"stubcraft/synth/geom"
 	"stubcraft/synth/tune"
 )
 
@@ -52,4 +55,82 @@ func (r *Result) sensitivities(ctx context.Context) error {
 	}
 	r.Sensitivity = s
 	return nil
+}
+
+// TuneOptions choose what Tune fits.
+type TuneOptions struct {
+	// FitLoad also fits a real scale of the load impedance.
+	FitLoad bool
+}
+
+// TuneResult is the bench loop's answer for one measured board.
+type TuneResult struct {
+	Fit tune.FitResult
+	// MeasuredBestMatch is the frequency of the least measured |S11|, Hz.
+	MeasuredBestMatch float64
+	Trims             tune.TrimResult
+}
+
+// Tune fits the board state (εr, etch, optionally the load) that explains
+// a measured S11 of this build's etched board, and finds the cuts of its
+// open stubs that bring the best match back to f0. A measurement that
+// misses f0 is a *tune.CoverageError, one no board state explains a
+// *tune.ResidualError; neither gives trims.
+func (r *Result) Tune(ctx context.Context, meas tune.Measurement, opt TuneOptions) (*TuneResult, error) {
+	m := r.BenchModel()
+	fit, err := m.Fit(ctx, meas, tune.FitOptions{FitLoad: opt.FitLoad})
+	if err != nil {
+		return nil, err
+	}
+	out := &TuneResult{Fit: fit}
+	best := 0
+	for i, g := range meas.S11 {
+		if cmplx.Abs(g) < cmplx.Abs(meas.S11[best]) {
+			best = i
+		}
+	}
+	out.MeasuredBestMatch = meas.Freqs[best]
+	lo, hi := meas.Freqs[0], meas.Freqs[len(meas.Freqs)-1]
+	out.Trims, err = m.Trims(ctx, fit.State, lo, hi)
+	if err != nil && !errors.Is(err, tune.ErrNoSolution) {
+		return nil, err
+	}
+	if err != nil {
+		out.Trims.Notes = append(out.Trims.Notes, err.Error())
+	}
+	return out, nil
+}
+
+// Trimmed returns a copy of the build with its open stubs cut as trims
+// say, its geometry laid out again: the drawing of the trimmed board.
+func (r *Result) Trimmed(trims []tune.Trim) (*Result, error) {
+	q := *r
+	q.Physical.Elements = append([]Element(nil), r.Physical.Elements...)
+	q.Notes = append([]string(nil), r.Notes...)
+	for _, t := range trims {
+		found := false
+		for i := range q.Physical.Elements {
+			e := &q.Physical.Elements[i]
+			if e.ID != t.ID || e.Role != RoleStub {
+				continue
+			}
+			found = true
+			if e.DrawnLength-t.Cut <= 0 {
+				return nil, fmt.Errorf("trim of %s: cutting %.3f mm leaves nothing of its %.3f mm", t.ID, t.Cut*1e3, e.DrawnLength*1e3)
+			}
+			e.Trim -= t.Cut
+			e.DrawnLength -= t.Cut
+			q.Notes = append(q.Notes, fmt.Sprintf("%s trimmed by %.3f mm at the bench (trim_mm)", t.ID, t.Cut*1e3))
+		}
+		if !found {
+			return nil, fmt.Errorf("trim of %s: no such stub", t.ID)
+		}
+	}
+	q.Physical.Board = q.Physical.board(r.Physical.Board.Sub, r.Physical.Board.Via)
+	lay, err := geom.Build(q.GeomSpec())
+	if err != nil {
+		return nil, fmt.Errorf("trimmed layout: %w", err)
+	}
+	q.Layout = lay
+	return &q, nil
 }

@@ -21,7 +21,7 @@ const (
 // Element is one line of the physical network, with what was done to its
 // length. Lengths are metres; the corrections are signed changes, so
 //
-//	DrawnLength = LineLength + OpenEnd + Tee + Via + Step + Recentre.
+//	DrawnLength = LineLength + OpenEnd + Tee + Via + Step + Recentre + Trim.
 //
 // A through element's drawn length runs along the centre line between its
 // ends (a port edge or a tee's centre line); a stub's runs from the through
@@ -39,6 +39,7 @@ type Element struct {
 	Via           float64 // via-inductance compensation (Goldfarb-Pucel), m
 	Step          float64 // width-step compensation (Gupta, Garg, Bahl and Bhartia), m
 	Recentre      float64 // change made by the re-centring optimiser, m
+	Trim          float64 // cut made at the bench (negative: shorter), m; zero in a build
 	DrawnLength   float64 // the copper drawn, m
 	At            int     // stubs: index of the through element on the load side of the tee
 	Params        physical.LineParams

@@ -32,6 +32,28 @@ type FitOptions struct {
 // different network gives.
 const MaxResidualDB = 1.5
 
+// The plausible board states a fit may reach: beyond them a board is not
+// "this design, etched a little off" but something else (common practice,
+// no source: laminate εr stays within a few per cent of its class value,
+// etch within tens of micrometres).
+const (
+	MaxErDeviation = 0.2    // relative εr
+	MaxEtch        = 100e-6 // m per edge; also at most a quarter of the narrowest line
+	MaxLoadScale   = 2      // load impedance scale, and its inverse
+)
+
+// maxEtch is the largest plausible etch of the board, m per edge.
+func (m Model) maxEtch() float64 {
+	e := MaxEtch
+	for _, t := range m.Board.Through {
+		e = min(e, t.Width/4)
+	}
+	for _, s := range m.Board.Stubs {
+		e = min(e, s.Width/4)
+	}
+	return e
+}
+
 // FitResult is the board state that best explains a measurement.
 type FitResult struct {
 	State State
@@ -106,8 +128,13 @@ func (m Model) Fit(ctx context.Context, meas Measurement, opt FitOptions) (FitRe
 	if m.F0 < meas.Freqs[0] || m.F0 > meas.Freqs[n-1] {
 		return FitResult{}, &CoverageError{Source: meas.Source, Lo: meas.Freqs[0], Hi: meas.Freqs[n-1], F0: m.F0}
 	}
+	maxEtch := m.maxEtch()
 	resid := func(p []float64, out []float64) bool {
-		r, err := m.Simulate(fromParams(p))
+		st := fromParams(p)
+		if math.Abs(st.ErRatio-1) > MaxErDeviation || math.Abs(st.Etch) > maxEtch || st.LoadScale < 1/MaxLoadScale || st.LoadScale > MaxLoadScale {
+			return false
+		}
+		r, err := m.Simulate(st)
 		if err != nil {
 			return false
 		}
@@ -135,7 +162,7 @@ func (m Model) Fit(ctx context.Context, meas Measurement, opt FitOptions) (FitRe
 	var starts []start
 	for _, er := range []float64{-10, -6, -3, 0, 3, 6, 10} {
 		for _, etch := range []float64{-40, -20, 0, 20, 40} {
-			p := []float64{er, etch}
+			p := []float64{er, max(-maxEtch, min(maxEtch, etch*1e-6)) * 1e6}
 			if opt.FitLoad {
 				p = append(p, 0)
 			}

@@ -1,0 +1,124 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"stubcraft/export"
+	"stubcraft/physical"
+	"stubcraft/synth"
+	"stubcraft/synth/tune"
+)
+
+// writeMeasured writes the simulated S11 of the demo board in state s
+// between lo and hi as a Touchstone file, as if measured, and returns the
+// demo design's path.
+func writeMeasured(t *testing.T, dir string, s tune.State, lo, hi float64) (design, measured string) {
+	t.Helper()
+	design = filepath.Join(dir, "probe.toml")
+	if err := os.WriteFile(design, synth.DemoTOML(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	in, err := synth.LoadDesign(design, synth.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	in.SkipTolerance = true
+	res, err := synth.Build(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := res.BenchModel().Simulate(s)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ts := &physical.Touchstone{Ports: 1, Z0: 50}
+	for i := 0; i <= 150; i++ {
+		f := lo + (hi-lo)*float64(i)/150
+		g, err := r.S11(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ts.Freqs = append(ts.Freqs, f)
+		ts.S = append(ts.S, []complex128{g})
+	}
+	var b bytes.Buffer
+	if err := export.WriteTouchstone(&b, ts, []string{"synthetic measurement for a test"}); err != nil {
+		t.Fatal(err)
+	}
+	measured = filepath.Join(dir, "board.s1p")
+	if err := os.WriteFile(measured, b.Bytes(), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return design, measured
+}
+
+func TestTuneRecoversBoardAndWritesDrawing(t *testing.T) {
+	dir := t.TempDir()
+	truth := tune.State{ErRatio: 1.04, Etch: 15e-6, LoadScale: 1}
+	design, measured := writeMeasured(t, dir, truth, 2.2e9, 2.7e9)
+	out := filepath.Join(dir, "trimmed")
+	text, err := runRoot(t, "tune", design, measured, "--json", "-o", out)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep struct {
+		FittedEr      *float64 `json:"fitted_er"`
+		FittedErRatio float64  `json:"fitted_er_ratio"`
+		FittedEtchUM  float64  `json:"fitted_etch_um"`
+		ResidualDB    *float64 `json:"residual_db"`
+		Trims         []struct {
+			ID     string  `json:"id"`
+			TrimMM float64 `json:"trim_mm"`
+		} `json:"trims"`
+		PredictedBestMatchHz float64 `json:"predicted_best_match_hz"`
+	}
+	if err := json.Unmarshal([]byte(text), &rep); err != nil {
+		t.Fatalf("%v\n%s", err, text)
+	}
+	if rep.FittedEr == nil || rep.ResidualDB == nil {
+		t.Fatalf("missing keys:\n%s", text)
+	}
+	// Noise-free synthetic data: the fit must land on the truth closely.
+	if math.Abs(rep.FittedErRatio-truth.ErRatio) > 0.002 || math.Abs(rep.FittedEtchUM-15) > 1 {
+		t.Errorf("fitted εr ratio %.4f, etch %.2f µm; truth 1.04, 15 µm", rep.FittedErRatio, rep.FittedEtchUM)
+	}
+	// A higher εr lowers the match: the open stub must be cut shorter.
+	if len(rep.Trims) != 1 || rep.Trims[0].ID != "stub1" || !(rep.Trims[0].TrimMM > 0) {
+		t.Errorf("trims %+v: want one positive cut of stub1", rep.Trims)
+	}
+	if math.Abs(rep.PredictedBestMatchHz/2.45e9-1) > 0.003 {
+		t.Errorf("predicted best match %.4f GHz", rep.PredictedBestMatchHz/1e9)
+	}
+	for _, name := range []string{"tune.json", "drawing.pdf", "layout.svg"} {
+		if _, err := os.Stat(filepath.Join(out, name)); err != nil {
+			t.Errorf("%s not written: %v", name, err)
+		}
+	}
+}
+
+func TestTuneRefusals(t *testing.T) {
+	dir := t.TempDir()
+	design, low := writeMeasured(t, dir, tune.Nominal(), 1.8e9, 2.3e9)
+	lowText, err := runRoot(t, "tune", design, low)
+	if err == nil || !strings.Contains(err.Error(), "board.s1p") || !strings.Contains(err.Error(), "does not include f0") {
+		t.Errorf("a measurement below f0: got %v\n%s", err, lowText)
+	}
+	// A board of another design: a fully reflecting short stands in for it.
+	other := filepath.Join(dir, "other.s1p")
+	if err := os.WriteFile(other, []byte("# GHz S RI R 50\n2.2 -0.9 0.1\n2.4 -0.9 0.2\n2.45 -0.9 0.25\n2.5 -0.9 0.3\n2.7 -0.9 0.35\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := runRoot(t, "tune", design, other); err == nil || !strings.Contains(err.Error(), "other.s1p") || !strings.Contains(err.Error(), "explains") {
+		t.Errorf("a measurement of another board: got %v", err)
+	}
+	if _, err := runRoot(t, "tune", design, filepath.Join(dir, "missing.s1p")); err == nil || !strings.Contains(err.Error(), "missing.s1p") {
+		t.Errorf("a missing file: got %v", err)
+	}
+}
