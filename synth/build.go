@@ -54,6 +54,10 @@ type BuildInput struct {
 	// AcceptMismatch lets Build return a layout whose |S11| at f0 is above
 	// MismatchLimitDB instead of refusing it with a *MismatchError.
 	AcceptMismatch bool
+	// AcceptLoss builds a load that the loss rule refuses (see
+	// MaxLoadGamma and MaxNetworkLossDB): one that a matched network can
+	// only absorb by dissipating the power.
+	AcceptLoss bool
 }
 
 // Result is a built design: the corrected physical network and the proof
@@ -156,8 +160,10 @@ func Build(ctx context.Context, in BuildInput) (*Result, error) {
 // Simulate runs the electrical and physical part of Build: electrical
 // solution, widths and lengths, discontinuity corrections, re-centring,
 // band sweep and tolerance analysis. It draws no geometry and refuses
-// nothing but an already matched load; CheckFabMinimum and S11F0 say what
-// Build would refuse.
+// only an already matched load, a frequency outside the stackup's range
+// and, unless in.AcceptLoss, a load the loss rule refuses (*LossError:
+// |Γ_load| above MaxLoadGamma or more than MaxNetworkLossDB dissipated at
+// f0); CheckFabMinimum and S11F0 say what Build would refuse.
 func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	if err := ctx.Err(); err != nil {
 		return nil, fmt.Errorf("build: %w", err)
@@ -175,8 +181,15 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	if err != nil {
 		return nil, d.KeyError(loadKey(d), fmt.Errorf("the load at %.6g GHz: %w", f0/1e9, err))
 	}
+	if err := CheckFrequencyOn(f0, sub); err != nil {
+		return nil, d.KeyError("frequency", err)
+	}
+	gamma := LoadGamma(zl, z0)
 	sections, notes, err := d.Electrical(zl)
 	if err != nil {
+		if gamma > MaxLoadGamma && !in.AcceptLoss {
+			return nil, d.KeyError(loadKey(d), &LossError{Gamma: gamma, LossDB: math.Inf(1), FreqHz: f0})
+		}
 		return nil, err
 	}
 	ph, err := ToPhysical(sections, f0, z0, sub, mk, PhysicalOptions{
@@ -220,6 +233,9 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	}
 	r.S11F0 = sim.InputReflection(f0, zl, z0)
 	r.LossF0DB = sim.Loss(f0, zl, z0)
+	if err := checkLoss(gamma, r.LossF0DB, f0); err != nil && !in.AcceptLoss {
+		return nil, d.KeyError(loadKey(d), err)
+	}
 	if err := r.sweep(sim, in.Load); err != nil {
 		return nil, err
 	}

@@ -434,3 +434,30 @@ func TestSubstrateAtDesignFrequency(t *testing.T) {
 		t.Errorf("the build used εr %.4f, want %.4f", r.Physical.Board.Sub.Er, want)
 	}
 }
+
+// A feed of many wavelengths moves the line by a whole number of half
+// wavelengths in one step (modular arithmetic, no loop per half wave): the
+// drawn line ends up in [0, λg/2) and the electrical length changes by a
+// multiple of 180° (exact: a lossless line repeats every half wavelength).
+func TestLongFeedMovesManyHalfWaves(t *testing.T) {
+	d := decodeTestDesign(t, lineStubDesign("10deg"))
+	st := preset(t, "fr4-1.6mm")
+	sub, _ := SubstrateAt(st, d.Freq)
+	mk := LineMakerFor(context.Background(), st, NewSolverCache())
+	secs := []Section{{Kind: SeriesLine, Z0: 50, LengthDeg: 10}, {Kind: ShuntStub, End: Open, Z0: 50, LengthDeg: 90}}
+	for _, feed := range []float64{0.005, 3, 1e3, 1e9} {
+		p, err := ToPhysical(secs, d.Freq, 50, sub, mk, PhysicalOptions{FeedLength: feed, Via: physical.Via{Drill: 0.3e-3, Pad: 0.6e-3}})
+		if err != nil {
+			t.Fatalf("feed %g m: %v", feed, err)
+		}
+		line := p.Elements[1]
+		half := line.Params.GuidedWavelength() / 2
+		if line.ID != "line1" || line.LineLength < 0 || line.LineLength >= half+1e-9 {
+			t.Errorf("feed %g m: %s is %g m, want [0, %g)", feed, line.ID, line.LineLength, half)
+		}
+		total := line.ElectricalDeg + p.Elements[0].ElectricalDeg
+		if k := (total - 10) / 180; math.Abs(k-math.Round(k)) > 1e-6*math.Max(1, k) {
+			t.Errorf("feed %g m: feed + line = %g°, not 10° plus whole half waves", feed, total)
+		}
+	}
+}

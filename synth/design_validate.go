@@ -54,7 +54,7 @@ func designPct(v float64) string { return designQuote(v*100, "%") }
 // checkZ0 checks a line impedance against MinLineZ0..MaxLineZ0.
 func (c *designCheck) checkZ0(path string, z float64, what string) {
 	if !(z >= MinLineZ0 && z <= MaxLineZ0) {
-		c.fail(path, designOhmText(z), "the %s must be between %g and %g ohm for a printable microstrip", what, MinLineZ0, MaxLineZ0)
+		c.failErr(path, designOhmText(z), rangeError("the %s must be from %g to %g ohm for a printable microstrip", what, MinLineZ0, MaxLineZ0))
 	}
 }
 
@@ -69,7 +69,9 @@ func (d Design) Validate() error {
 		c.fail("name", "", "%w; for example name = \"sensor-antenna-match\"", ErrMissingKey)
 	}
 	if !(d.Freq > 0) || !designFinite(d.Freq) {
-		c.fail("frequency", designQuote(d.Freq, "Hz"), "the design frequency must be positive")
+		c.fail("frequency", designQuote(d.Freq, "Hz"), "the design frequency must be positive, for example frequency = \"2.45GHz\"")
+	} else if err := CheckFrequency(d.Freq); err != nil {
+		c.failErr("frequency", designQuote(d.Freq, "Hz"), fmt.Errorf("%w; for example frequency = \"2.45GHz\"", err))
 	}
 	c.checkZ0("z0", d.Z0, "reference impedance")
 	if strings.TrimSpace(d.Stackup) == "" {
@@ -97,15 +99,17 @@ func (d Design) Validate() error {
 	default:
 		c.fail("match", "", "%w: the design needs a [match] table or [[section]] tables", ErrMissingKey)
 	}
-	if c.err == nil && d.Match != nil && d.Load.Touchstone == "" {
+	// A load past the loss rule's |Γ| limit is left to Build, which refuses
+	// it with the network's dissipation unless the loss is accepted.
+	if c.err == nil && d.Match != nil && d.Load.Touchstone == "" && LoadGamma(d.Load.Impedance, d.Z0) <= MaxLoadGamma {
 		m := *d.Match
 		if _, err := SolveShuntStubZ(d.Load.Impedance, d.Z0, m.LineZ0, m.StubZ0, m.End); err != nil {
 			c.failErr("load.impedance", zText, fmt.Errorf("topology %s: %w", m.Topology, err))
 		}
 	}
 	c.checkLayout(d.Layout)
-	if !(d.Fab.MinWidth > 0) || !designFinite(d.Fab.MinWidth) {
-		c.fail("fab.min_width", designMM(d.Fab.MinWidth), "the narrowest track must be a positive length")
+	if !(d.Fab.MinWidth >= MinFabWidth && d.Fab.MinWidth <= MaxFabWidth) {
+		c.failErr("fab.min_width", designMM(d.Fab.MinWidth), rangeError("the narrowest track must be from %s to %s, for example min_width = \"0.15mm\"", formatMM(MinFabWidth), formatMM(MaxFabWidth)))
 	}
 	c.checkSweep(d.Sweep, d.Freq)
 	c.checkTolerance(d.Tolerance)
@@ -154,14 +158,14 @@ func (c *designCheck) checkSection(n int, s Section) {
 const MaxSectionDeg = 720
 
 func (c *designCheck) checkLayout(l LayoutSpec) {
-	if !(l.FeedLength > 0) || !designFinite(l.FeedLength) {
-		c.fail("layout.feed_length", designMM(l.FeedLength), "the feed length must be positive")
+	if !(l.FeedLength > 0 && l.FeedLength <= MaxFeedLength) {
+		c.failErr("layout.feed_length", designMM(l.FeedLength), rangeError("the feed length must be more than 0 mm and at most %s, for example feed_length = \"5mm\"", formatMM(MaxFeedLength)))
 	}
 	if l.StubSide != "up" && l.StubSide != "down" {
 		c.fail("layout.stub_side", strconv.Quote(l.StubSide), "use up or down")
 	}
-	if !(l.Margin >= 0) || !designFinite(l.Margin) {
-		c.fail("layout.margin", designMM(l.Margin), "the margin must not be negative")
+	if !(l.Margin >= 0 && l.Margin <= MaxMargin) {
+		c.failErr("layout.margin", designMM(l.Margin), rangeError("the margin must be from 0 mm to %s, for example margin = \"5mm\"", formatMM(MaxMargin)))
 	}
 	if !(l.EdgeClearance >= 0) || !designFinite(l.EdgeClearance) || l.EdgeClearance > 5e-3 {
 		c.fail("layout.edge_clearance", designMM(l.EdgeClearance), "the copper pull-back from the routed edge must be 0–5 mm")
@@ -172,17 +176,18 @@ func (c *designCheck) checkLayout(l LayoutSpec) {
 		c.fail("layout.mask", strconv.Quote(l.Mask), "use auto (follow the stackup's [mask]), open (a window over the RF copper) or cover")
 	}
 	if l.MaxBoard != [2]float64{} {
-		for _, v := range l.MaxBoard {
-			if !(v > 0) || !designFinite(v) {
-				c.fail("layout.max_board", fmt.Sprintf("[%s, %s]", designMM(l.MaxBoard[0]), designMM(l.MaxBoard[1])), "the largest board needs a positive width and height")
+		for i, v := range l.MaxBoard {
+			if !(v >= MinBoardSide && v <= MaxBoardSide) {
+				c.failErr("layout.max_board", fmt.Sprintf("[%s, %s]", designMM(l.MaxBoard[0]), designMM(l.MaxBoard[1])), rangeError("the board %s must be from %s to %s, for example max_board = [\"60mm\", \"40mm\"] (width, height)",
+					[2]string{"width (first value)", "height (second value)"}[i], formatMM(MinBoardSide), formatMM(MaxBoardSide)))
 			}
 		}
 	}
-	if !(l.ViaDrill > 0) || !designFinite(l.ViaDrill) {
-		c.fail("layout.via_drill", designMM(l.ViaDrill), "the via drill must be positive")
+	if !(l.ViaDrill >= MinViaDrill && l.ViaDrill <= MaxViaDrill) {
+		c.failErr("layout.via_drill", designMM(l.ViaDrill), rangeError("the via drill must be from %s to %s, for example via_drill = \"0.3mm\"", formatMM(MinViaDrill), formatMM(MaxViaDrill)))
 	}
-	if !(l.ViaPad > l.ViaDrill) || !designFinite(l.ViaPad) {
-		c.fail("layout.via_pad", designMM(l.ViaPad), "the via pad must be larger than the drill (%gmm)", l.ViaDrill*1e3)
+	if !(l.ViaPad > l.ViaDrill && l.ViaPad <= MaxViaPad) {
+		c.failErr("layout.via_pad", designMM(l.ViaPad), rangeError("the via pad must be larger than the drill (%gmm) and at most %s, for example via_pad = \"%gmm\"", l.ViaDrill*1e3, formatMM(MaxViaPad), 2*l.ViaDrill*1e3))
 	}
 }
 
@@ -195,6 +200,12 @@ func (c *designCheck) checkSweep(s SweepSpec, f0 float64) {
 	}
 	if !(s.Start > 0) || !(s.Stop > s.Start) || !designFinite(s.Stop) {
 		c.fail("sweep.start", designQuote(s.Start, "Hz"), "the sweep needs 0 < start < stop (stop = %gHz)", s.Stop)
+	}
+	if !(s.Start >= MinSweepFrequency) {
+		c.failErr("sweep.start", designQuote(s.Start, "Hz"), rangeError("the sweep must start at %s or above", FormatHz(MinSweepFrequency)))
+	}
+	if !(s.Stop <= MaxSweepFrequency) {
+		c.failErr("sweep.stop", designQuote(s.Stop, "Hz"), rangeError("the sweep must stop at %s or below", FormatHz(MaxSweepFrequency)))
 	}
 	if !(s.Start <= f0 && f0 <= s.Stop) {
 		c.fail("sweep.start", designQuote(s.Start, "Hz"), "the sweep must include the design frequency %gHz (stop = %gHz)", f0, s.Stop)
@@ -219,8 +230,8 @@ func (c *designCheck) checkTolerance(t ToleranceSpec) {
 			c.fail(f.key, designPct(f.v), "a spread must be from 0%% to less than 100%%")
 		}
 	}
-	if !(t.Width >= 0) || !designFinite(t.Width) {
-		c.fail("tolerance.width", designMM(t.Width), "the width spread must not be negative")
+	if !(t.Width >= 0 && t.Width <= MaxEtchSpread) {
+		c.failErr("tolerance.width", designMM(t.Width), rangeError("the width spread must be from 0 mm to %s, for example width = \"0.02mm\"", formatMM(MaxEtchSpread)))
 	}
 }
 

@@ -31,7 +31,19 @@ func LineMakerFor(ctx context.Context, st stackups.Stackup, cache *SolverCache) 
 		return physical.MicrostripMaker
 	}
 	cs := CrossSectionOf(st)
-	return fieldsolve.MakerContext(ctx, cs.Geometry, cs.Gap, cache)
+	solve := fieldsolve.MakerContext(ctx, cs.Geometry, cs.Gap, cache)
+	// Proportions outside what the solver is meant for are refused before
+	// a grid is built (CheckCrossSection).
+	return func(width float64, sub physical.Substrate) (physical.LineModel, error) {
+		c, err := fieldsolve.FromSubstrate(cs.Geometry, width, cs.Gap, sub)
+		if err != nil {
+			return nil, err
+		}
+		if err := CheckCrossSection(c); err != nil {
+			return nil, err
+		}
+		return solve(width, sub)
+	}
 }
 
 // CrossSectionOf returns the field solver's cross-section of a line on st,

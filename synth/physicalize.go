@@ -142,10 +142,11 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 			deg := s.LengthDeg
 			if i == 0 && opt.FeedLength > 0 {
 				deg -= feedDeg
-				for deg < 0 {
-					deg += 180
-					p.note(fmt.Sprintf("line%d: the load-side feed (%.3g mm, %.2f°) is longer than the line's %.2f°; the line moved to the next solution, 180° longer",
-						nLine, opt.FeedLength*1e3, feedDeg, s.LengthDeg))
+				if deg < 0 {
+					n := halfWaves(-deg, 180)
+					deg += n * 180
+					p.note(fmt.Sprintf("line%d: the load-side feed (%.3g mm, %.2f°) is longer than the line's %.2f°; the line moved %s",
+						nLine, opt.FeedLength*1e3, feedDeg, s.LengthDeg, moved(n, "180° longer", "%.0f° longer", n*180)))
 				}
 			}
 			e, err := element(fmt.Sprintf("line%d", nLine), RoleLine, s.Z0, deg)
@@ -208,12 +209,13 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 	for j := range through {
 		e := &through[j]
 		e.DrawnLength = e.LineLength + e.Tee + e.Step
-		for e.Role == RoleLine && e.DrawnLength < 0 {
+		if e.Role == RoleLine && e.DrawnLength < 0 {
 			half := e.Params.GuidedWavelength() / 2
-			e.ElectricalDeg += 180
-			e.LineLength += half
-			e.DrawnLength += half
-			p.note(fmt.Sprintf("%s: the tee correction made the line negative; it moved to the next solution, half a guided wavelength (%.3f mm) longer", e.ID, half*1e3))
+			n := halfWaves(-e.DrawnLength, half)
+			e.ElectricalDeg += n * 180
+			e.LineLength += n * half
+			e.DrawnLength += n * half
+			p.note(fmt.Sprintf("%s: the tee correction made the line negative; it moved %s", e.ID, moved(n, fmt.Sprintf("half a guided wavelength (%.3f mm) longer", half*1e3), "%.0f half guided wavelengths (%.3f mm) longer", n, n*half*1e3)))
 		}
 	}
 
@@ -260,6 +262,24 @@ func (p *Physical) compensateSteps(through, stubs []Element, widths map[float64]
 		a.Step -= dA
 		b.Step -= dB
 	}
+}
+
+// halfWaves returns the number of periods (half wavelengths, of size
+// period) to add to a length short by deficit > 0 so that it is no longer
+// negative: ⌈deficit/period⌉, at least 1. It is computed in one step, so a
+// deficit of many wavelengths costs no loop.
+func halfWaves(deficit, period float64) float64 {
+	return max(1, math.Ceil(deficit/period))
+}
+
+// moved ends a note on a length moved by n half wavelengths: "to the next
+// solution, " and one for n = 1, otherwise "n solutions on, " and many
+// formatted with args.
+func moved(n float64, one, many string, args ...any) string {
+	if n == 1 {
+		return "to the next solution, " + one
+	}
+	return fmt.Sprintf("%.0f solutions on, ", n) + fmt.Sprintf(many, args...)
 }
 
 // minLengths returns, per element, the shortest drawn length the layout
@@ -315,13 +335,12 @@ func (p *Physical) makeRoom(through, stubs []Element) error {
 		if e.Role != RoleLine {
 			return fmt.Errorf("%s is %.3f mm long, less than the %.3f mm the stubs at its ends need: lengthen [layout] feed_length", e.ID, e.DrawnLength*1e3, need[j]*1e3)
 		}
-		for e.DrawnLength < need[j] {
-			half := e.Params.GuidedWavelength() / 2
-			e.ElectricalDeg += 180
-			e.LineLength += half
-			e.DrawnLength += half
-			p.note(fmt.Sprintf("%s: too short for the stubs at its ends; it moved to the next solution, half a guided wavelength (%.3f mm) longer", e.ID, half*1e3))
-		}
+		half := e.Params.GuidedWavelength() / 2
+		n := halfWaves(need[j]-e.DrawnLength, half)
+		e.ElectricalDeg += n * 180
+		e.LineLength += n * half
+		e.DrawnLength += n * half
+		p.note(fmt.Sprintf("%s: too short for the stubs at its ends; it moved %s", e.ID, moved(n, fmt.Sprintf("half a guided wavelength (%.3f mm) longer", half*1e3), "%.0f half guided wavelengths (%.3f mm) longer", n, n*half*1e3)))
 	}
 	return nil
 }
@@ -378,12 +397,14 @@ func (p *Physical) correctStub(st *Element, tee physical.TeeParams, throughW flo
 	if st.End == Short {
 		minLen = via.Pad / 2
 	}
-	for drawn <= minLen {
+	if drawn <= minLen {
 		half := math.Pi / beta
-		drawn += half
-		st.ElectricalDeg += 180
-		st.LineLength += half
-		p.note(fmt.Sprintf("%s: the corrections left too little stub; it moved to the next solution, half a guided wavelength (%.3f mm) longer", st.ID, half*1e3))
+		// The stub must end up strictly longer than minLen.
+		n := math.Floor((minLen-drawn)/half) + 1
+		drawn += n * half
+		st.ElectricalDeg += n * 180
+		st.LineLength += n * half
+		p.note(fmt.Sprintf("%s: the corrections left too little stub; it moved %s", st.ID, moved(n, fmt.Sprintf("half a guided wavelength (%.3f mm) longer", half*1e3), "%.0f half guided wavelengths (%.3f mm) longer", n, n*half*1e3)))
 	}
 	st.DrawnLength = drawn
 	st.Tee = drawn - st.LineLength - st.OpenEnd - st.Via

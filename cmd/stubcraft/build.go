@@ -26,6 +26,7 @@ func newBuildCmd() *cobra.Command {
 	var (
 		outDir, stackupArg, pageArg, scaleArg      string
 		force, noTolerance, asJSON, acceptMismatch bool
+		acceptLoss                                 bool
 		samples                                    int
 	)
 	cmd := &cobra.Command{
@@ -64,7 +65,7 @@ replaced only with --force; nothing is written when any step fails.
 			}
 			cache := synth.NewSolverCache()
 			in.Lines = synth.LineMakerFor(cmd.Context(), in.Stackup, cache)
-			in.SkipTolerance, in.AcceptMismatch = noTolerance, acceptMismatch
+			in.SkipTolerance, in.AcceptMismatch, in.AcceptLoss = noTolerance, acceptMismatch, acceptLoss
 			stop := solverProgress(cache)
 			res, err := synth.Build(cmd.Context(), in)
 			stop()
@@ -103,6 +104,7 @@ replaced only with --force; nothing is written when any step fails.
 	f.StringVar(&scaleArg, "fit", "scale", `when the board does not fit the page at 1:1: "scale" (a stated smaller scale) or "tile" (1:1 across pages)`)
 	f.BoolVar(&asJSON, "json", false, "print the report JSON instead of the summary")
 	f.BoolVar(&acceptMismatch, "accept-mismatch", false, "write the files even when the layout does not match (|S11| at f0 above −10 dB)")
+	f.BoolVar(&acceptLoss, "accept-loss", false, "build a load even when the network would dissipate more than 3 dB at f0 or |Γ_load| is above 0.98")
 	_ = cmd.RegisterFlagCompletionFunc("stackup", completeStackup)
 	_ = cmd.RegisterFlagCompletionFunc("page", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
 		return []string{"a4", "letter"}, cobra.ShellCompDirectiveNoFileComp

@@ -488,7 +488,7 @@ length = "36deg"
 		t.Fatalf("--accept-mismatch: %v", err)
 	}
 	demo := synth.DemoTOML()
-	slow := write("slow.toml", strings.Replace(string(demo), `frequency = "2.45GHz"`, `frequency = "1kHz"`, 1))
+	slow := write("slow.toml", strings.Replace(string(demo), `frequency = "2.45GHz"`, `frequency = "1MHz"`, 1))
 	huge := filepath.Join(parent, "huge")
 	if _, err := runRoot(t, "build", slow, "-o", huge, "--no-tolerance", "--accept-mismatch"); err == nil || !strings.Contains(err.Error(), "larger than 500 mm") {
 		t.Fatalf("want a board-size refusal, got %v", err)

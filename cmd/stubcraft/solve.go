@@ -18,7 +18,7 @@ import (
 // solveOptions are the flags of the solve command, as typed.
 type solveOptions struct {
 	load, z0, lineZ0, stubZ0, stub string
-	asJSON                         bool
+	asJSON, acceptLoss             bool
 }
 
 // newSolveCmd returns the command that prints the single-shunt-stub
@@ -48,6 +48,7 @@ impedances other than z0 (--line-z0, --stub-z0).`,
 	f.StringVar(&o.stubZ0, "stub-z0", "", "impedance of the stub, ohm (default: z0)")
 	f.StringVar(&o.stub, "stub", "open", "stub end: open, or short (a via to ground)")
 	f.BoolVar(&o.asJSON, "json", false, "print JSON instead of a table")
+	f.BoolVar(&o.acceptLoss, "accept-loss", false, "solve a load even when |Γ| is above 0.98 (a network for it would dissipate most of the power)")
 	return cmd
 }
 
@@ -59,6 +60,9 @@ func solveOhms(flag, text string) (float64, error) {
 	}
 	if imag(z) != 0 || !(real(z) > 0) {
 		return 0, fmt.Errorf("--%s %q: a characteristic impedance must be real and positive", flag, text)
+	}
+	if err := synth.CheckLineZ0(real(z)); err != nil {
+		return 0, fmt.Errorf("--%s %q: %w", flag, text, err)
 	}
 	return real(z), nil
 }
@@ -85,6 +89,9 @@ func runSolve(w io.Writer, o solveOptions) error {
 		if stubZ0, err = solveOhms("stub-z0", o.stubZ0); err != nil {
 			return err
 		}
+	}
+	if err := synth.CheckLoadGamma(zl, z0); err != nil && !o.acceptLoss {
+		return fmt.Errorf("--load %q: %w", o.load, err)
 	}
 	end, err := synth.ParseStubEnd(o.stub)
 	if err != nil {

@@ -3,6 +3,7 @@ package main
 import (
 	"fmt"
 	"io"
+	"math"
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
@@ -63,19 +64,25 @@ of that electrical length at --freq is given too.`,
 			if err != nil {
 				return fmt.Errorf("--freq: %w", err)
 			}
-			if freq <= 0 {
-				return fmt.Errorf("--freq %q: the frequency must be positive", freqArg)
+			if err := synth.CheckFrequency(freq); err != nil {
+				return fmt.Errorf("--freq %q: %w", freqArg, err)
 			}
 			cache := synth.NewSolverCache()
 			maker := synth.LineMakerFor(cmd.Context(), st, cache)
 			defer solverProgress(cache)()
 			sub, subNotes := synth.SubstrateAt(st, freq)
+			if err := synth.CheckFrequencyOn(freq, sub); err != nil {
+				return fmt.Errorf("--freq %q on stackup %s: %w", freqArg, st.Name, err)
+			}
 			var model physical.LineModel
 			var warnings []string
 			if z0Arg != "" {
 				z0, err := parsePositive("--z0", z0Arg)
 				if err != nil {
 					return err
+				}
+				if err := synth.CheckLineZ0(z0); err != nil {
+					return fmt.Errorf("--z0 %s: %w", z0Arg, err)
 				}
 				res, err := synth.WidthWith(maker, sub, z0, freq)
 				if err != nil {
@@ -87,8 +94,8 @@ of that electrical length at --freq is given too.`,
 				if err != nil {
 					return fmt.Errorf("--width: %w", err)
 				}
-				if w <= 0 {
-					return fmt.Errorf("--width %q: the width must be positive", widthArg)
+				if err := synth.CheckStripWidth(w, sub); err != nil {
+					return fmt.Errorf("--width %q on stackup %s: %w", widthArg, st.Name, err)
 				}
 				model, err = maker(w, sub)
 				if err != nil {
@@ -116,12 +123,15 @@ of that electrical length at --freq is given too.`,
 				if err != nil {
 					return fmt.Errorf("--length: %w", err)
 				}
-				if deg <= 0 {
-					return fmt.Errorf("--length %q: the electrical length must be positive", lengthArg)
+				if err := synth.CheckElectricalLength(deg); err != nil {
+					return fmt.Errorf("--length %q: %w", lengthArg, err)
 				}
 				l := synth.PhysicalLength(p, deg)
 				lmm, loss := l*1e3, p.Alpha()*l*physical.NpDB
 				rep.ElectricalDeg, rep.LengthMM, rep.LossDB = &deg, &lmm, &loss
+			}
+			if err := rep.finite(); err != nil {
+				return fmt.Errorf("%s: %w", traceInput(z0Arg, widthArg), err)
 			}
 			if asJSON {
 				return printJSON(cmd.OutOrStdout(), rep)
@@ -139,6 +149,42 @@ of that electrical length at --freq is given too.`,
 	_ = cmd.MarkFlagRequired("freq")
 	_ = cmd.RegisterFlagCompletionFunc("stackup", completeStackup)
 	return cmd
+}
+
+// traceInput names the flag that chose the strip.
+func traceInput(z0Arg, widthArg string) string {
+	if z0Arg != "" {
+		return "--z0 " + z0Arg
+	}
+	return "--width " + widthArg
+}
+
+// finite refuses a report with a value that is not a finite number, so
+// that NaN is never printed and --json never fails on one.
+func (r traceReport) finite() error {
+	vals := []struct {
+		name string
+		v    float64
+	}{
+		{"Z0", r.Z0Ohm}, {"static Z0", r.Z0StaticOhm}, {"εeff", r.EpsEff}, {"static εeff", r.EpsEffStatic},
+		{"guided wavelength", r.GuidedWavelengthMM}, {"width", r.WidthMM},
+		{"conductor loss", r.AlphaCondDBPerM}, {"dielectric loss", r.AlphaDielDBPerM},
+	}
+	if r.LengthMM != nil {
+		vals = append(vals, struct {
+			name string
+			v    float64
+		}{"length", *r.LengthMM}, struct {
+			name string
+			v    float64
+		}{"loss over the length", *r.LossDB})
+	}
+	for _, x := range vals {
+		if math.IsNaN(x.v) || math.IsInf(x.v, 0) {
+			return fmt.Errorf("the %s model gives no finite %s for this strip (%v); choose a width or impedance inside the model's range", r.Model, x.name, x.v)
+		}
+	}
+	return nil
 }
 
 func printTrace(w io.Writer, r traceReport) error {

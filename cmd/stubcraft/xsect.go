@@ -85,7 +85,15 @@ plane-to-plane spacing and --offset moves the strip up from the centre.`,
 			if err != nil {
 				return err
 			}
-			res, err := xsectSolve(cmd.Context(), cs, tol, os.Stderr)
+			// Proportions outside the solver's range are refused before a
+			// grid is built, naming the flag like the solver's own checks.
+			var res fieldsolve.Result
+			if err = cs.Validate(); err == nil {
+				err = synth.CheckCrossSection(cs)
+			}
+			if err == nil {
+				res, err = xsectSolve(cmd.Context(), cs, tol, os.Stderr)
+			}
 			if err != nil {
 				var ie *fieldsolve.InputError
 				if errors.As(err, &ie) {

@@ -103,6 +103,9 @@ func SolveContext(ctx context.Context, cs CrossSection, opt Options) (Result, er
 	}
 	homogeneous := cs.Geometry == Stripline
 	l := newLayout(cs, 1)
+	if err := checkGridSize(&l, maxCells); err != nil {
+		return Result{}, err
+	}
 
 	box, err := boxError(cs, homogeneous)
 	if err != nil {

@@ -3,6 +3,7 @@ package fieldsolve
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -307,5 +308,23 @@ func TestMaxCells(t *testing.T) {
 	}
 	if r.Z0 == 0 || r.ErrorEstimate < 1e-6 || r.Cells > 20000 && len(r.Levels) > minLevels {
 		t.Errorf("best result not returned: %+v", r)
+	}
+}
+
+// A cross-section far out of proportion is refused before any grid is
+// allocated, with the figures (the graded grid of a 7e22 m strip on
+// 0.5 mm would need more memory than the machine has).
+func TestSolveRefusesHugeGrid(t *testing.T) {
+	for _, w := range []float64{1e10, 1e15, 7e22} {
+		for _, g := range []Geometry{Microstrip, GCPW} {
+			cs := CrossSection{Geometry: g, Width: w, Height: 0.5e-3, Thickness: 35e-6, Er: 3.5}
+			if g == GCPW {
+				cs.Gap = 0.2e-3
+			}
+			_, err := Solve(cs, Options{})
+			if !errors.Is(err, ErrGridTooLarge) || !strings.Contains(err.Error(), "ratio") {
+				t.Errorf("%v width %g m: got %v, want ErrGridTooLarge with the ratio", g, w, err)
+			}
+		}
 	}
 }

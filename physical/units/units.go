@@ -84,10 +84,15 @@ func split(s string) (float64, string, error) {
 	return v, strings.TrimSpace(s[end:]), nil
 }
 
-// lengthUnit returns the size in metres of the length unit u, already in
-// lower case. A switch rather than a map keeps the table read-only.
+// lengthUnit returns the size in metres of the length unit u, as written.
+// A switch rather than a map keeps the table read-only. Letter case is
+// ignored except for a leading m, which is milli (or the metre) only in
+// lower case: "Mm" would be megametres, so it is refused by caseHint.
 func lengthUnit(u string) (float64, bool) {
-	switch u {
+	if strings.HasPrefix(u, "M") {
+		return 0, false
+	}
+	switch strings.ToLower(u) {
 	case "m":
 		return 1, true
 	case "cm":
@@ -104,6 +109,56 @@ func lengthUnit(u string) (float64, bool) {
 		return 25.4e-3, true
 	}
 	return 0, false
+}
+
+// caseHint explains a unit refused only for its letter case: an upper-case
+// M (mega) where a lower-case m (milli, or the metre) is meant, or the
+// reverse. canon returns the usual spelling of a unit, or "" for an unknown
+// one. caseHint returns "" when the unit's case is not the trouble.
+func caseHint(u string, canon func(string) string) string {
+	if u == "" {
+		return ""
+	}
+	var alt string
+	switch u[0] {
+	case 'M':
+		alt = "m" + u[1:]
+	case 'm':
+		alt = "M" + u[1:]
+	default:
+		return ""
+	}
+	name := canon(alt)
+	if name == "" {
+		return ""
+	}
+	return fmt.Sprintf("units are case-sensitive: M is mega and m is milli; write %q", name)
+}
+
+// lengthName is the usual spelling of a length unit, for caseHint.
+func lengthName(u string) string {
+	if _, ok := lengthUnit(u); ok {
+		return strings.ToLower(u)
+	}
+	return ""
+}
+
+// frequencyName is the usual spelling of a frequency unit, for caseHint.
+func frequencyName(u string) string {
+	if _, ok := frequencyUnit(u); !ok {
+		return ""
+	}
+	switch strings.ToLower(u) {
+	case "hz":
+		return "Hz"
+	case "khz":
+		return "kHz"
+	case "mhz":
+		return "MHz"
+	case "ghz":
+		return "GHz"
+	}
+	return "THz"
 }
 
 // finite reports an overflow of value × unit as a NumError.
@@ -125,11 +180,11 @@ func ParseLength(s string) (float64, error) {
 	if u == "" {
 		return 0, &NumError{"length", s, fmt.Errorf("%w (for example %gmm)", ErrNoUnit, v)}
 	}
-	f, ok := lengthUnit(strings.ToLower(u))
+	f, ok := lengthUnit(u)
 	if !ok {
-		f, ok = lengthUnit(u)
-	}
-	if !ok {
+		if hint := caseHint(u, lengthName); hint != "" {
+			return 0, &NumError{"length", s, fmt.Errorf("%w %q: %s", ErrUnit, u, hint)}
+		}
 		return 0, &NumError{"length", s, fmt.Errorf("%w %q (use m, mm, um, mil or in)", ErrUnit, u)}
 	}
 	return finite("length", s, v*f)
@@ -150,7 +205,7 @@ func ParseCopperThickness(s string) (float64, error) {
 		var ne *NumError
 		if errors.As(err, &ne) {
 			ne.Quantity = "copper thickness"
-			if errors.Is(ne.Err, ErrUnit) {
+			if errors.Is(ne.Err, ErrUnit) && caseHint(u, lengthName) == "" {
 				ne.Err = fmt.Errorf("%w %q (use mm, um, mil or oz)", ErrUnit, u)
 			}
 		}
@@ -159,10 +214,14 @@ func ParseCopperThickness(s string) (float64, error) {
 	return m, nil
 }
 
-// frequencyUnit returns the size in hertz of the frequency unit u, already
-// in lower case.
+// frequencyUnit returns the size in hertz of the frequency unit u, as
+// written. Letter case is ignored except for the m of MHz: "mHz" would be
+// millihertz, so it is refused (see caseHint) rather than read as MHz.
 func frequencyUnit(u string) (float64, bool) {
-	switch u {
+	if u == "" || u[0] == 'm' {
+		return 0, false
+	}
+	switch strings.ToLower(u) {
 	case "hz":
 		return 1, true
 	case "khz":
@@ -177,8 +236,8 @@ func frequencyUnit(u string) (float64, bool) {
 	return 0, false
 }
 
-// ParseFrequency reads a frequency with its unit (Hz, kHz, MHz, GHz) and
-// returns hertz. Unit case is ignored.
+// ParseFrequency reads a frequency with its unit (Hz, kHz, MHz, GHz, THz)
+// and returns hertz. Unit case is ignored except for the M of MHz.
 func ParseFrequency(s string) (float64, error) {
 	v, u, err := split(s)
 	if err != nil {
@@ -187,8 +246,11 @@ func ParseFrequency(s string) (float64, error) {
 	if u == "" {
 		return 0, &NumError{"frequency", s, fmt.Errorf("%w (for example %gGHz)", ErrNoUnit, v)}
 	}
-	f, ok := frequencyUnit(strings.ToLower(u))
+	f, ok := frequencyUnit(u)
 	if !ok {
+		if hint := caseHint(u, frequencyName); hint != "" {
+			return 0, &NumError{"frequency", s, fmt.Errorf("%w %q: %s", ErrUnit, u, hint)}
+		}
 		return 0, &NumError{"frequency", s, fmt.Errorf("%w %q (use Hz, kHz, MHz or GHz)", ErrUnit, u)}
 	}
 	return finite("frequency", s, v*f)
@@ -235,8 +297,9 @@ func decimal(s string) (float64, error) {
 }
 
 // ParseImpedance reads a complex impedance in ohms written as "50",
-// "18-j22", "18-22j", "18 + j 22", "18-j22ohm" or "18-j22Ω". A j without a
-// number stands for j1, as in "18+j".
+// "18-j22", "18-22j", "18 + j 22", "18-j22ohm" or "18-j22Ω". A j needs its
+// number: "18+j" is refused (write "18+j1"), since a forgotten digit must
+// not change the load.
 func ParseImpedance(s string) (complex128, error) {
 	t := strings.Map(func(r rune) rune {
 		if unicode.IsSpace(r) {
@@ -290,13 +353,12 @@ func ParseImpedance(s string) (complex128, error) {
 		default:
 			return 0, &NumError{"impedance", s, fmt.Errorf("%w: the imaginary part needs a j", ErrSyntax)}
 		}
-		x := 1.0
-		if body != "" {
-			var err error
-			x, err = decimal(body)
-			if err != nil {
-				return 0, &NumError{"impedance", s, err}
-			}
+		if body == "" {
+			return 0, &NumError{"impedance", s, fmt.Errorf("%w: the j needs a number, for example %q", ErrSyntax, t+"1")}
+		}
+		x, err := decimal(body)
+		if err != nil {
+			return 0, &NumError{"impedance", s, err}
 		}
 		z += complex(0, sign*x)
 	}

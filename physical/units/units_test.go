@@ -45,6 +45,7 @@ func TestParseGood(t *testing.T) {
 		{frequency, "2.45 GHz", 2.45e9, "SI prefix giga; space before the unit"},
 		{frequency, "2.45ghz", 2.45e9, "SI prefix giga; case ignored by design (doc comment)"},
 		{frequency, "100MHz", 100e6, "SI prefix mega = 1e6"},
+		{frequency, "100MHZ", 100e6, "SI prefix mega; case of the hertz ignored"},
 		{frequency, "10kHz", 1e4, "SI prefix kilo = 1e3"},
 		{frequency, "50Hz", 50, "hertz"},
 		{frequency, "1THz", 1e12, "SI prefix tera = 1e12"},
@@ -62,7 +63,8 @@ func TestParseGood(t *testing.T) {
 		{length, "1.5e+2mm", 0.15, "SI prefix milli, signed exponent"},
 		{length, "1E2mm", 0.1, "SI prefix milli, capital exponent"},
 		{length, " 0.8 mm ", 0.8e-3, "SI prefix milli; surrounding space ignored"},
-		{length, "2MM", 2e-3, "SI prefix milli; unit case ignored by design (doc comment)"},
+		{length, "2CM", 2e-2, "SI prefix centi; case ignored where it changes nothing (doc comment)"},
+		{length, "2IN", 50.8e-3, "1 in = 25.4 mm exactly; case ignored where it changes nothing"},
 		{copper, "35um", 35e-6, "SI prefix micro"},
 		{copper, "1oz", 34.8e-6, "1 oz/ft² foil = 1.37 mil = 34.8 µm (IPC-4562 nominal, from memory)"},
 		{copper, "0.5oz", 17.4e-6, "half of 34.8 µm (IPC-4562 nominal, from memory)"},
@@ -107,6 +109,13 @@ func TestParseBad(t *testing.T) {
 		{length, "0x10mm", ErrUnit},
 		{length, "2.45GHz", ErrUnit},
 		{length, "1oz", ErrUnit},
+		{length, "1Mm", ErrUnit}, // megametres: the case of m changes the meaning
+		{length, "2MM", ErrUnit},
+		{length, "1M", ErrUnit},
+		{length, "20MIL", ErrUnit},
+		{copper, "35Mm", ErrUnit},
+		{frequency, "100mHz", ErrUnit}, // millihertz, not megahertz
+		{frequency, "100mhz", ErrUnit},
 		{copper, "", ErrSyntax},
 		{copper, "1", ErrNoUnit},
 		{copper, "1 pound", ErrUnit},
@@ -173,6 +182,29 @@ func TestNumErrorMessage(t *testing.T) {
 	}
 }
 
+// TestUnitCaseHint checks that a unit refused for its letter case says
+// which unit to write instead.
+func TestUnitCaseHint(t *testing.T) {
+	tests := []struct {
+		fn   func(string) (float64, error)
+		in   string
+		want string
+	}{
+		{ParseLength, "1Mm", `write "mm"`},
+		{ParseLength, "2MM", `write "mm"`},
+		{ParseLength, "20Mil", `write "mil"`},
+		{ParseCopperThickness, "35Mm", `write "mm"`},
+		{ParseFrequency, "100mHz", `write "MHz"`},
+		{ParseFrequency, "100mhz", `write "MHz"`},
+	}
+	for _, tt := range tests {
+		_, err := tt.fn(tt.in)
+		if err == nil || !strings.Contains(err.Error(), tt.want) || !strings.Contains(err.Error(), "case-sensitive") {
+			t.Errorf("(%q): error %v, want one that says %s", tt.in, err, tt.want)
+		}
+	}
+}
+
 func TestParseImpedanceGood(t *testing.T) {
 	tests := []struct {
 		in   string
@@ -190,7 +222,6 @@ func TestParseImpedanceGood(t *testing.T) {
 		{"-5j", complex(0, -5)},
 		{"+j5", complex(0, 5)},
 		{"-18-j22", complex(-18, -22)},
-		{"18+j", complex(18, 1)}, // a bare j is j1 (doc comment)
 		{"1e-3+j1e-3", complex(1e-3, 1e-3)},
 		{"1e+3-j1e+3", complex(1e3, -1e3)},
 		{"1.5e2-j2.5E-1", complex(150, -0.25)},
@@ -226,6 +257,11 @@ func TestParseImpedanceBad(t *testing.T) {
 		{"18-j-22", ErrSyntax},
 		{"j5j", ErrSyntax},
 		{"18e-j", ErrSyntax},
+		{"31-j", ErrSyntax}, // a j needs its number (doc comment)
+		{"50+j", ErrSyntax},
+		{"j", ErrSyntax},
+		{"-j", ErrSyntax},
+		{"50+J ohm", ErrSyntax},
 		{"-", ErrSyntax},
 		{"NaN", ErrSyntax},
 		{"Inf", ErrSyntax},
