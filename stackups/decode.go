@@ -1,7 +1,6 @@
 package stackups
 
 import (
-	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -11,18 +10,19 @@ import (
 
 	"stubcraft/physical"
 	"stubcraft/physical/units"
+	"stubcraft/stackups/tomlx"
 )
 
 // schema returns the keys a stackup file may hold: the top-level keys, and
 // for each table the keys inside it, in the order they are documented.
-func schema() (top []string, tables map[string][]string) {
-	return []string{"name", "description", "line", "gap", "dielectric", "copper", "mask", "spread"},
-		map[string][]string{
-			"dielectric": {"er", "er_frequency", "loss_tangent", "thickness"},
-			"copper":     {"thickness", "weight", "roughness", "conductivity"},
-			"mask":       {"thickness", "er", "loss_tangent"},
-			"spread":     {"er", "thickness"},
-		}
+func schema() tomlx.Schema {
+	return tomlx.Schema{
+		"":           {"name", "description", "line", "gap", "dielectric", "copper", "mask", "spread"},
+		"dielectric": {"er", "er_frequency", "loss_tangent", "thickness"},
+		"copper":     {"thickness", "weight", "roughness", "conductivity"},
+		"mask":       {"thickness", "er", "loss_tangent"},
+		"spread":     {"er", "thickness"},
+	}
 }
 
 // Raw forms of the file. Every value is decoded as `any` and its type
@@ -70,15 +70,11 @@ func Decode(r io.Reader, source string) (Stackup, error) {
 		return Stackup{}, &Error{Source: source, Err: err}
 	}
 	var raw rawFile
-	md, err := toml.NewDecoder(bytes.NewReader(data)).Decode(&raw)
+	f, err := tomlx.Decode(data, source, &raw)
 	if err != nil {
-		var pe toml.ParseError
-		if errors.As(err, &pe) {
-			return Stackup{}, &Error{Source: source, Line: syntaxLine(data, pe.Position), Err: syntaxError{pe}}
-		}
-		return Stackup{}, &Error{Source: source, Err: fmt.Errorf("%w: %w", ErrSyntax, err)}
+		return Stackup{}, err
 	}
-	d := &decoder{source: source, md: &md, lines: indexKeys(string(data)), values: map[string]any{}}
+	d := &decoder{f: f, values: map[string]any{}}
 	s, err := d.stackup(&raw)
 	if err != nil {
 		return Stackup{}, err
@@ -93,58 +89,28 @@ func Decode(r io.Reader, source string) (Stackup, error) {
 	return s, nil
 }
 
-// syntaxLine is the line of the byte at fault. The library counts a
-// newline it did not expect as the start of the next line; the line that
-// holds the newline is the one to fix.
-func syntaxLine(data []byte, p toml.Position) int {
-	if p.Len > 0 && p.Start >= 0 && p.Start < len(data) {
-		return 1 + bytes.Count(data[:p.Start], []byte("\n"))
-	}
-	return p.Line
-}
-
-// syntaxError carries a TOML syntax error without repeating its line,
-// which Error already gives.
-type syntaxError struct{ pe toml.ParseError }
-
-func (e syntaxError) Error() string {
-	msg := ErrSyntax.Error() + ": " + e.pe.Message
-	if e.pe.Usage != "" {
-		msg += " (" + strings.Join(strings.Fields(e.pe.Usage), " ") + ")"
-	}
-	return msg
-}
-
-// Unwrap gives both ErrSyntax and the library's toml.ParseError.
-func (e syntaxError) Unwrap() []error { return []error{ErrSyntax, e.pe} }
-
-// decoder holds what is needed to place an error in the file.
+// decoder holds the decoded file and the raw value of each key read.
 type decoder struct {
-	source string
-	md     *toml.MetaData
-	lines  keyLines
-	values map[string]any // the raw value of each key read, by dotted key
+	f      *tomlx.File
+	values map[string]any // by dotted key
 }
 
 // place fills in the file, line and, when the key is in the file, the value
 // as written there.
 func (d *decoder) place(e *Error) *Error {
-	e.Source = d.source
-	path := strings.Split(e.Key, ".")
-	e.Line = d.lines.line(path)
+	e.Source = d.f.Source
+	e.Line = d.f.Line(e.Key)
 	if v, ok := d.values[e.Key]; ok {
-		e.Value = literal(v)
+		e.Value = tomlx.Literal(v)
 	}
 	return e
 }
 
 // fail makes an error for key with the raw value v.
-func (d *decoder) fail(key string, v any, err error) *Error {
-	return &Error{Source: d.source, Line: d.lines.line(strings.Split(key, ".")), Key: key, Value: literal(v), Err: err}
-}
+func (d *decoder) fail(key string, v any, err error) *Error { return d.f.Fail(key, v, err) }
 
 func (d *decoder) stackup(raw *rawFile) (Stackup, error) {
-	if err := d.unknownKeys(); err != nil {
+	if err := d.f.Unknown(schema(), "a stackup"); err != nil {
 		return Stackup{}, err
 	}
 	var s Stackup
@@ -179,92 +145,25 @@ func (d *decoder) stackup(raw *rawFile) (Stackup, error) {
 	// Everything in the schema has now been decoded; what is left is what
 	// sits under a key that should have been a plain value (er = {x = 1}),
 	// which the type checks above have already refused.
-	if left := d.md.Undecoded(); len(left) > 0 {
+	if left := d.f.Meta.Undecoded(); len(left) > 0 {
 		k := left[0]
-		return Stackup{}, &Error{Source: d.source, Line: d.lines.line(k), Key: k.String(), Err: ErrUnknownKey}
+		return Stackup{}, &Error{Source: d.f.Source, Line: d.f.KeyLine(k), Key: d.f.Path(k), Err: ErrUnknownKey}
 	}
 	return s, nil
-}
-
-// unknownKeys refuses the first key, in file order, that the schema does
-// not hold. Keys are compared exactly: BurntSushi/toml would otherwise
-// match "ER" to er.
-func (d *decoder) unknownKeys() error {
-	top, tables := schema()
-	for _, k := range d.md.Keys() {
-		if !contains(top, k[0]) {
-			return d.unknown(k[:1], fmt.Sprintf("a stackup holds %s", strings.Join(top, ", ")))
-		}
-		leaves, isTable := tables[k[0]]
-		if len(k) < 2 || !isTable {
-			continue // a plain value that is a table is a type error, reported later
-		}
-		if !contains(leaves, k[1]) {
-			return d.unknown(k[:2], fmt.Sprintf("[%s] holds %s", k[0], strings.Join(leaves, ", ")))
-		}
-	}
-	return nil
-}
-
-func (d *decoder) unknown(path toml.Key, known string) error {
-	return &Error{Source: d.source, Line: d.lines.line(path), Key: path.String(), Err: fmt.Errorf("%w (%s)", ErrUnknownKey, known)}
-}
-
-// typeName turns the library's name of a TOML type into words.
-func typeName(t string) string {
-	switch t {
-	case "ArrayHash":
-		return "an array of tables"
-	case "Array":
-		return "an array"
-	case "Integer":
-		return "an integer"
-	case "Bool":
-		return "a boolean"
-	case "Datetime":
-		return "a date-time"
-	}
-	return "a " + strings.ToLower(t)
-}
-
-func contains(list []string, s string) bool {
-	for _, x := range list {
-		if x == s {
-			return true
-		}
-	}
-	return false
 }
 
 // table decodes the table at key into v. It reports whether the table is
 // in the file.
 func (d *decoder) table(key string, p toml.Primitive, v any, required bool) (bool, error) {
-	if !d.md.IsDefined(key) {
-		if required {
-			return false, &Error{Source: d.source, Key: key, Err: fmt.Errorf("%w: the file needs a [%s] table", ErrMissing, key)}
-		}
-		return false, nil
+	present, err := d.f.Table(key, p, v)
+	if err == nil && !present && required {
+		return false, &Error{Source: d.f.Source, Key: key, Err: fmt.Errorf("%w: the file needs a [%s] table", ErrMissing, key)}
 	}
-	// A table made implicitly by dotted keys (dielectric.er = 4) has no
-	// type of its own in the metadata.
-	if t := d.md.Type(key); t != "Hash" && t != "" {
-		return false, &Error{Source: d.source, Line: d.lines.line([]string{key}), Key: key,
-			Err: fmt.Errorf("%w: %s must be a table, not %s", ErrType, key, typeName(t))}
-	}
-	if err := d.md.PrimitiveDecode(p, v); err != nil {
-		return false, &Error{Source: d.source, Line: d.lines.line([]string{key}), Key: key, Err: fmt.Errorf("%w: %w", ErrType, err)}
-	}
-	return true, nil
+	return present, err
 }
 
 // missing makes the error for a required key that is not there.
-func (d *decoder) missing(key, hint string) error {
-	err := ErrMissing
-	if hint != "" {
-		err = fmt.Errorf("%w (%s)", ErrMissing, hint)
-	}
-	return &Error{Source: d.source, Line: d.lines.line(strings.Split(key, ".")), Key: key, Err: err}
-}
+func (d *decoder) missing(key, hint string) error { return d.f.Missing(key, hint) }
 
 // text reads a string value.
 func (d *decoder) text(key string, v any, required bool) (string, error) {

@@ -5,6 +5,7 @@ import (
 	"io"
 	"strconv"
 	"strings"
+	"stubcraft/stackups/tomlx"
 
 	"stubcraft/physical/units"
 )
@@ -20,37 +21,37 @@ func Encode(w io.Writer, s Stackup) error {
 	var b strings.Builder
 	kv := func(key, value string) { fmt.Fprintf(&b, "%s = %s\n", key, value) }
 
-	kv("name", quote(s.Name))
+	kv("name", tomlx.Quote(s.Name))
 	if s.Description != "" {
-		kv("description", quote(s.Description))
+		kv("description", tomlx.Quote(s.Description))
 	}
-	kv("line", quote(s.Line))
+	kv("line", tomlx.Quote(s.Line))
 	if s.Line == GCPW {
-		kv("gap", quote(formatLength(s.Gap)))
+		kv("gap", tomlx.Quote(formatLength(s.Gap)))
 	}
 
 	d := s.Dielectric
 	b.WriteString("\n[dielectric]\n")
-	kv("er", number(d.Er))
+	kv("er", tomlx.Number(d.Er))
 	if d.ErFrequency != 0 {
-		kv("er_frequency", quote(formatFrequency(d.ErFrequency)))
+		kv("er_frequency", tomlx.Quote(formatFrequency(d.ErFrequency)))
 	}
-	kv("loss_tangent", number(d.LossTangent))
-	kv("thickness", quote(formatLength(d.Thickness)))
+	kv("loss_tangent", tomlx.Number(d.LossTangent))
+	kv("thickness", tomlx.Quote(formatLength(d.Thickness)))
 
 	c := s.Copper
 	b.WriteString("\n[copper]\n")
-	kv("thickness", quote(formatLength(c.Thickness)))
+	kv("thickness", tomlx.Quote(formatLength(c.Thickness)))
 	if c.Roughness != 0 {
-		kv("roughness", quote(formatLength(c.Roughness)))
+		kv("roughness", tomlx.Quote(formatLength(c.Roughness)))
 	}
-	kv("conductivity", number(c.Conductivity))
+	kv("conductivity", tomlx.Number(c.Conductivity))
 
 	if m := s.Mask; m != nil {
 		b.WriteString("\n[mask]\n")
-		kv("thickness", quote(formatLength(m.Thickness)))
-		kv("er", number(m.Er))
-		kv("loss_tangent", number(m.LossTangent))
+		kv("thickness", tomlx.Quote(formatLength(m.Thickness)))
+		kv("er", tomlx.Number(m.Er))
+		kv("loss_tangent", tomlx.Number(m.LossTangent))
 	}
 
 	if sp := s.Spread; sp != (Spread{}) {
@@ -74,7 +75,7 @@ func Encode(w io.Writer, s Stackup) error {
 func erSpreadText(rel, er float64) string {
 	p := formatPercent(rel)
 	if sigDigits(p) <= short {
-		return quote(p)
+		return tomlx.Quote(p)
 	}
 	abs, ok := nearest(rel*er, "", func(s string) bool {
 		v, err := strconv.ParseFloat(s, 64)
@@ -83,7 +84,7 @@ func erSpreadText(rel, er float64) string {
 	if ok && sigDigits(abs) <= short {
 		return abs
 	}
-	return quote(p)
+	return tomlx.Quote(p)
 }
 
 // thicknessSpreadText is erSpreadText for the thickness, whose absolute
@@ -91,11 +92,11 @@ func erSpreadText(rel, er float64) string {
 func thicknessSpreadText(rel, thickness float64) string {
 	p := formatPercent(rel)
 	if sigDigits(p) <= short {
-		return quote(p)
+		return tomlx.Quote(p)
 	}
 	abs := formatLength(rel * thickness)
 	if v, err := units.ParseLength(abs); err == nil && v/thickness == rel && sigDigits(abs) <= short {
-		return quote(abs)
+		return tomlx.Quote(abs)
 	}
-	return quote(p)
+	return tomlx.Quote(p)
 }

@@ -2,83 +2,14 @@ package stackups
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"strconv"
 	"strings"
+	"stubcraft/stackups/tomlx"
 	"unicode/utf8"
 
 	"stubcraft/physical/units"
 )
-
-// literal writes a decoded TOML value the way a TOML file would hold it,
-// for error messages: strings quoted, numbers plain.
-func literal(v any) string {
-	switch v := v.(type) {
-	case nil:
-		return ""
-	case string:
-		return quote(v)
-	case int64:
-		return strconv.FormatInt(v, 10)
-	case float64:
-		return number(v)
-	case bool:
-		return strconv.FormatBool(v)
-	case map[string]any:
-		return "{...}"
-	case []any, []map[string]any:
-		return "[...]"
-	}
-	return fmt.Sprint(v)
-}
-
-// number writes a float as a TOML number that reads back exactly.
-func number(v float64) string {
-	switch {
-	case math.IsNaN(v):
-		return "nan"
-	case math.IsInf(v, 1):
-		return "inf"
-	case math.IsInf(v, -1):
-		return "-inf"
-	}
-	return strconv.FormatFloat(v, 'g', -1, 64)
-}
-
-// quote writes s as a TOML basic string. TOML knows fewer escapes than Go
-// (no \a, \v or \x), so strconv.Quote is not used. s must be valid UTF-8;
-// invalid bytes are written as U+FFFD.
-func quote(s string) string {
-	var b strings.Builder
-	b.WriteByte('"')
-	for _, r := range s {
-		switch r {
-		case '"':
-			b.WriteString(`\"`)
-		case '\\':
-			b.WriteString(`\\`)
-		case '\b':
-			b.WriteString(`\b`)
-		case '\t':
-			b.WriteString(`\t`)
-		case '\n':
-			b.WriteString(`\n`)
-		case '\f':
-			b.WriteString(`\f`)
-		case '\r':
-			b.WriteString(`\r`)
-		default:
-			if r < 0x20 || r == 0x7f {
-				fmt.Fprintf(&b, `\u%04X`, r)
-			} else {
-				b.WriteRune(r)
-			}
-		}
-	}
-	b.WriteByte('"')
-	return b.String()
-}
 
 // nearest returns the shortest text, among v and its neighbours a few ulps
 // away written with the suffix, for which ok holds; ok is false when none
@@ -147,7 +78,7 @@ func quantityText(x float64, unitNames []string, sizes []float64, base string, p
 // reads back exactly.
 func formatLength(x float64) string {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return number(x) // not readable; only for messages
+		return tomlx.Number(x) // not readable; only for messages
 	}
 	if math.Abs(x) >= 0.1e-3 {
 		return quantityText(x, []string{"mm", "um", "mil"}, []float64{1e-3, 1e-6, 25.4e-6}, "m", units.ParseLength)
@@ -168,7 +99,7 @@ func roundLength(x float64) string {
 // units.ParseFrequency reads back exactly.
 func formatFrequency(f float64) string {
 	if math.IsNaN(f) || math.IsInf(f, 0) {
-		return number(f)
+		return tomlx.Number(f)
 	}
 	names := []string{"GHz", "MHz", "kHz", "Hz"}
 	sizes := []float64{1e9, 1e6, 1e3, 1}
@@ -213,7 +144,7 @@ func parsePercent(s string) (float64, error) {
 // decimal point moved two places in the text.
 func formatPercent(x float64) string {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return number(x)
+		return tomlx.Number(x)
 	}
 	s := strconv.FormatFloat(x, 'f', -1, 64)
 	sign := ""

@@ -3,6 +3,7 @@ package stackups
 import (
 	"math"
 	"math/rand"
+	"stubcraft/stackups/tomlx"
 	"testing"
 
 	"stubcraft/physical/units"
@@ -130,8 +131,8 @@ func TestQuote(t *testing.T) {
 		{"µm εr", `"µm εr"`},
 	}
 	for _, tt := range tests {
-		if got := quote(tt.in); got != tt.want {
-			t.Errorf("quote(%q) = %s, want %s", tt.in, got, tt.want)
+		if got := tomlx.Quote(tt.in); got != tt.want {
+			t.Errorf("tomlx.Quote(%q) = %s, want %s", tt.in, got, tt.want)
 		}
 	}
 }

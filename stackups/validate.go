@@ -3,6 +3,7 @@ package stackups
 import (
 	"fmt"
 	"strings"
+	"stubcraft/stackups/tomlx"
 	"unicode"
 )
 
@@ -44,12 +45,14 @@ type check struct {
 }
 
 // Value writers for checks.
-func textValue(s string) func() string  { return func() string { return quote(s) } }
-func numValue(v float64) func() string  { return func() string { return number(v) } }
-func lenValue(v float64) func() string  { return func() string { return quote(formatLength(v)) } }
-func freqValue(v float64) func() string { return func() string { return quote(formatFrequency(v)) } }
-func pctValue(v float64) func() string  { return func() string { return quote(formatPercent(v)) } }
-func noValue() string                   { return "" }
+func textValue(s string) func() string { return func() string { return tomlx.Quote(s) } }
+func numValue(v float64) func() string { return func() string { return tomlx.Number(v) } }
+func lenValue(v float64) func() string { return func() string { return tomlx.Quote(formatLength(v)) } }
+func freqValue(v float64) func() string {
+	return func() string { return tomlx.Quote(formatFrequency(v)) }
+}
+func pctValue(v float64) func() string { return func() string { return tomlx.Quote(formatPercent(v)) } }
+func noValue() string                  { return "" }
 
 // checks lists the checks of every field in schema order.
 func (s Stackup) checks() []check {
@@ -59,18 +62,18 @@ func (s Stackup) checks() []check {
 		{"description", textValue(s.Description), checkText("a description", s.Description)},
 		{"line", textValue(s.Line), checkLine(s.Line)},
 		checkGap(s.Line, s.Gap),
-		{"dielectric.er", numValue(d.Er), between("relative permittivity", d.Er, 1, maxEr, number)},
+		{"dielectric.er", numValue(d.Er), between("relative permittivity", d.Er, 1, maxEr, tomlx.Number)},
 		{"dielectric.er_frequency", freqValue(d.ErFrequency), checkErFrequency(d.ErFrequency)},
 		{"dielectric.loss_tangent", numValue(d.LossTangent), lossTangent(d.LossTangent)},
 		{"dielectric.thickness", lenValue(d.Thickness), between("dielectric thickness", d.Thickness, minThickness, maxThickness, roundLength)},
 		{"copper.thickness", lenValue(c.Thickness), between("copper thickness", c.Thickness, 0, maxCopper, roundLength)},
 		{"copper.roughness", lenValue(c.Roughness), checkRoughness(c.Roughness, c.Thickness)},
-		{"copper.conductivity", numValue(c.Conductivity), between("conductivity", c.Conductivity, minConductivity, maxConductivity, number)},
+		{"copper.conductivity", numValue(c.Conductivity), between("conductivity", c.Conductivity, minConductivity, maxConductivity, tomlx.Number)},
 	}
 	if m := s.Mask; m != nil {
 		cs = append(cs,
 			check{"mask.thickness", lenValue(m.Thickness), checkMaskThickness(m.Thickness)},
-			check{"mask.er", numValue(m.Er), between("mask relative permittivity", m.Er, 1, maxEr, number)},
+			check{"mask.er", numValue(m.Er), between("mask relative permittivity", m.Er, 1, maxEr, tomlx.Number)},
 			check{"mask.loss_tangent", numValue(m.LossTangent), lossTangent(m.LossTangent)},
 		)
 	}

@@ -5,6 +5,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"stubcraft/stackups/tomlx"
 )
 
 // Design is a decoded design file: what is to be matched, at what
@@ -34,9 +35,9 @@ type Design struct {
 	Source string // the file's name for messages, as given to DecodeDesign
 	Dir    string // the directory of the design file; relative paths start there
 
-	// lines and values remember where each key was written and how, so
+	// file and values remember where each key was written and how, so
 	// that Validate can point at it. Read only after decoding.
-	lines  map[string]int
+	file   *tomlx.File
 	values map[string]string
 }
 
@@ -197,13 +198,12 @@ func (d Design) StackupRef() string {
 // Written reports whether the design file gave the dotted key
 // ("tolerance.er") itself, rather than leaving it to its default.
 func (d Design) Written(key string) bool {
-	_, ok := d.lines[key]
-	return ok
+	return d.file.Written(key)
 }
 
 // KeyError returns err as a *DesignError that points at key (a dotted path
 // such as "fab.min_width") in the design file, with its line and value as
 // written; an unwritten key points at its table.
 func (d Design) KeyError(key string, err error) error {
-	return &DesignError{Source: d.Source, Line: designLineOf(d.lines, key), Key: key, Value: d.values[key], Err: err}
+	return &DesignError{Source: d.Source, Line: d.file.Line(key), Key: key, Value: d.values[key], Err: err}
 }

@@ -6,30 +6,42 @@ import (
 	"io"
 	"math"
 	"path/filepath"
-	"reflect"
 	"strconv"
 	"strings"
 
 	"github.com/BurntSushi/toml"
 
 	"stubcraft/physical/units"
+	"stubcraft/stackups/tomlx"
 )
 
 // The file as the TOML reader sees it. Leaf values are `any` so that a
 // value of the wrong kind is reported by this package, with its key and
 // line, in the same words as every other fault.
 type designRaw struct {
-	Name      any                 `toml:"name"`
-	Frequency any                 `toml:"frequency"`
-	Z0        any                 `toml:"z0"`
-	Stackup   any                 `toml:"stackup"`
-	Load      *designRawLoad      `toml:"load"`
-	Match     *designRawMatch     `toml:"match"`
-	Section   []designRawSection  `toml:"section"`
-	Layout    *designRawLayout    `toml:"layout"`
-	Fab       *designRawFab       `toml:"fab"`
-	Sweep     *designRawSweep     `toml:"sweep"`
-	Tolerance *designRawTolerance `toml:"tolerance"`
+	Name      any            `toml:"name"`
+	Frequency any            `toml:"frequency"`
+	Z0        any            `toml:"z0"`
+	Stackup   any            `toml:"stackup"`
+	Load      toml.Primitive `toml:"load"`
+	Match     toml.Primitive `toml:"match"`
+	Section   toml.Primitive `toml:"section"`
+	Layout    toml.Primitive `toml:"layout"`
+	Fab       toml.Primitive `toml:"fab"`
+	Sweep     toml.Primitive `toml:"sweep"`
+	Tolerance toml.Primitive `toml:"tolerance"`
+}
+
+// designTables are the tables of designRaw, decoded once their kind has
+// been checked.
+type designTables struct {
+	Load      *designRawLoad
+	Match     *designRawMatch
+	Section   []designRawSection
+	Layout    *designRawLayout
+	Fab       *designRawFab
+	Sweep     *designRawSweep
+	Tolerance *designRawTolerance
 }
 
 type designRawLoad struct {
@@ -92,83 +104,88 @@ func DecodeDesign(r io.Reader, source, dir string) (Design, error) {
 	if err != nil {
 		return Design{}, &DesignError{Source: source, Err: fmt.Errorf("reading the design: %w", err)}
 	}
-	text := string(b)
 	var raw designRaw
-	md, err := toml.Decode(text, &raw)
+	f, err := tomlx.Decode(b, source, &raw)
 	if err != nil {
-		return Design{}, designDecodeFailure(source, err)
+		return Design{}, err
 	}
-	lines := designScanKeys(text)
-	if und := md.Undecoded(); len(und) > 0 {
-		k := und[0]
-		return Design{}, &DesignError{
-			Source: source,
-			Line:   designFindLine(lines, k),
-			Key:    designIndexedPath(lines, k),
-			Err:    fmt.Errorf("%w (%s)", ErrUnknownKey, designKnownKeys(k)),
-		}
+	if err := f.Unknown(designSchema(), "a design"); err != nil {
+		return Design{}, err
 	}
-	dd := &designDecoder{source: source, lines: lines, values: map[string]string{}}
-	d := dd.design(&raw, dir)
+	var tables designTables
+	if err := designDecodeTables(f, &raw, &tables); err != nil {
+		return Design{}, err
+	}
+	dd := &designDecoder{file: f, values: map[string]string{}}
+	d := dd.design(&raw, &tables, dir)
 	if dd.err != nil {
 		return Design{}, dd.err
 	}
-	d.lines, d.values = lines, dd.values
+	d.file, d.values = f, dd.values
 	if err := d.Validate(); err != nil {
 		return Design{}, err
 	}
 	return d, nil
 }
 
-// designKnownKeys says which keys the table of an unknown key takes.
-func designKnownKeys(k toml.Key) string {
-	t := reflect.TypeOf(designRaw{})
-	table := "the top level"
-	for _, part := range k[:len(k)-1] {
-		f, ok := designField(t, part)
-		if !ok {
-			return "not a table of a design file"
-		}
-		t = f.Type
-		for t.Kind() == reflect.Pointer || t.Kind() == reflect.Slice {
-			t = t.Elem()
-		}
-		table = "[" + part + "]"
+// designSchema lists the keys of a design file, table by table.
+func designSchema() tomlx.Schema {
+	return tomlx.Schema{
+		"":          {"name", "frequency", "z0", "stackup", "load", "match", "section", "layout", "fab", "sweep", "tolerance"},
+		"load":      {"impedance", "touchstone"},
+		"match":     {"topology", "stub", "pick", "stub_z0", "line_z0"},
+		"section":   {"kind", "end", "z0", "length"},
+		"layout":    {"feed_length", "stub_side", "margin", "mask", "max_board", "via_drill", "via_pad"},
+		"fab":       {"min_width"},
+		"sweep":     {"span", "start", "stop", "points"},
+		"tolerance": {"samples", "seed", "er", "thickness", "width", "copper"},
 	}
-	if t.Kind() != reflect.Struct {
-		return "not a table of a design file"
-	}
-	var names []string
-	for i := 0; i < t.NumField(); i++ {
-		names = append(names, t.Field(i).Tag.Get("toml"))
-	}
-	return table + " takes " + strings.Join(names, ", ")
 }
 
-func designField(t reflect.Type, name string) (reflect.StructField, bool) {
-	if t.Kind() != reflect.Struct {
-		return reflect.StructField{}, false
+// designDecodeTables checks the kind of each table and decodes it.
+func designDecodeTables(f *tomlx.File, raw *designRaw, t *designTables) error {
+	table := func(key string, p toml.Primitive, dst any, set func()) error {
+		ok, err := f.Table(key, p, dst)
+		if ok {
+			set()
+		}
+		return err
 	}
-	for i := 0; i < t.NumField(); i++ {
-		if t.Field(i).Tag.Get("toml") == name {
-			return t.Field(i), true
+	var (
+		load      designRawLoad
+		match     designRawMatch
+		layout    designRawLayout
+		fab       designRawFab
+		sweep     designRawSweep
+		tolerance designRawTolerance
+	)
+	for _, err := range []error{
+		table("load", raw.Load, &load, func() { t.Load = &load }),
+		table("match", raw.Match, &match, func() { t.Match = &match }),
+		table("layout", raw.Layout, &layout, func() { t.Layout = &layout }),
+		table("fab", raw.Fab, &fab, func() { t.Fab = &fab }),
+		table("sweep", raw.Sweep, &sweep, func() { t.Sweep = &sweep }),
+		table("tolerance", raw.Tolerance, &tolerance, func() { t.Tolerance = &tolerance }),
+	} {
+		if err != nil {
+			return err
 		}
 	}
-	return reflect.StructField{}, false
+	_, err := f.Tables("section", raw.Section, &t.Section)
+	return err
 }
 
 // designDecoder converts the raw file into a Design, keeping the first
 // fault.
 type designDecoder struct {
-	source string
-	lines  map[string]int
+	file   *tomlx.File
 	values map[string]string
 	err    error
 }
 
 func (dd *designDecoder) fail(path string, v any, err error) {
 	if dd.err == nil {
-		dd.err = &DesignError{Source: dd.source, Line: designLineOf(dd.lines, path), Key: path, Value: designValueText(v), Err: err}
+		dd.err = dd.file.Fail(path, v, err)
 	}
 }
 
@@ -187,26 +204,26 @@ func designRead[T any](dd *designDecoder, path string, v any, conv func(any) (T,
 		dd.fail(path, v, err)
 		return false
 	}
-	dd.values[path] = designValueText(v)
+	dd.values[path] = tomlx.Literal(v)
 	*dst = x
 	return true
 }
 
-func (dd *designDecoder) design(raw *designRaw, dir string) Design {
-	d := Design{Source: dd.source, Dir: dir}
+func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) Design {
+	d := Design{Source: dd.file.Source, Dir: dir}
 	designRead(dd, "name", raw.Name, designString, &d.Name, `name = "sensor-antenna-match"`)
 	designRead(dd, "frequency", raw.Frequency, designFrequency, &d.Freq, `frequency = "2.45GHz"`)
 	designRead(dd, "z0", raw.Z0, designOhms, &d.Z0, `z0 = 50`)
 	designRead(dd, "stackup", raw.Stackup, designString, &d.Stackup, `stackup = "my-board.toml"`)
 
-	if raw.Load == nil {
+	if tb.Load == nil {
 		dd.fail("load", nil, fmt.Errorf("%w; for example [load] impedance = \"22-j31\"", ErrMissingKey))
 	} else {
-		hasZ := designRead(dd, "load.impedance", raw.Load.Impedance, designImpedance, &d.Load.Impedance, "")
-		hasTS := designRead(dd, "load.touchstone", raw.Load.Touchstone, designString, &d.Load.Touchstone, "")
+		hasZ := designRead(dd, "load.impedance", tb.Load.Impedance, designImpedance, &d.Load.Impedance, "")
+		hasTS := designRead(dd, "load.touchstone", tb.Load.Touchstone, designString, &d.Load.Touchstone, "")
 		switch {
 		case hasZ && hasTS:
-			dd.fail("load.touchstone", raw.Load.Touchstone, errors.New("give either load.impedance or load.touchstone, not both"))
+			dd.fail("load.touchstone", tb.Load.Touchstone, errors.New("give either load.impedance or load.touchstone, not both"))
 		case !hasZ && !hasTS && dd.err == nil:
 			dd.fail("load", nil, fmt.Errorf("%w: the load needs impedance = \"22-j31\" or touchstone = \"antenna.s1p\"", ErrMissingKey))
 		case hasTS && d.Load.Touchstone != "" && !filepath.IsAbs(d.Load.Touchstone) && dir != "":
@@ -215,12 +232,12 @@ func (dd *designDecoder) design(raw *designRaw, dir string) Design {
 	}
 
 	switch {
-	case raw.Match != nil && len(raw.Section) > 0:
+	case tb.Match != nil && len(tb.Section) > 0:
 		dd.fail("match", nil, errors.New("give either a [match] table or [[section]] tables, not both"))
-	case raw.Match != nil:
-		d.Match = dd.match(raw.Match, d.Z0)
-	case len(raw.Section) > 0:
-		for i, rs := range raw.Section {
+	case tb.Match != nil:
+		d.Match = dd.match(tb.Match, d.Z0)
+	case len(tb.Section) > 0:
+		for i, rs := range tb.Section {
 			d.Sections = append(d.Sections, dd.section(i+1, rs, d.Z0))
 		}
 	default:
@@ -230,7 +247,7 @@ func (dd *designDecoder) design(raw *designRaw, dir string) Design {
 	}
 
 	d.Layout = DefaultLayout()
-	if l := raw.Layout; l != nil {
+	if l := tb.Layout; l != nil {
 		designRead(dd, "layout.feed_length", l.FeedLength, designLength, &d.Layout.FeedLength, "")
 		designRead(dd, "layout.stub_side", l.StubSide, designString, &d.Layout.StubSide, "")
 		designRead(dd, "layout.margin", l.Margin, designLength, &d.Layout.Margin, "")
@@ -241,11 +258,11 @@ func (dd *designDecoder) design(raw *designRaw, dir string) Design {
 		designRead(dd, "layout.edge_clearance", l.EdgeClear, designLength, &d.Layout.EdgeClearance, "")
 	}
 	d.Fab = DefaultFab()
-	if f := raw.Fab; f != nil {
+	if f := tb.Fab; f != nil {
 		designRead(dd, "fab.min_width", f.MinWidth, designLength, &d.Fab.MinWidth, "")
 	}
 	d.Sweep = DefaultSweep(d.Freq)
-	if s := raw.Sweep; s != nil {
+	if s := tb.Sweep; s != nil {
 		hasSpan := designRead(dd, "sweep.span", s.Span, designPercent, &d.Sweep.Span, "")
 		hasStart := designRead(dd, "sweep.start", s.Start, designFrequency, &d.Sweep.Start, "")
 		hasStop := designRead(dd, "sweep.stop", s.Stop, designFrequency, &d.Sweep.Stop, "")
@@ -262,7 +279,7 @@ func (dd *designDecoder) design(raw *designRaw, dir string) Design {
 		}
 	}
 	d.Tolerance = DefaultTolerance()
-	if t := raw.Tolerance; t != nil {
+	if t := tb.Tolerance; t != nil {
 		designRead(dd, "tolerance.samples", t.Samples, designInt, &d.Tolerance.Samples, "")
 		var seed int
 		if designRead(dd, "tolerance.seed", t.Seed, designInt, &seed, "") {

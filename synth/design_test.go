@@ -328,7 +328,7 @@ func TestDesignErrorText(t *testing.T) {
 		{DesignError{Source: "demo.toml", Line: 4, Key: "frequency", Value: `"0Hz"`, Err: errors.New("the design frequency must be positive")},
 			`demo.toml:4: frequency = "0Hz": the design frequency must be positive`},
 		{DesignError{Source: "demo.toml", Key: "name", Err: ErrMissingKey}, `demo.toml: name: a required key is missing`},
-		{DesignError{Err: errors.New("x")}, `design: x`},
+		{DesignError{Err: errors.New("x")}, `x`},
 	}
 	for _, c := range cases {
 		if got := c.err.Error(); got != c.want {

@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -32,7 +33,7 @@ func (c *designCheck) fail(path, fallback string, format string, args ...any) {
 	if !ok {
 		value = fallback
 	}
-	c.err = &DesignError{Source: c.d.Source, Line: designLineOf(c.d.lines, path), Key: path, Value: value, Err: fmt.Errorf(format, args...)}
+	c.err = &DesignError{Source: cmp.Or(c.d.Source, "design"), Line: c.d.file.Line(path), Key: path, Value: value, Err: fmt.Errorf(format, args...)}
 }
 
 func (c *designCheck) failErr(path, fallback string, err error) {

@@ -1,4 +1,4 @@
-package stackups
+package tomlx
 
 import (
 	"strconv"
@@ -8,7 +8,10 @@ import (
 
 // keyLines maps a key path to the 1-based line where it first appears in a
 // TOML text. BurntSushi/toml reports undecoded keys as paths without
-// positions, so the lines are found by scanning the source once more.
+// positions, so the lines are found by scanning the source once more. An
+// element of an array of tables is recorded both as the array ("section")
+// and with its 1-based index ("section[2]", and "section[2].length" for a
+// key in it).
 type keyLines map[string]int
 
 // pathKey is the map key of a path. No TOML key contains a NUL byte that
@@ -48,19 +51,11 @@ type frame struct {
 // scanner walks a TOML text that BurntSushi/toml has already accepted, so
 // it can be lenient about errors: it only needs to find where keys are.
 type scanner struct {
-	src   string
-	pos   int
-	line  int
-	lines keyLines
-}
-
-// indexKeys returns the line of every key and table header in src, which
-// must be valid TOML.
-func indexKeys(src string) keyLines {
-	src = strings.TrimPrefix(src, "\ufeff") // a byte-order mark, which TOML allows
-	sc := &scanner{src: src, line: 1, lines: keyLines{}}
-	sc.run()
-	return sc.lines
+	src    string
+	pos    int
+	line   int
+	lines  keyLines
+	arrays map[string]int // elements seen of each array of tables, by pathKey
 }
 
 func (sc *scanner) peek(n int) byte {
@@ -172,11 +167,13 @@ func (sc *scanner) run() {
 	}
 }
 
-// header reads "[a.b]" or "[[a.b]]", records it and returns its path.
+// header reads "[a.b]" or "[[a.b]]", records it and returns its path; the
+// path of an element of an array of tables ends in its index, "b[2]".
 func (sc *scanner) header() []string {
 	startLine := sc.line
 	sc.pos++ // [
-	if sc.peek(0) == '[' {
+	array := sc.peek(0) == '['
+	if array {
 		sc.pos++
 	}
 	sc.skipSpace(false)
@@ -186,6 +183,12 @@ func (sc *scanner) header() []string {
 		sc.pos++
 	}
 	sc.lines.record(path, startLine)
+	if array {
+		k := pathKey(path)
+		sc.arrays[k]++
+		path = append(path[:len(path)-1:len(path)-1], path[len(path)-1]+"["+strconv.Itoa(sc.arrays[k])+"]")
+		sc.lines.record(path, startLine)
+	}
 	return path
 }
 
@@ -307,4 +310,13 @@ func unquote(s string) string {
 		}
 	}
 	return b.String()
+}
+
+// indexKeys returns the line of every key and table header in src, which
+// must be valid TOML, and the element count of each array of tables.
+func indexKeys(src string) (keyLines, map[string]int) {
+	src = strings.TrimPrefix(src, "\ufeff") // a byte-order mark, which TOML allows
+	sc := &scanner{src: src, line: 1, lines: keyLines{}, arrays: map[string]int{}}
+	sc.run()
+	return sc.lines, sc.arrays
 }

@@ -1,4 +1,4 @@
-package stackups
+package tomlx
 
 import (
 	"strings"
@@ -52,7 +52,8 @@ esc = "\"quoted = 1\""
 		{[]string{"table", "sub"}, 16},
 		{[]string{"table", "sub", "key"}, 17},
 		{[]string{"table", "sub", "missing"}, 16}, // falls back to its table
-		{[]string{"aot", "k"}, 19},
+		{[]string{"aot[1]", "k"}, 19},
+		{[]string{"aot", "k"}, 18}, // a key of an element is found under its index
 		{[]string{"x", "esc"}, 21},
 		{[]string{"x", "quoted"}, 20}, // only the table x matches
 		{[]string{"x", "q.k"}, 22},
@@ -61,7 +62,7 @@ esc = "\"quoted = 1\""
 		{[]string{"not"}, 0},
 	}
 	for _, text := range []string{src, "\ufeff" + src, strings.ReplaceAll(src, "\n", "\r\n")} {
-		lines := indexKeys(text)
+		lines, _ := indexKeys(text)
 		for _, tt := range tests {
 			if got := lines.line(tt.path); got != tt.line {
 				t.Errorf("line(%q) = %d, want %d (text starts %q)", tt.path, got, tt.line, text[:8])
