@@ -14,14 +14,14 @@ import (
 )
 
 // schema returns the keys a stackup file may hold: the top-level keys, and
-// for each table the keys inside it, in the order they are documented.
+// for each table the keys inside it, in the order of the raw structs.
 func schema() tomlx.Schema {
 	return tomlx.Schema{
-		"":           {"name", "description", "line", "gap", "dielectric", "copper", "mask", "spread"},
-		"dielectric": {"er", "er_frequency", "loss_tangent", "thickness"},
-		"copper":     {"thickness", "weight", "roughness", "conductivity"},
-		"mask":       {"thickness", "er", "loss_tangent"},
-		"spread":     {"er", "thickness"},
+		"":           tomlx.Keys(rawFile{}),
+		"dielectric": tomlx.Keys(rawDielectric{}),
+		"copper":     tomlx.Keys(rawCopper{}),
+		"mask":       tomlx.Keys(rawMask{}),
+		"spread":     tomlx.Keys(rawSpread{}),
 	}
 }
 

@@ -131,14 +131,14 @@ func DecodeDesign(r io.Reader, source, dir string) (Design, error) {
 // designSchema lists the keys of a design file, table by table.
 func designSchema() tomlx.Schema {
 	return tomlx.Schema{
-		"":          {"name", "frequency", "z0", "stackup", "load", "match", "section", "layout", "fab", "sweep", "tolerance"},
-		"load":      {"impedance", "touchstone"},
-		"match":     {"topology", "stub", "pick", "stub_z0", "line_z0"},
-		"section":   {"kind", "end", "z0", "length"},
-		"layout":    {"feed_length", "stub_side", "margin", "mask", "max_board", "via_drill", "via_pad"},
-		"fab":       {"min_width"},
-		"sweep":     {"span", "start", "stop", "points"},
-		"tolerance": {"samples", "seed", "er", "thickness", "width", "copper"},
+		"":          tomlx.Keys(designRaw{}),
+		"load":      tomlx.Keys(designRawLoad{}),
+		"match":     tomlx.Keys(designRawMatch{}),
+		"section":   tomlx.Keys(designRawSection{}),
+		"layout":    tomlx.Keys(designRawLayout{}),
+		"fab":       tomlx.Keys(designRawFab{}),
+		"sweep":     tomlx.Keys(designRawSweep{}),
+		"tolerance": tomlx.Keys(designRawTolerance{}),
 	}
 }
 

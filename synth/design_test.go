@@ -510,3 +510,12 @@ func BenchmarkDecodeDesign(b *testing.B) {
 		}
 	}
 }
+
+// Every key the decoder reads is in the schema that refuses unknown keys:
+// a design writing each optional key of [layout] decodes.
+func TestDesignSchemaTakesEveryLayoutKey(t *testing.T) {
+	text := designBase + "[layout]\nfeed_length = \"5mm\"\nstub_side = \"up\"\nmargin = \"5mm\"\nedge_clearance = \"0.3mm\"\n"
+	if _, err := DecodeDesign(strings.NewReader(text), "d.toml", ""); err != nil {
+		t.Fatal(err)
+	}
+}

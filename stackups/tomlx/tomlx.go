@@ -21,6 +21,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"reflect"
 	"sort"
 	"strconv"
 	"strings"
@@ -247,6 +248,20 @@ func (f *File) decode(path string, p toml.Primitive, v any, kind, want string) (
 // Schema["dielectric"] the keys of [dielectric], and so on (an array of
 // tables by its name without index).
 type Schema map[string][]string
+
+// Keys returns the toml tags of the fields of the struct raw, in order: the
+// keys of one table of a schema, read from the struct that decodes it so
+// the two cannot drift apart.
+func Keys(raw any) []string {
+	t := reflect.TypeOf(raw)
+	var keys []string
+	for i := 0; i < t.NumField(); i++ {
+		if k, _, _ := strings.Cut(t.Field(i).Tag.Get("toml"), ","); k != "" && k != "-" {
+			keys = append(keys, k)
+		}
+	}
+	return keys
+}
 
 // Unknown returns an *Error wrapping ErrUnknownKey for the first key, in
 // file order, that s does not hold, naming the keys its table takes; what
