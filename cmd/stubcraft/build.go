@@ -9,6 +9,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"stubcraft/cmd/stubcraft/internal/outdir"
 	"stubcraft/export"
 	"stubcraft/synth"
 )
@@ -37,8 +38,19 @@ the electrical network, size every line on the stackup, correct the
 lengths for open ends, T-junctions and vias, re-centre the layout in the
 full model, sweep the band, run the tolerance analysis, and write the
 report, Touchstone files, Gerber X2 artwork, drill and job files and the
-dimensioned drawing into the output directory. An existing directory is
-replaced only with --force; nothing is written when any step fails.
+dimensioned drawing into the output directory, with a manifest
+(stubcraft-manifest.sha256) of every file and its SHA-256. Nothing is
+written when any step fails or the build is interrupted (exit 130 for
+SIGINT, 143 for SIGTERM); the new directory replaces the old in one step.
+
+An existing directory is refused unless --force is given. --force
+replaces only a directory stubcraft wrote: one that holds its manifest
+and no file the manifest does not list, or an empty one. It refuses,
+listing what would be lost, a directory with any other file or
+subdirectory, and one that holds the design, stackup or Touchstone file
+being built. A symbolic link stays; its target gets the build. A second
+build to the same directory waits up to 3 s, then fails "in use by
+process N".
 
 ` + cautionText(),
 		Example: `  stubcraft build -o out
@@ -53,6 +65,11 @@ replaced only with --force; nothing is written when any step fails.
 			if err != nil {
 				return err
 			}
+			out, err := openOutput(cmd, outDir, force, path, in.Design.StackupRef(), stackupArg, in.Design.Load.Touchstone)
+			if err != nil {
+				return err
+			}
+			defer out.Close()
 			if cmd.Flags().Changed("samples") {
 				if samples < 0 {
 					return fmt.Errorf("--samples %d: must not be negative", samples)
@@ -84,7 +101,7 @@ replaced only with --force; nothing is written when any step fails.
 			for _, f := range export.Files(res, export.FileOptions{Version: version, Created: created, Page: page.Size, Fit: page.Fit}) {
 				files = append(files, artefact{f.Name, f.Write})
 			}
-			if err := writeDir(outDir, force, files); err != nil {
+			if err := out.write(cmd.Context(), files); err != nil {
 				return err
 			}
 			rep := export.NewReport(res, version)
@@ -96,7 +113,7 @@ replaced only with --force; nothing is written when any step fails.
 	}
 	f := cmd.Flags()
 	f.StringVarP(&outDir, "out", "o", "stubcraft-out", "output directory")
-	f.BoolVar(&force, "force", false, "replace an existing output directory")
+	f.BoolVar(&force, "force", false, "replace an existing output directory that stubcraft wrote (never one holding other files or the inputs)")
 	f.StringVar(&stackupArg, "stackup", "", "build on this stackup instead of the design's (preset name or TOML path)")
 	f.BoolVar(&noTolerance, "no-tolerance", false, "skip the Monte Carlo tolerance analysis")
 	f.IntVar(&samples, "samples", 0, "Monte Carlo samples (overrides the design file)")
@@ -171,7 +188,7 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 	for _, warn := range rep.Warnings {
 		fmt.Fprintln(w, "warning:", warn)
 	}
-	fmt.Fprintf(w, "\nwrote %d files to %s\n\n%s", len(files), dir, cautionText())
+	fmt.Fprintf(w, "\nwrote %d files and %s to %s\n\n%s", len(files), outdir.ManifestName, dir, cautionText())
 	return nil
 }
 

@@ -127,30 +127,6 @@ func TestBuildDemo(t *testing.T) {
 	}
 }
 
-// An existing output directory is not silently replaced; --force does it.
-func TestBuildRefusesExistingDir(t *testing.T) {
-	dir := t.TempDir()
-	keep := filepath.Join(dir, "keep.txt")
-	if err := os.WriteFile(keep, []byte("mine"), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	if _, err := runRoot(t, "build", "-o", dir, "--no-tolerance"); err == nil || !strings.Contains(err.Error(), "--force") {
-		t.Fatalf("want a refusal naming --force, got %v", err)
-	}
-	if _, err := os.Stat(keep); err != nil {
-		t.Fatal("the existing directory was touched")
-	}
-	if out, err := runRoot(t, "build", "-o", dir, "--no-tolerance", "--force"); err != nil {
-		t.Fatalf("%v\n%s", err, out)
-	}
-	if _, err := os.Stat(keep); err == nil {
-		t.Error("--force kept the old contents")
-	}
-	if _, err := os.Stat(filepath.Join(dir, "report.json")); err != nil {
-		t.Error(err)
-	}
-}
-
 // Bad design files: a clear error naming the file and key, and nothing
 // written to the output directory.
 func TestBuildBadDesignWritesNothing(t *testing.T) {

@@ -6,11 +6,48 @@ import (
 	"context"
 	"fmt"
 	"os"
+	"os/signal"
+	"syscall"
 )
 
 func main() {
-	if err := newRootCmd().ExecuteContext(context.Background()); err != nil {
-		fmt.Fprintln(os.Stderr, "stubcraft:", err)
-		os.Exit(1)
+	os.Exit(run())
+}
+
+// run executes the command line and returns the exit status: 0, 1 for an
+// error, 130 after SIGINT and 143 after SIGTERM (128 + the signal number,
+// as shells report a process the signal ended). The first signal cancels
+// the command's context, so the build stops, removes its temporary files
+// and writes nothing; a second one ends the process at once.
+func run() int {
+	term, stopTerm := signal.NotifyContext(context.Background(), syscall.SIGTERM)
+	defer stopTerm()
+	ctx, stopInt := signal.NotifyContext(term, os.Interrupt)
+	defer stopInt()
+	go func() {
+		<-ctx.Done()
+		stopInt()
+		stopTerm()
+	}()
+	err := newRootCmd().ExecuteContext(ctx)
+	switch {
+	case err == nil:
+		return 0
+	case signalled(term):
+		fmt.Fprintln(os.Stderr, "stubcraft: stopped by SIGTERM; no output written")
+		return 143
+	case signalled(ctx):
+		fmt.Fprintln(os.Stderr, "stubcraft: interrupted (SIGINT); no output written")
+		return 130
 	}
+	fmt.Fprintln(os.Stderr, "stubcraft:", err)
+	return 1
+}
+
+// signalled reports whether a signal, rather than its stop function,
+// cancelled a context from signal.NotifyContext: the signal leaves its own
+// cause, stop leaves context.Canceled itself.
+func signalled(ctx context.Context) bool {
+	cause := context.Cause(ctx)
+	return cause != nil && cause != context.Canceled
 }
