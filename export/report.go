@@ -6,6 +6,7 @@ import (
 	"io"
 	"math"
 	"math/cmplx"
+	"path/filepath"
 
 	"stubcraft/physical"
 	"stubcraft/synth"
@@ -182,6 +183,26 @@ func returnLossText(rl float64) string {
 	return fmt.Sprintf("%.1f dB", rl)
 }
 
+// designRelative returns path relative to the design file's directory,
+// with forward slashes, so that the report does not depend on where the
+// build ran from; unchanged when the design has no directory (the demo)
+// or no relative form exists.
+func designRelative(d synth.Design, path string) string {
+	if path == "" || d.Dir == "" {
+		return path
+	}
+	dir, err1 := filepath.Abs(d.Dir)
+	abs, err2 := filepath.Abs(path)
+	if err1 != nil || err2 != nil {
+		return path
+	}
+	rel, err := filepath.Rel(dir, abs)
+	if err != nil {
+		return path
+	}
+	return filepath.ToSlash(rel)
+}
+
 // NewReport gathers the report of a build.
 func NewReport(r *synth.Result, version string) Report {
 	d, st := r.Design, r.Stackup
@@ -211,7 +232,7 @@ func NewReport(r *synth.Result, version string) Report {
 		rep.Stackup.GapMM = &g
 	}
 	g := physical.Reflection(r.LoadF0, d.Z0)
-	rep.Load = ReportLoad{Touchstone: d.Load.Touchstone, ROhm: real(r.LoadF0), XOhm: imag(r.LoadF0),
+	rep.Load = ReportLoad{Touchstone: designRelative(d, d.Load.Touchstone), ROhm: real(r.LoadF0), XOhm: imag(r.LoadF0),
 		GammaMag: cmplx.Abs(g), VSWR: physical.VSWR(g), ReturnLossDB: physical.ReturnLossDB(g)}
 	for _, s := range r.Sections {
 		end := ""
