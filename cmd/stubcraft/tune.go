@@ -87,6 +87,11 @@ state explains, is refused and gives no trims.
 			}
 			rep := newTuneReport(res, tr, args[0], args[1])
 			if outDir != "" {
+				out, err := openOutput(cmd, outDir, force, args[0], args[1], in.Design.StackupRef(), in.Design.Load.Touchstone)
+				if err != nil {
+					return err
+				}
+				defer out.Close()
 				trimmed, err := res.Trimmed(tr.Trims.Trims)
 				if err != nil {
 					return err
@@ -101,7 +106,7 @@ state explains, is refused and gives no trims.
 						files = append(files, artefact{f.Name, f.Write})
 					}
 				}
-				if err := writeDir(outDir, force, files); err != nil {
+				if err := out.write(cmd.Context(), files); err != nil {
 					return err
 				}
 			}
