@@ -8,6 +8,7 @@ import (
 	"time"
 
 	"stubcraft/physical"
+	"stubcraft/physical/units"
 	"stubcraft/stackups"
 	"stubcraft/synth"
 )
@@ -103,7 +104,7 @@ func JobStackOf(st stackups.Stackup) JobStack {
 func TouchstoneComments(res *synth.Result, version, what string) []string {
 	return []string{
 		fmt.Sprintf("stubcraft %s: %s", version, what),
-		fmt.Sprintf("design %s at %.6g GHz on %s, reference %g ohm", res.Design.Name, res.Design.Freq/1e9, res.Stackup.Name, res.Design.Z0),
+		fmt.Sprintf("design %s at %s on %s, reference %g ohm", res.Design.Name, units.FormatFrequency(res.Design.Freq, 6), res.Stackup.Name, res.Design.Z0),
 		"simulated, not measured: verify with a network analyser",
 	}
 }

@@ -4,11 +4,13 @@ import (
 	"bytes"
 	"fmt"
 	"io"
+	"math"
 	"strings"
 	"time"
 
 	"github.com/jung-kurt/gofpdf"
 
+	"stubcraft/physical/units"
 	"stubcraft/synth/geom"
 )
 
@@ -202,36 +204,53 @@ func (d *doc) titleBlock(n int) {
 	if name == "" {
 		name = "unnamed design"
 	}
-	f.SetFont(fontSans, "B", 13)
+	// The name shrinks to fit, then wraps (two lines at most); the lines
+	// under it move down with it.
+	pt, lines := fitText(f, name, "B", 13, 8, 0.40*w-8, 2)
 	setText(f, colInk)
-	f.Text(x0+6, y0+8.5, clipText(f, name, 0.42*w))
+	f.SetFont(fontSans, "B", pt)
+	base := y0 + 8.5
+	if len(lines) > 1 {
+		base = y0 + 5.5
+	}
+	lh := pt * 25.4 / 72 * pitchEm
+	for i, l := range lines {
+		f.Text(x0+6, base+float64(i)*lh, l)
+	}
+	sub := base + float64(len(lines)-1)*lh + 4.5
 	f.SetFont(fontSans, "", 7)
 	setText(f, colMuted)
-	f.Text(x0+6, y0+13, "matching network, top copper over a solid ground plane")
-	f.Text(x0+6, y0+17, "all dimensions in mm unless stated")
+	f.Text(x0+6, sub, "matching network, top copper over a solid ground plane")
+	f.Text(x0+6, math.Min(sub+4, y0+titleBlockH-1.5), "all dimensions in mm unless stated")
 
-	cx := x0 + 0.45*w
-	cw := (x0 + w - 30 - cx) / 3
+	// Frequency, reference, date and tool take two narrow columns; the
+	// stackup the rest of the width up to the sheet number.
+	cx := x0 + 0.40*w
+	colX := []float64{cx, cx + 24, cx + 48}
+	colW := []float64{23, 23, x0 + w - 30 - colX[2] - 2}
 	cells := []struct {
 		label, value string
 		col, row     int
-		span         float64
+		lines        int // the most lines the value may wrap to
 	}{
-		{"frequency", formatGHz(d.rep.FrequencyHz), 0, 0, 1},
+		{"frequency", formatFreq(d.rep.FrequencyHz), 0, 0, 1},
 		{"reference", fmt.Sprintf("%.4g Ω", d.rep.Z0Ohm), 1, 0, 1},
-		{"stackup", d.rep.Stackup.Name, 2, 0, 1},
+		{"stackup", d.rep.Stackup.Name, 2, 0, 3},
 		{"date", created.Format("2006-01-02"), 0, 1, 1},
-		{"tool", "stubcraft " + version(d.rep, d.opt), 1, 1, 2},
+		{"tool", "stubcraft " + version(d.rep, d.opt), 1, 1, 1},
 	}
 	for _, c := range cells {
-		x := cx + float64(c.col)*cw
+		x := colX[c.col]
 		y := y0 + 2 + float64(c.row)*10
 		f.SetFont(fontSans, "", 6)
 		setText(f, colAccent)
 		f.Text(x, y+3, c.label)
-		f.SetFont(fontSans, "B", 8)
+		pt, lines := fitText(f, c.value, "B", 8, 6, colW[c.col], c.lines)
+		f.SetFont(fontSans, "B", pt)
 		setText(f, colInk)
-		f.Text(x, y+7.5, clipText(f, c.value, c.span*cw-2))
+		for i, l := range lines {
+			f.Text(x, y+7.5+float64(i)*pt*25.4/72*pitchEm, l)
+		}
 	}
 	setDraw(f, colRule)
 	f.SetLineWidth(0.2)
@@ -247,22 +266,63 @@ func (d *doc) titleBlock(n int) {
 	f.Text(x0+w-27, y0+17, "stubcraft drawing")
 }
 
-// clipText shortens s with an ellipsis to fit w mm in the current font.
-func clipText(f *gofpdf.Fpdf, s string, w float64) string {
-	if f.GetStringWidth(s) <= w {
-		return s
+// fitText sets s in the largest size from maxPt down to minPt (in half
+// points) at which it fits width w on one line; when even minPt is too
+// wide it wraps s into at most n lines, breaking after spaces, hyphens and
+// underscores (or anywhere in a run with none), at minPt or, if n lines
+// cannot hold it there, smaller down to 4.5 pt. It returns the size and
+// the lines; the text is never cut.
+func fitText(f *gofpdf.Fpdf, s, style string, maxPt, minPt, w float64, n int) (float64, []string) {
+	for pt := maxPt; pt >= minPt; pt -= 0.5 {
+		f.SetFont(fontSans, style, pt)
+		if f.GetStringWidth(s) <= w {
+			return pt, []string{s}
+		}
 	}
-	r := []rune(s)
-	for len(r) > 1 && f.GetStringWidth(string(r)+"…") > w {
-		r = r[:len(r)-1]
+	var lines []string
+	pt := minPt
+	for ; pt >= 4.5; pt -= 0.5 {
+		f.SetFont(fontSans, style, pt)
+		lines = wrapText(f, s, w, n)
+		if f.GetStringWidth(lines[len(lines)-1]) <= w {
+			break
+		}
 	}
-	return string(r) + "…"
+	return math.Max(pt, 4.5), lines
 }
 
-// formatGHz formats a frequency in GHz with four significant digits.
-func formatGHz(hz float64) string {
-	return fmt.Sprintf("%.4g GHz", hz/1e9)
+// wrapText breaks s into at most n lines of width w in the current font,
+// after spaces, hyphens and underscores where it can; the last line takes
+// the rest.
+func wrapText(f *gofpdf.Fpdf, s string, w float64, n int) []string {
+	var lines []string
+	rest := []rune(s)
+	for len(rest) > 0 && len(lines) < n-1 {
+		k := len(rest)
+		for k > 1 && f.GetStringWidth(string(rest[:k])) > w {
+			k--
+		}
+		if k == len(rest) {
+			break
+		}
+		for j := k; j > 0; j-- {
+			if c := rest[j-1]; c == ' ' || c == '-' || c == '_' {
+				k = j
+				break
+			}
+		}
+		lines = append(lines, strings.TrimRight(string(rest[:k]), " "))
+		rest = rest[k:]
+	}
+	if len(rest) > 0 {
+		lines = append(lines, string(rest))
+	}
+	return lines
 }
+
+// formatFreq formats a frequency in its unit (MHz below 1 GHz) with up to
+// six significant digits: "2.45 GHz", "433.92 MHz".
+func formatFreq(hz float64) string { return units.FormatFrequency(hz, 6) }
 
 // mm3 formats a length in mm with three decimals and a true minus sign.
 func mm3(v float64) string { return minus(fmt.Sprintf("%.3f", v)) }

@@ -4,12 +4,14 @@ import (
 	"fmt"
 	"math"
 	"strings"
+
+	"stubcraft/physical/units"
 )
 
 // dataSheets draws the sheet of stackup, elements and response, and as
 // many continuation sheets as the notes need.
 func (d *doc) dataSheets(b boardModel) {
-	d.newSheet("Stackup, elements and response", fmt.Sprintf("%s, %s", d.rep.Name, formatGHz(d.rep.FrequencyHz)))
+	d.newSheet("Stackup, elements and response", fmt.Sprintf("%s, %s", d.rep.Name, formatFreq(d.rep.FrequencyHz)))
 	x, y, w, _ := d.contentBox()
 	y = d.elementTable(x, y, w)
 	half := (w - 8) / 2
@@ -123,7 +125,8 @@ func txt(f interface {
 func (d *doc) stackup(x, y, w, h float64) {
 	f := d.pdf
 	st := d.rep.Stackup
-	f.SetFont(fontSans, "B", 7.5)
+	pt, _ := fitText(f, "Stackup cross-section: "+st.Name, "B", 7.5, 4.5, w, 1)
+	f.SetFont(fontSans, "B", pt)
 	setText(f, colInk)
 	f.Text(x, y+2, "Stackup cross-section: "+st.Name)
 	f.SetFont(fontSans, "", 5.5)
@@ -164,7 +167,7 @@ func (d *doc) stackup(x, y, w, h float64) {
 	f.Rect(bx, yy, bw, diel, "F")
 	erAt := ""
 	if st.ErFrequencyHz > 0 {
-		erAt = " at " + formatGHz(st.ErFrequencyHz)
+		erAt = " at " + formatFreq(st.ErFrequencyHz)
 	}
 	layers = append(layers, layer{yy + diel/2, diel, fmt.Sprintf("dielectric: h = %s mm, εr = %.2f%s, tan δ = %.4f", mm3(st.ThicknessMM), st.Er, erAt, st.LossTangent)})
 	// Thickness dimension on the dielectric.
@@ -226,7 +229,7 @@ func (d *doc) s11Chart(x, y, w, h float64) {
 	f0 := d.rep.FrequencyHz / 1e9
 	if f0 >= lo && f0 <= hi {
 		dashed(f, c.X(f0), y, c.X(f0), y+h, colCurveB)
-		label(f, "f0 "+formatGHz(d.rep.FrequencyHz), c.X(f0)+1, y+2.5, "L", noteFontPt, colCurveB)
+		label(f, "f0 "+formatFreq(d.rep.FrequencyHz), c.X(f0)+1, y+2.5, "L", noteFontPt, colCurveB)
 	}
 	clamped := make([]float64, len(sw.S11DB))
 	for i, v := range sw.S11DB {
@@ -416,7 +419,7 @@ func (d *doc) results(x, y, w float64) {
 		minus(fmt.Sprintf("return loss %s, VSWR %.2f, network loss %.3f dB at f0", returnLossText(r.ReturnLossDBF0), r.VSWRF0, r.NetworkLossDBF0)),
 	}
 	if r.Bandwidth10DBHz > 0 {
-		lines = append(lines, minus(fmt.Sprintf("band |S11| < −10 dB: %.4g to %.4g GHz (%.1f MHz)", r.Band10DBHz[0]/1e9, r.Band10DBHz[1]/1e9, r.Bandwidth10DBHz/1e6)))
+		lines = append(lines, minus(fmt.Sprintf("band |S11| < −10 dB: %s (%.1f MHz)", units.FormatFrequencyRange(r.Band10DBHz[0], r.Band10DBHz[1], 4), r.Bandwidth10DBHz/1e6)))
 	}
 	if t := r.Tolerance; t != nil {
 		lines = append(lines, minus(fmt.Sprintf("spreads: εr ±%.1f %%, h ±%.1f %%, width ±%.0f µm, copper ±%.1f %%; median %.1f dB, 90 %% %.1f dB, yield below %.0f dB %.1f %%",

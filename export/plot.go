@@ -103,7 +103,7 @@ func s11Plot(rep Report) (*plot.Plot, error) {
 		mark.Color = colour(colCurveB)
 		mark.Dashes = []vg.Length{vg.Points(2), vg.Points(2)}
 		p.Add(mark)
-		p.Legend.Add("f0 "+formatGHz(rep.FrequencyHz), mark)
+		p.Legend.Add("f0 "+formatFreq(rep.FrequencyHz), mark)
 	}
 	p.Legend.Top = false
 	return p, nil

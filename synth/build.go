@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"stubcraft/physical/units"
 
 	"gonum.org/v1/gonum/optimize"
 
@@ -452,12 +453,12 @@ func (r *Result) sweep(sim *physical.Sim, load Load) error {
 		band Band
 	}{{"−10 dB", r.BW10}, {"−20 dB", r.BW20}} {
 		if b.band.OK && (b.band.Lo <= s.Freqs[0] || b.band.Hi >= s.Freqs[len(s.Freqs)-1]) {
-			r.Warnings = append(r.Warnings, fmt.Sprintf("the %s band reaches the edge of the sweep (%.6g–%.6g GHz): it is at least that wide; widen [sweep] to see all of it",
-				b.name, s.Freqs[0]/1e9, s.Freqs[len(s.Freqs)-1]/1e9))
+			r.Warnings = append(r.Warnings, fmt.Sprintf("the %s band reaches the edge of the sweep (%s): it is at least that wide; widen [sweep] to see all of it",
+				b.name, units.FormatFrequencyRange(s.Freqs[0], s.Freqs[len(s.Freqs)-1], 6)))
 		}
 	}
 	if !r.BW10.OK {
-		r.Warnings = append(r.Warnings, fmt.Sprintf("|S11| at %.6g GHz is above −10 dB: the layout does not match", f0/1e9))
+		r.Warnings = append(r.Warnings, fmt.Sprintf("|S11| at %s is above −10 dB: the layout does not match", units.FormatFrequency(f0, 6)))
 	}
 	return nil
 }

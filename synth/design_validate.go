@@ -7,6 +7,8 @@ import (
 	"math/cmplx"
 	"strconv"
 	"strings"
+
+	"stubcraft/physical/units"
 )
 
 // Line impedances a design may ask for, ohm. Printed microstrip outside
@@ -248,8 +250,8 @@ func (d Design) Electrical(zLoadAtF0 complex128) ([]Section, []string, error) {
 		return nil, nil, err
 	}
 	g, _, rl := LoadReport(zLoadAtF0, d.Z0)
-	notes := []string{fmt.Sprintf("load %s ohm at %.6g GHz on %g ohm: |Γ| = %.4f, return loss %.2f dB",
-		matchZText(zLoadAtF0), d.Freq/1e9, d.Z0, g, rl)}
+	notes := []string{fmt.Sprintf("load %s ohm at %s on %g ohm: |Γ| = %.4f, return loss %.2f dB",
+		matchZText(zLoadAtF0), units.FormatFrequency(d.Freq, 6), d.Z0, g, rl)}
 	if d.Match != nil {
 		m := *d.Match
 		sols, err := SolveShuntStubZ(zLoadAtF0, d.Z0, m.LineZ0, m.StubZ0, m.End)

@@ -7,6 +7,7 @@ import (
 
 	"stubcraft/physical"
 	"stubcraft/physical/fieldsolve"
+	"stubcraft/physical/units"
 	"stubcraft/stackups"
 )
 
@@ -70,8 +71,8 @@ func SubstrateAt(st stackups.Stackup, f0 float64) (physical.Substrate, []string)
 		return sub, nil
 	}
 	at := sub.At(fr, f0)
-	return at, []string{fmt.Sprintf("dielectric: εr %.3f and tanδ %.4f at %.4g GHz become %.3f and %.4f at %.4g GHz (wideband Debye model, Djordjevic-Sarkar 2001)",
-		sub.Er, sub.LossTangent, fr/1e9, at.Er, at.LossTangent, f0/1e9)}
+	return at, []string{fmt.Sprintf("dielectric: εr %.3f and tanδ %.4f at %s become %.3f and %.4f at %s (wideband Debye model, Djordjevic-Sarkar 2001)",
+		sub.Er, sub.LossTangent, units.FormatFrequency(fr, 4), at.Er, at.LossTangent, units.FormatFrequency(f0, 6))}
 }
 
 // ToleranceMaker returns the line maker the tolerance analysis uses for

@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"stubcraft/physical"
+	"stubcraft/physical/units"
 )
 
 // The refusals of Build. Each carries its figures and is found with
@@ -42,8 +43,8 @@ type MismatchError struct {
 const MismatchLimitDB = -10
 
 func (e *MismatchError) Error() string {
-	return fmt.Sprintf("the layout does not match: |S11| at %.6g GHz is %.1f dB, the electrical network alone gives |Γ| = %.3f and the lines lose %.2f dB",
-		e.FreqHz/1e9, e.S11DB, e.ElectricalGamma, e.LossDB)
+	return fmt.Sprintf("the layout does not match: |S11| at %s is %.1f dB, the electrical network alone gives |Γ| = %.3f and the lines lose %.2f dB",
+		units.FormatFrequency(e.FreqHz, 6), e.S11DB, e.ElectricalGamma, e.LossDB)
 }
 
 // NarrowElement is one element narrower than the fab minimum.

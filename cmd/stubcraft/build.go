@@ -11,6 +11,7 @@ import (
 
 	"stubcraft/cmd/stubcraft/internal/outdir"
 	"stubcraft/export"
+	"stubcraft/physical/units"
 	"stubcraft/synth"
 )
 
@@ -147,7 +148,7 @@ func designName(path string) string {
 
 // printSummary writes the human-readable account of a build.
 func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) error {
-	fmt.Fprintf(w, "%s at %.6g GHz, %g Ω, on %s (%s)\n", rep.Name, rep.FrequencyHz/1e9, rep.Z0Ohm, rep.Stackup.Name, rep.Model)
+	fmt.Fprintf(w, "%s at %s, %g Ω, on %s (%s)\n", rep.Name, units.FormatFrequency(rep.FrequencyHz, 6), rep.Z0Ohm, rep.Stackup.Name, rep.Model)
 	fmt.Fprintf(w, "load %.2f%+.2fj Ω: |Γ| %.3f, VSWR %.2f, return loss %.2f dB\n\n", rep.Load.ROhm, rep.Load.XOhm, rep.Load.GammaMag, rep.Load.VSWR, rep.Load.ReturnLossDB)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "element\trole\tend\tZ0 (Ω)\twidth (mm)\telectrical (°)\tline (mm)\topen end (mm)\ttee (mm)\tvia (mm)\tre-centre (mm)\tdrawn (mm)\t")
@@ -169,10 +170,10 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 	fmt.Fprintf(w, "\n|S11| at f0: %s drawn (%s without the discontinuity corrections; %s before re-centring)\n",
 		export.ModelDB(rep.S11DBF0), export.ModelDB(rep.S11DBF0Uncorr), export.ModelDB(rep.Recentring.S11DBBefore))
 	if rep.Bandwidth10DBHz > 0 {
-		fmt.Fprintf(w, "band |S11| < −10 dB: %.4g–%.4g GHz (%.1f MHz)\n", rep.Band10DBHz[0]/1e9, rep.Band10DBHz[1]/1e9, rep.Bandwidth10DBHz/1e6)
+		fmt.Fprintf(w, "band |S11| < −10 dB: %s (%.1f MHz)\n", units.FormatFrequencyRange(rep.Band10DBHz[0], rep.Band10DBHz[1], 4), rep.Bandwidth10DBHz/1e6)
 	}
 	if rep.Bandwidth20DBHz > 0 {
-		fmt.Fprintf(w, "band |S11| < −20 dB: %.4g–%.4g GHz (%.1f MHz)\n", rep.Band20DBHz[0]/1e9, rep.Band20DBHz[1]/1e9, rep.Bandwidth20DBHz/1e6)
+		fmt.Fprintf(w, "band |S11| < −20 dB: %s (%.1f MHz)\n", units.FormatFrequencyRange(rep.Band20DBHz[0], rep.Band20DBHz[1], 4), rep.Bandwidth20DBHz/1e6)
 	}
 	fmt.Fprintf(w, "network loss at f0: %.3f dB\n", rep.NetworkLossDBF0)
 	if t := rep.Tolerance; t != nil {

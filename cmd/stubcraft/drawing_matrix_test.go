@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"compress/zlib"
+	"encoding/json"
 	"encoding/xml"
 	"io"
 	"math"
@@ -255,6 +256,7 @@ func TestDrawingMatrix(t *testing.T) {
 				}
 			}
 			checkSVGText(t, filepath.Join(dir, "layout.svg"))
+			checkSheet1Names(t, dir)
 			if os.Getenv("STUBCRAFT_DRAWING_DIR") != "" {
 				_ = os.WriteFile(filepath.Join(os.Getenv("STUBCRAFT_DRAWING_DIR"), m.name+".pdf"), raw, 0o644)
 			}
@@ -389,6 +391,43 @@ func checkSVGText(t *testing.T, path string) {
 			if wordOnPolygon(b, poly) {
 				t.Errorf("layout.svg: %q lies over copper", boxes[i].text)
 			}
+		}
+	}
+}
+
+// checkSheet1Names checks that the design name and the stackup name of
+// the build in dir appear whole in the text of sheet 1 (a name wrapped
+// after a hyphen or a space is joined again).
+func checkSheet1Names(t *testing.T, dir string) {
+	t.Helper()
+	data, err := os.ReadFile(filepath.Join(dir, "report.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep struct {
+		Name    string `json:"name"`
+		Stackup struct {
+			Name string `json:"name"`
+		} `json:"stackup"`
+	}
+	if err := json.Unmarshal(data, &rep); err != nil {
+		t.Fatal(err)
+	}
+	// Poppler's word boxes, in reading order, joined: a word ending in a
+	// hyphen runs on into the next (plain pdftotext would drop the hyphen
+	// as a hyphenation).
+	pages, _ := pdfWords(t, filepath.Join(dir, "drawing.pdf"))
+	var b strings.Builder
+	for _, w := range pages[0] {
+		b.WriteString(w.text)
+		if !strings.HasSuffix(w.text, "-") {
+			b.WriteString(" ")
+		}
+	}
+	text := b.String()
+	for _, name := range []string{rep.Name, rep.Stackup.Name} {
+		if name == "" || !strings.Contains(text, name) {
+			t.Errorf("sheet 1 does not name %q whole", name)
 		}
 	}
 }

@@ -193,7 +193,7 @@ func printTrace(w io.Writer, r traceReport) error {
 	row("stackup", "%s", r.Stackup)
 	row("model", "%s", r.Model)
 	row("εr, tanδ at frequency", "%.3f, %.4f", r.Er, r.LossTangent)
-	row("frequency", "%.6g GHz", r.FrequencyHz/1e9)
+	row("frequency", "%s", units.FormatFrequency(r.FrequencyHz, 6))
 	row("width", "%.4f mm", r.WidthMM)
 	row("Z0 at frequency", "%.3f Ω", r.Z0Ohm)
 	row("Z0 static", "%.3f Ω", r.Z0StaticOhm)
