@@ -1,0 +1,169 @@
+package fdtd
+
+import (
+	"fmt"
+	"math"
+)
+
+const (
+	c0   = 299792458.0
+	mu0  = 4e-7 * math.Pi
+	eps0 = 1 / (mu0 * c0 * c0)
+	eta0 = mu0 * c0
+)
+
+// portPlan holds the x positions (m) of one port's source and probes.
+type portPlan struct {
+	side      Side
+	edge      float64 // board edge, the reference plane
+	yc, w     float64 // strip centre and width
+	front     float64 // inner line of the front probe pair (toward the board)
+	source    float64
+	back      float64 // inner line of the back probe pair
+	pairPitch float64 // spacing of each probe pair's two lines
+}
+
+// Grid is the rectilinear mesh: the lines in x, y and z (m), the index of
+// the copper plane, and the port plans.
+type Grid struct {
+	X, Y, Z  []float64
+	KH       int // index of z = h
+	NPML     int
+	ports    [2]portPlan
+	EdgeCell float64 // the edge cell size used for the 1/3–2/3 rule, m
+	ext      Structure // the structure with the port lines drawn out into the absorbing layers
+}
+
+// Cells returns the number of Yee cells.
+func (g *Grid) Cells() int { return len(g.X) * len(g.Y) * len(g.Z) }
+
+// minSpacing returns the smallest gap between neighbouring lines.
+func minSpacing(l []float64) float64 {
+	m := math.Inf(1)
+	for i := 1; i < len(l); i++ {
+		m = math.Min(m, l[i]-l[i-1])
+	}
+	return m
+}
+
+// MaxGrading returns the largest ratio of neighbouring cell sizes along
+// any axis.
+func (g *Grid) MaxGrading() float64 {
+	r := 1.0
+	for _, l := range [][]float64{g.X, g.Y, g.Z} {
+		for i := 2; i < len(l); i++ {
+			a, b := l[i-1]-l[i-2], l[i]-l[i-1]
+			r = math.Max(r, math.Max(a/b, b/a))
+		}
+	}
+	return r
+}
+
+// NewGrid builds the mesh for s at the given density.
+func NewGrid(s Structure, p MeshParams) (*Grid, error) { return newGrid(s, p, 0) }
+
+// newGrid is NewGrid with the edge cell forced to edge when edge > 0, so
+// that a port line's calibration meshes its strip as the board's grid does.
+func newGrid(s Structure, p MeshParams, edge float64) (*Grid, error) {
+	if err := s.Validate(); err != nil {
+		return nil, err
+	}
+	if p.SubstrateCells < 1 || !(p.PerWavelength >= 4) || !(p.EdgeDivisions >= 1) || !(p.Grading > 1) || p.PMLCells < 4 {
+		return nil, fmt.Errorf("fdtd: mesh parameters %+v out of range", p)
+	}
+	h := s.H
+	fmax := s.Freqs[len(s.Freqs)-1]
+	dmaxSub := c0 / (fmax * math.Sqrt(s.Er)) / p.PerWavelength
+	dmaxAir := c0 / fmax / p.PerWavelength
+	_, narrow := edgeLines(s, 1, 0)
+	_, nx := edgeLines(s, 0, 0)
+	narrow = math.Min(narrow, nx)
+	wport := math.Inf(1)
+	for _, pt := range s.Ports {
+		wport = math.Min(wport, float64(pt.Width)*1e-9)
+	}
+	narrow = math.Min(narrow, wport)
+	d := math.Min(h/float64(p.SubstrateCells), narrow/p.EdgeDivisions)
+	d = math.Min(d, dmaxSub)
+	if edge > 0 {
+		d = edge
+	}
+
+	// Port plans and the copper that carries each port line out of the board.
+	g := &Grid{NPML: p.PMLCells, EdgeCell: d}
+	ext := s
+	ext.Copper = append([]Polygon(nil), s.Copper...)
+	var xfix []float64
+	var yfix []float64
+	xlo, xhi := float64(s.BoardMinX)*1e-9, float64(s.BoardMaxX)*1e-9
+	for i, pt := range s.Ports {
+		w := float64(pt.Width) * 1e-9
+		hw := math.Max(h, w)
+		pp := portPlan{side: pt.Side, yc: float64(pt.Y) * 1e-9, w: w}
+		pitch := math.Min(dmaxSub, hw/2)
+		pp.pairPitch = pitch
+		out := float64(pt.Side) // outward direction in x
+		pp.edge = xlo
+		if pt.Side == Right {
+			pp.edge = xhi
+		}
+		pp.front = pp.edge + out*2*hw
+		pp.source = pp.front + out*(pitch+2*hw)
+		pp.back = pp.source + out*2*hw
+		end := pp.back + out*3*pitch // where the absorbing layer starts
+		xfix = append(xfix, pp.front, pp.front+out*pitch, pp.source, pp.back, pp.back+out*pitch, end)
+		yfix = append(yfix, pp.yc)
+		g.ports[i] = pp
+		// The port line: from the edge to far beyond the domain end.
+		far := end + out*1.0
+		x0, x1 := math.Min(pp.edge, far), math.Max(pp.edge, far)
+		ext.Copper = append(ext.Copper, RectPolygon(int64(math.Round(x0*1e9)), pt.Y-pt.Width/2,
+			int64(math.Round(x1*1e9)), pt.Y-pt.Width/2+pt.Width))
+	}
+	ex, _ := edgeLines(ext, 0, d)
+	ey, _ := edgeLines(ext, 1, d)
+	// Only the x edges inside the domain matter (the port lines' far ends are
+	// beyond it).
+	xmin, xmax := math.Inf(1), math.Inf(-1)
+	for _, x := range xfix {
+		xmin, xmax = math.Min(xmin, x), math.Max(xmax, x)
+	}
+	for _, x := range ex {
+		if x > xmin && x < xmax {
+			xfix = append(xfix, x)
+		}
+	}
+	yfix = append(yfix, ey...)
+	for _, v := range s.Vias {
+		xfix = append(xfix, float64(v.Center.X)*1e-9)
+		yfix = append(yfix, float64(v.Center.Y)*1e-9)
+	}
+	ymin, ymax := math.Inf(1), math.Inf(-1)
+	for _, pl := range s.Copper {
+		for _, q := range pl {
+			ymin, ymax = math.Min(ymin, float64(q.Y)*1e-9), math.Max(ymax, float64(q.Y)*1e-9)
+		}
+	}
+	margin := math.Max(5*h, 2*wport)
+	yfix = append(yfix, ymin-margin, ymax+margin)
+
+	dmaxX := dmaxSub
+	g.X = withPML(gradedLines(xfix, d, dmaxX, p.Grading), p.PMLCells, true, true)
+	g.Y = withPML(gradedLines(yfix, d, dmaxX, p.Grading), p.PMLCells, true, true)
+
+	// z: uniform substrate cells, then graded air up to the absorbing layer.
+	dz := h / float64(p.SubstrateCells)
+	z := []float64{0}
+	for i := 1; i <= p.SubstrateCells; i++ {
+		z = append(z, float64(i)*h/float64(p.SubstrateCells))
+	}
+	g.KH = p.SubstrateCells
+	top := h + math.Max(6*h, 3*wport)
+	for s := dz; z[len(z)-1] < top; {
+		s = math.Min(s*p.Grading, dmaxAir)
+		z = append(z, z[len(z)-1]+s)
+	}
+	g.Z = withPML(z, p.PMLCells, false, true)
+	g.ext = ext
+	return g, nil
+}

@@ -1,0 +1,240 @@
+package fdtd
+
+import (
+	"math"
+	"sort"
+)
+
+// MeshLevel names a mesh density.
+type MeshLevel int
+
+// Mesh densities. Coarse is for quick checks and tests, Normal for
+// verification, Fine for convergence studies.
+const (
+	Coarse MeshLevel = iota
+	Normal
+	Fine
+)
+
+// String returns the level's name as the command line spells it.
+func (m MeshLevel) String() string {
+	switch m {
+	case Coarse:
+		return "coarse"
+	case Normal:
+		return "normal"
+	case Fine:
+		return "fine"
+	}
+	return "unknown"
+}
+
+// MeshParams are the numbers a mesh level stands for.
+type MeshParams struct {
+	SubstrateCells int     // cells across the substrate height
+	PerWavelength  float64 // largest cell is λ/PerWavelength at the highest sweep frequency, in the medium
+	EdgeDivisions  float64 // the edge cell is at most the narrowest strip width / EdgeDivisions
+	Grading        float64 // largest ratio of neighbouring cells
+	PMLCells       int     // cells in each absorbing layer
+}
+
+// Params returns the level's mesh numbers.
+func (m MeshLevel) Params() MeshParams {
+	switch m {
+	case Fine:
+		return MeshParams{SubstrateCells: 6, PerWavelength: 30, EdgeDivisions: 6, Grading: 1.3, PMLCells: 10}
+	case Normal:
+		return MeshParams{SubstrateCells: 4, PerWavelength: 20, EdgeDivisions: 4, Grading: 1.3, PMLCells: 8}
+	}
+	return MeshParams{SubstrateCells: 3, PerWavelength: 15, EdgeDivisions: 3, Grading: 1.3, PMLCells: 8}
+}
+
+// Refined returns p with every cell count multiplied by factor (cells
+// divided by it), the grading and absorbing layers kept.
+func (p MeshParams) Refined(factor float64) MeshParams {
+	p.SubstrateCells = int(math.Round(float64(p.SubstrateCells) * factor))
+	p.PerWavelength *= factor
+	p.EdgeDivisions *= factor
+	return p
+}
+
+// fixedLine is a coordinate (m) the mesh must have a line at.
+type fixedLine struct{ at float64 }
+
+// mergeLines sorts xs and replaces every cluster of lines closer than tol
+// by their mean.
+func mergeLines(xs []float64, tol float64) []float64 {
+	sort.Float64s(xs)
+	var out []float64
+	for i := 0; i < len(xs); {
+		j, sum := i, 0.0
+		for j < len(xs) && xs[j]-xs[i] < tol {
+			sum += xs[j]
+			j++
+		}
+		out = append(out, sum/float64(j-i))
+		i = j
+	}
+	return out
+}
+
+// gradedLines returns mesh lines that include every fixed line (after
+// merging those closer than minCell/2), spaced at most dmax, with
+// neighbouring cells differing by at most ratio wherever the fixed lines
+// leave room for it.
+func gradedLines(fixed []float64, minCell, dmax, ratio float64) []float64 {
+	f := mergeLines(append([]float64(nil), fixed...), minCell/2)
+	if len(f) < 2 {
+		return f
+	}
+	// Natural cell size at each fixed line: its smaller neighbouring gap.
+	scale := make([]float64, len(f))
+	for i := range f {
+		s := dmax
+		if i > 0 {
+			s = math.Min(s, f[i]-f[i-1])
+		}
+		if i+1 < len(f) {
+			s = math.Min(s, f[i+1]-f[i])
+		}
+		scale[i] = s
+	}
+	out := []float64{f[0]}
+	for i := 0; i+1 < len(f); i++ {
+		out = append(out, fillGap(f[i], f[i+1], scale[i], scale[i+1], dmax, ratio)...)
+		out = append(out, f[i+1])
+	}
+	return out
+}
+
+// fillGap returns the lines strictly inside (a, b) so that cells grow by
+// at most ratio from sa at a and sb at b up to dmax.
+func fillGap(a, b, sa, sb, dmax, ratio float64) []float64 {
+	var left, right []float64
+	x, y, s1, s2 := a, b, sa, sb
+	for {
+		g := y - x
+		m1, m2 := math.Min(s1*ratio, dmax), math.Min(s2*ratio, dmax)
+		hi := math.Min(m1, m2)
+		lo := math.Max(s1, s2) / ratio
+		kmin := math.Ceil(g/hi - 1e-9)
+		if lo > 0 && kmin <= math.Floor(g/lo+1e-9) || g <= hi*1.5 {
+			k := int(math.Max(kmin, 1))
+			if g <= hi*1.5 && !(lo > 0 && kmin <= math.Floor(g/lo+1e-9)) {
+				k = int(math.Max(math.Round(g/(0.5*(lo+hi))), 1))
+			}
+			u := g / float64(k)
+			for i := 1; i < k; i++ {
+				left = append(left, x+float64(i)*u)
+			}
+			break
+		}
+		if s1 <= s2 {
+			x += m1
+			s1 = m1
+			left = append(left, x)
+		} else {
+			y -= m2
+			s2 = m2
+			right = append(right, y)
+		}
+	}
+	sort.Float64s(left)
+	for i := len(right) - 1; i >= 0; i-- {
+		left = append(left, right[i])
+	}
+	return left
+}
+
+// withPML returns lines with n cells added beyond each end, each the size of
+// the end cell there; low and high say which ends get them.
+func withPML(lines []float64, n int, low, high bool) []float64 {
+	out := lines
+	if low {
+		d := lines[1] - lines[0]
+		pre := make([]float64, n)
+		for i := range pre {
+			pre[i] = lines[0] - float64(n-i)*d
+		}
+		out = append(pre, out...)
+	}
+	if high {
+		m := len(out)
+		d := out[m-1] - out[m-2]
+		for i := 1; i <= n; i++ {
+			out = append(out, out[m-1]+float64(i)*d)
+		}
+	}
+	return out
+}
+
+// nearest returns the index of the line closest to x.
+func nearest(lines []float64, x float64) int {
+	i := sort.SearchFloat64s(lines, x)
+	if i == len(lines) {
+		return i - 1
+	}
+	if i > 0 && x-lines[i-1] < lines[i]-x {
+		return i - 1
+	}
+	return i
+}
+
+// edgeLines appends, for every axis-parallel edge of the copper, the two
+// lines of the one-third/two-thirds rule: d/3 inside the copper and 2d/3
+// outside. axis 0 collects x lines (edges parallel to y), axis 1 y lines.
+// It also returns the narrowest copper width it saw across such edges.
+func edgeLines(s Structure, axis int, d float64) (lines []float64, narrowest float64) {
+	narrowest = math.Inf(1)
+	type edge struct {
+		at, lo, hi float64
+		in         int // +1 when the copper lies toward +axis
+	}
+	for _, p := range s.Copper {
+		var edges []edge
+		n := len(p)
+		for i := 0; i < n; i++ {
+			a, b := p[i], p[(i+1)%n]
+			var at, lo, hi, px, py float64
+			if axis == 0 && a.X == b.X && a.Y != b.Y {
+				at = float64(a.X) * 1e-9
+				lo, hi = float64(min(a.Y, b.Y))*1e-9, float64(max(a.Y, b.Y))*1e-9
+				px, py = at, (lo+hi)/2
+			} else if axis == 1 && a.Y == b.Y && a.X != b.X {
+				at = float64(a.Y) * 1e-9
+				lo, hi = float64(min(a.X, b.X))*1e-9, float64(max(a.X, b.X))*1e-9
+				px, py = (lo+hi)/2, at
+			} else {
+				continue
+			}
+			eps := 1e-9
+			var plus, minus bool
+			if axis == 0 {
+				plus, minus = s.inCopper(px+eps, py), s.inCopper(px-eps, py)
+			} else {
+				plus, minus = s.inCopper(px, py+eps), s.inCopper(px, py-eps)
+			}
+			if plus == minus {
+				continue // inside merged copper or a sliver
+			}
+			e := edge{at: at, lo: lo, hi: hi, in: -1}
+			if plus {
+				e.in = 1
+			}
+			edges = append(edges, e)
+			lines = append(lines, at+float64(e.in)*d/3, at-float64(e.in)*2*d/3)
+		}
+		// Width across each edge pair facing each other with overlapping spans.
+		for _, e := range edges {
+			if e.in != 1 {
+				continue
+			}
+			for _, f := range edges {
+				if f.in == -1 && f.at > e.at && f.lo < e.hi && f.hi > e.lo {
+					narrowest = math.Min(narrowest, f.at-e.at)
+				}
+			}
+		}
+	}
+	return lines, narrowest
+}
