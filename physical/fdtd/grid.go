@@ -30,7 +30,7 @@ type Grid struct {
 	KH       int // index of z = h
 	NPML     int
 	ports    [2]portPlan
-	EdgeCell float64 // the edge cell size used for the 1/3–2/3 rule, m
+	EdgeCell float64   // the edge cell size used for the 1/3–2/3 rule, m
 	ext      Structure // the structure with the port lines drawn out into the absorbing layers
 }
 

@@ -369,17 +369,26 @@ func (m *sim) psiPass(a int, f, g, psi []float32, e bool, sign float32, coef []f
 	b, c, inv := p.bH, p.cH, p.invDH
 	if e {
 		b, c, inv = p.bE, p.cE, p.invDE
+		st = -st // backward difference: g[n] − g[n−st] = −(g[n−st] − g[n])
 	}
 	lo, hi := max(r[0].a, ia), min(r[0].b, ib)
-	do := func(n, q, pi, k int) {
-		var d float32
+	k0, k1 := r[2].a, r[2].b
+	// row applies the pass to one run of k at f index n0, ψ index q0.
+	row := func(n0, q0, pi int) {
+		bb, cc := b[pi], c[pi]*inv[pi]
 		if e {
-			d = g[n] - g[n-st]
-		} else {
-			d = g[n+st] - g[n]
+			cc = -cc
 		}
-		psi[q] = b[pi]*psi[q] + c[pi]*d*inv[pi]
-		f[n] += sign * coef[k] * psi[q]
+		fr := f[n0+k0 : n0+k1]
+		gr := g[n0+k0 : n0+k1]
+		gs := g[n0+k0+st : n0+k1+st]
+		ps := psi[q0+k0 : q0+k1]
+		cf := coef[k0:k1]
+		for k := range fr {
+			v := bb*ps[k] + cc*(gs[k]-gr[k])
+			ps[k] = v
+			fr[k] += sign * cf[k] * v
+		}
 	}
 	switch a {
 	case 0:
@@ -388,9 +397,7 @@ func (m *sim) psiPass(a int, f, g, psi []float32, e bool, sign float32, coef []f
 				continue
 			}
 			for j := r[1].a; j < r[1].b; j++ {
-				for k := r[2].a; k < r[2].b; k++ {
-					do((i*ny+j)*nz+k, (pi*ny+j)*nz+k, pi, k)
-				}
+				row((i*ny+j)*nz, (pi*ny+j)*nz, pi)
 			}
 		}
 	case 1:
@@ -400,20 +407,27 @@ func (m *sim) psiPass(a int, f, g, psi []float32, e bool, sign float32, coef []f
 				if j < r[1].a || j >= r[1].b {
 					continue
 				}
-				for k := r[2].a; k < r[2].b; k++ {
-					do((i*ny+j)*nz+k, (i*np+pi)*nz+k, pi, k)
-				}
+				row((i*ny+j)*nz, (i*np+pi)*nz, pi)
 			}
 		}
 	case 2:
 		np := len(p.idx)
 		for i := lo; i < hi; i++ {
 			for j := r[1].a; j < r[1].b; j++ {
+				n0, q0 := (i*ny+j)*nz, (i*ny+j)*np
 				for pi, k := range p.idx {
-					if k < r[2].a || k >= r[2].b {
+					if k < k0 || k >= k1 {
 						continue
 					}
-					do((i*ny+j)*nz+k, (i*ny+j)*np+pi, pi, k)
+					n := n0 + k
+					cc := c[pi] * inv[pi]
+					d := g[n+1] - g[n]
+					if e {
+						d = g[n] - g[n-1]
+					}
+					v := b[pi]*psi[q0+pi] + cc*d
+					psi[q0+pi] = v
+					f[n] += sign * coef[k] * v
 				}
 			}
 		}

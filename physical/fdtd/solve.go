@@ -106,7 +106,7 @@ func (o Options) withDefaults() Options {
 // current between each pair's lines.
 type probeSet struct {
 	vf1, vf2, ifr, vb1, vb2, ib []complex128
-	xf1, xf2, xb1, xb2         float64 // x of the lines, m
+	xf1, xf2, xb1, xb2          float64 // x of the lines, m
 }
 
 // Solve runs the two excitations of s and returns its S-parameters. It
@@ -235,9 +235,9 @@ func runOnce(ctx context.Context, g *Grid, s Structure, o Options, p, runIdx, ru
 	nf := len(s.Freqs)
 	var out [2]probeSet
 	type probeIdx struct {
-		jc, ja, jb                 int
-		if1, if2, ib1, ib2, isrc   int
-		srcCells                   []int
+		jc, ja, jb                  int
+		if1, if2, ib1, ib2, isrc    int
+		srcCells                    []int
 		vf1, vf2, vb1, vb2, ifr, ib []complex128
 	}
 	var pr [2]probeIdx
@@ -299,7 +299,7 @@ func runOnce(ctx context.Context, g *Grid, s Structure, o Options, p, runIdx, ru
 	// Source: a sine-modulated Gaussian, zero mean, covering the sweep.
 	fmin, fmax := s.Freqs[0], s.Freqs[nf-1]
 	fc := (fmin + fmax) / 2
-	bw := math.Max((fmax-fmin)/2, 0.2*fc) * 1.2
+	bw := math.Max((fmax-fmin)/2, 0.5*fc) * 1.2
 	tau := math.Sqrt(math.Ln10) / (math.Pi * bw)
 	t0 := 4 * tau
 	dt := m.dt
