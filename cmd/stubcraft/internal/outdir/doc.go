@@ -19,8 +19,10 @@
 // the manifest lists but that changed since are replaced (they are
 // outputs) and named in a note. Anything else is refused with a list of
 // what would be lost, and so is a target that holds one of the build's
-// input files. A symbolic link as target is written through: the link
-// stays and the directory it points to gets the new content.
+// input files, and one that holds the current directory. A symbolic link
+// as target is written through: the link stays and the directory it
+// points to gets the new content. Parent directories that Open had to
+// make are removed again when no build lands.
 //
 // Two builds to one target are kept apart by an advisory lock (flock on
 // ".NAME.lock" beside the target) held from Open to Close: the second

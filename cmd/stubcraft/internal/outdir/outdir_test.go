@@ -426,3 +426,39 @@ func TestManifestRoundTrip(t *testing.T) {
 		}
 	}
 }
+
+func TestFailedBuildRemovesTheParentsItMade(t *testing.T) {
+	root := t.TempDir()
+	dir := filepath.Join(root, "a", "b", "out")
+	tgt, err := Open(context.Background(), dir, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fail := errors.New("plot failed")
+	err = tgt.Write(context.Background(), []File{{"report.json", func(io.Writer) error { return fail }}})
+	tgt.Close()
+	if !errors.Is(err, fail) {
+		t.Fatalf("got %v, want the writer's error", err)
+	}
+	if entries, _ := os.ReadDir(root); len(entries) != 0 {
+		t.Errorf("a failed build left %v in %s", entries[0].Name(), root)
+	}
+	// a build that lands keeps them
+	if err := write(t, dir, Options{}, build("1")); err != nil {
+		t.Fatal(err)
+	}
+	checkComplete(t, dir, "1")
+}
+
+func TestForceRefusesTargetHoldingTheWorkingDirectory(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "out")
+	if err := write(t, dir, Options{}, build("1")); err != nil {
+		t.Fatal(err)
+	}
+	t.Chdir(dir)
+	err := write(t, ".", Options{Force: true}, build("2"))
+	if err == nil || !strings.Contains(err.Error(), "current directory") {
+		t.Fatalf("got %v, want a refusal naming the current directory", err)
+	}
+	checkComplete(t, dir, "1")
+}

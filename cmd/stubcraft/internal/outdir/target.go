@@ -48,6 +48,10 @@ type Target struct {
 	dir  string // the directory that is replaced: absolute, symbolic links resolved
 	opt  Options
 	lock *dirLock
+	// created lists the parent directories Open made, deepest last; Close
+	// removes them again when no build was placed.
+	created []string
+	placed  bool
 }
 
 // InUseError is the refusal of a target another build holds.
@@ -119,7 +123,8 @@ func Open(ctx context.Context, path string, opt Options) (*Target, error) {
 	if dir == filepath.Dir(dir) {
 		return nil, fmt.Errorf("output directory %s: a file system root cannot be replaced", path)
 	}
-	if err := os.MkdirAll(filepath.Dir(dir), 0o755); err != nil {
+	created, err := mkdirAll(filepath.Dir(dir))
+	if err != nil {
 		return nil, fmt.Errorf("output directory %s: %w", path, err)
 	}
 	wait := opt.LockWait
@@ -128,9 +133,10 @@ func Open(ctx context.Context, path string, opt Options) (*Target, error) {
 	}
 	lock, err := lockDir(ctx, dir, wait)
 	if err != nil {
+		removeCreated(created)
 		return nil, fmt.Errorf("output directory %s: %w", path, err)
 	}
-	t := &Target{name: filepath.Clean(path), dir: dir, opt: opt, lock: lock}
+	t := &Target{name: filepath.Clean(path), dir: dir, opt: opt, lock: lock, created: created}
 	t.removeStale()
 	if err := t.Check(); err != nil {
 		t.Close()
@@ -146,7 +152,36 @@ func (t *Target) Close() error {
 	}
 	err := t.lock.release()
 	t.lock = nil
+	if !t.placed {
+		removeCreated(t.created)
+	}
 	return err
+}
+
+// mkdirAll is os.MkdirAll that returns the directories it made, outermost
+// first.
+func mkdirAll(dir string) ([]string, error) {
+	var missing []string
+	for d := dir; ; d = filepath.Dir(d) {
+		if _, err := os.Stat(d); err == nil || d == filepath.Dir(d) {
+			break
+		}
+		missing = append([]string{d}, missing...)
+	}
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return nil, err
+	}
+	return missing, nil
+}
+
+// removeCreated removes the directories mkdirAll made, innermost first,
+// as far as they are still empty.
+func removeCreated(dirs []string) {
+	for i := len(dirs) - 1; i >= 0; i-- {
+		if os.Remove(dirs[i]) != nil {
+			return
+		}
+	}
 }
 
 func (t *Target) note(format string, args ...any) {
@@ -178,6 +213,11 @@ func (t *Target) check(noteChanged bool) (exists bool, err error) {
 	}
 	if !t.opt.Force {
 		return true, &ExistsError{Dir: t.name}
+	}
+	if wd, err := os.Getwd(); err == nil {
+		if rel, err := filepath.Rel(t.dir, wd); err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+			return true, fmt.Errorf("refusing to replace %s: it holds the current directory %s; run the build from outside it", t.name, wd)
+		}
 	}
 	if err := t.checkInputs(); err != nil {
 		return true, err
@@ -350,6 +390,7 @@ func (t *Target) Write(ctx context.Context, files []File) error {
 		return fmt.Errorf("output directory %s: %w", t.name, err)
 	}
 	placed = true
+	t.placed = true
 	if err := syncDir(parent); err != nil {
 		return fmt.Errorf("output directory %s: %w", t.name, err)
 	}
