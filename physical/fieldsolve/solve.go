@@ -107,12 +107,9 @@ func SolveContext(ctx context.Context, cs CrossSection, opt Options) (Result, er
 		return Result{}, err
 	}
 
-	box, err := boxError(cs, homogeneous)
-	if err != nil {
-		return Result{}, err
-	}
-
 	var res Result
+	var box float64
+	var err error
 	var prev *grid
 	var prevPhi, prevPhiAir []float64
 	n := startDensity
@@ -131,12 +128,25 @@ func SolveContext(ctx context.Context, cs CrossSection, opt Options) (Result, er
 		if err != nil {
 			return Result{}, fmt.Errorf("fieldsolve: grid of %d nodes: %w", cells, err)
 		}
+		if level == 0 {
+			// The coarsest grid in the standard box is one half of the
+			// box estimate; the other is the same grid in a smaller box.
+			if box, err = boxError(cs, homogeneous, lr.Z0); err != nil {
+				return Result{}, err
+			}
+		}
 		res.Levels = append(res.Levels, lr)
 		prev, prevPhi, prevPhiAir = g, phi, phiAir
 		if opt.Progress != nil {
 			opt.Progress(level+1, maxLevels)
 		}
 		res.extrapolate(box)
+		if homogeneous {
+			// TEM in one dielectric: εeff is εr exactly, not up to the
+			// rounding of two extrapolations.
+			res.CAir, res.EpsEff = res.C/cs.Er, cs.Er
+			res.Z0, _ = lineParams(res.C, res.CAir)
+		}
 		if level+1 >= minLevels && res.ErrorEstimate < tol && res.trusted {
 			return res, nil
 		}
@@ -201,18 +211,16 @@ func lineParams(c, cAir float64) (z0, epsEff float64) {
 // the box's effect on C scales as 1/size² and the standard box's error is a
 // third of the difference. For stripline the lateral field decays
 // exponentially and the same estimate is a generous bound.
-func boxError(cs CrossSection, homogeneous bool) (float64, error) {
-	var z [2]float64
-	for i, scale := range []float64{1, 0.5} {
-		l := newLayout(cs, scale)
-		g := newGrid(&l, startDensity)
-		lr, _, _, err := solveGrid(g, cs.Er, homogeneous, nil, nil, nil)
-		if err != nil {
-			return 0, fmt.Errorf("fieldsolve: box estimate: %w", err)
-		}
-		z[i] = lr.Z0
+// z0 is the coarsest grid's answer in the standard box, which Solve has
+// already computed as its first level.
+func boxError(cs CrossSection, homogeneous bool, z0 float64) (float64, error) {
+	l := newLayout(cs, 0.5)
+	g := newGrid(&l, startDensity)
+	lr, _, _, err := solveGrid(g, cs.Er, homogeneous, nil, nil, nil)
+	if err != nil {
+		return 0, fmt.Errorf("fieldsolve: box estimate: %w", err)
 	}
-	return math.Abs(z[1]-z[0]) / z[0] / 3, nil
+	return math.Abs(lr.Z0-z0) / z0 / 3, nil
 }
 
 // extrapolate fills the answer from the levels solved so far.
