@@ -45,7 +45,9 @@ func Width(sub physical.Substrate, z0, freq float64) (WidthResult, error) {
 }
 
 // WidthWith returns the width whose line, as made by mk, has impedance z0
-// (ohm) at freq (Hz). It starts from the Hammerstad synthesis formula
+// (ohm) at freq (Hz). For a numerical model (ApproximateModel, the field
+// solver's) it searches with the closed form as a map, see widthMapped;
+// if that does not settle, and for every other model, it starts from the Hammerstad synthesis formula
 // (StartWidth), brackets the root in ln(width) and closes it with Brent's
 // method until the width is known to 1e-10 or Z0 matches to 1e-9, both
 // relative. The impedance must fall with width, as it does for every
@@ -62,6 +64,15 @@ func WidthWith(mk LineMaker, sub physical.Substrate, z0, freq float64) (WidthRes
 	if !(sub.Height > 0) {
 		return WidthResult{}, fmt.Errorf("width synthesis: dielectric height must be positive, got %g m", sub.Height)
 	}
+	if r, ok, err := widthMapped(mk, sub, z0, freq); ok || err != nil {
+		return r, err
+	}
+	return widthBracketed(mk, sub, z0, freq)
+}
+
+// widthBracketed is WidthWith's bracketing search: from the Hammerstad
+// start width, out to a bracket in ln(width), closed by Brent's method.
+func widthBracketed(mk LineMaker, sub physical.Substrate, z0, freq float64) (WidthResult, error) {
 	s := widthSearch{mk: mk, sub: sub, z0: z0, freq: freq}
 	lnMin, lnMax := math.Log(MinWidth), math.Log(MaxWidthOverH*sub.Height)
 	if lnMin >= lnMax {

@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"math"
@@ -8,6 +9,7 @@ import (
 	"testing"
 
 	"stubcraft/physical"
+	"stubcraft/stackups"
 )
 
 const mm, um, GHz = 1e-3, 1e-6, 1e9
@@ -241,6 +243,64 @@ func TestLength(t *testing.T) {
 	for _, deg := range []float64{0, 1, 45, 90, 137.5, 720} {
 		if got := ElectricalDegrees(p, PhysicalLength(p, deg)); math.Abs(got-deg) > 1e-12*math.Max(1, deg) {
 			t.Errorf("ElectricalDegrees(PhysicalLength(%g°)) = %.15g°", deg, got)
+		}
+	}
+}
+
+// approxPower is powerLine declared as a numerical model accurate to 0.5 %.
+type approxPower struct{ powerLine }
+
+func (approxPower) Accuracy() float64 { return 0.005 }
+
+func TestWidthMappedSearch(t *testing.T) {
+	// Source: exact analytical result; Z0 = 100·√(h/W) gives W = h·(100/z0)².
+	// The closed-form map is a different law, so the search must correct it.
+	sub := physical.Substrate{Er: 4.4, Height: 1.6 * mm, CopperThickness: 35 * um}
+	for _, z0 := range []float64{20, 50, 100, 150} {
+		n := 0
+		mk := func(w float64, sub physical.Substrate) (physical.LineModel, error) {
+			n++
+			return approxPower{powerLine{w, sub}}, nil
+		}
+		r, err := WidthWith(mk, sub, z0, 2.45*GHz)
+		if err != nil {
+			t.Errorf("%g Ω: %v", z0, err)
+			continue
+		}
+		want := sub.Height * (100 / z0) * (100 / z0)
+		// Z0 within a hundredth of the model's 0.5 %, so W within twice that.
+		if relErr(r.Width, want) > 2*mappedAccuracy*0.005 {
+			t.Errorf("%g Ω: width %.8g, want %.8g", z0, r.Width, want)
+		}
+		// A law this far from the map still settles without falling
+		// back to the bracketing search.
+		if n > mappedMaxSolves {
+			t.Errorf("%g Ω: %d model evaluations, want at most %d", z0, n, mappedMaxSolves)
+		}
+	}
+}
+
+func TestWidthMappedFieldSolver(t *testing.T) {
+	// The masked FR-4 preset at 2.45 GHz: the field solver's width search
+	// must settle in at most three solves with Z0 within 0.005 % of the
+	// target (a hundredth of the solver's 0.5 %), where the bracketing
+	// search took six to eight.
+	st, ok := stackups.Preset("fr4-1.6mm-masked")
+	if !ok {
+		t.Fatal("no fr4-1.6mm-masked preset")
+	}
+	sub, _ := SubstrateAt(st, 2.45*GHz)
+	for _, z0 := range []float64{50, 100} {
+		cache := NewSolverCache()
+		r, err := WidthWith(LineMakerFor(context.Background(), st, cache), sub, z0, 2.45*GHz)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if relErr(r.Params.Z0, z0) > mappedAccuracy*0.005 {
+			t.Errorf("%g Ω: Z0 %.6f", z0, r.Params.Z0)
+		}
+		if cache.Len() > 3 {
+			t.Errorf("%g Ω: %d solves, want at most 3", z0, cache.Len())
 		}
 	}
 }

@@ -32,6 +32,7 @@ type Model struct {
 	cs  CrossSection
 	sub physical.Substrate
 	res Result
+	tol float64                   // the relative accuracy of Z0 the solve was asked for
 	ref *physical.MicrostripModel // nil for stripline
 	z0m float64                   // ref static Z0
 	e0m float64                   // ref static εeff
@@ -57,7 +58,10 @@ func NewLineModelContext(ctx context.Context, cs CrossSection, sub physical.Subs
 	if err != nil && !errors.Is(err, ErrNotConverged) {
 		return nil, err
 	}
-	m := &Model{cs: cs, sub: sub, res: res}
+	m := &Model{cs: cs, sub: sub, res: res, tol: opt.Tolerance}
+	if m.tol == 0 {
+		m.tol = DefaultTolerance
+	}
 	m.sub.Er, m.sub.CopperThickness = cs.Er, cs.Thickness
 	m.sub.MaskThickness, m.sub.MaskEr = cs.MaskThickness, cs.MaskEr
 	if cs.Geometry == Stripline {
@@ -83,6 +87,10 @@ func NewLineModelContext(ctx context.Context, cs CrossSection, sub physical.Subs
 
 // Result returns the field solution behind the model.
 func (m *Model) Result() Result { return m.res }
+
+// Accuracy returns the relative accuracy of Z0 the solve was asked for
+// (Options.Tolerance); Result().ErrorEstimate is what it reached.
+func (m *Model) Accuracy() float64 { return m.tol }
 
 // CrossSection returns the solved cross-section.
 func (m *Model) CrossSection() CrossSection { return m.cs }
