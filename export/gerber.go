@@ -183,7 +183,6 @@ type gerber struct {
 	w     *bufio.Writer
 	err   error
 	codes []padKey // aperture D-codes 10, 11, ... in order of first use
-	holes []int64
 	obj   objAttrs // the object attributes in force
 }
 

@@ -89,10 +89,6 @@ func render(t *testing.T, files map[string][]byte, order ...string) image.Image 
 	return img
 }
 
-func itoa(v int) string {
-	return string(rune('0'+v/1000%10)) + string(rune('0'+v/100%10)) + string(rune('0'+v/10%10)) + string(rune('0'+v%10))
-}
-
 // lit counts the pixels whose channel c (0 red, 1 green, 2 blue) is over
 // half, and returns their count and the centroid in image pixels.
 func lit(img image.Image, c int) (n int, cx, cy float64) {

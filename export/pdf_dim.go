@@ -258,12 +258,10 @@ func (k *ink) dimAcross(x, y1, y2 float64, s string, up bool, extra float64) {
 		spots = []spot{bot, top}
 		anchor = ptMM{x, y2 + b}
 	}
-	for _, q := range []spot{
-		{x: x + 1, y: y1 - a + 1, align: 'L'}, {x: x - 1, y: y1 - a + 1, align: 'R'},
-		{x: x + 1, y: y2 + b - 1, align: 'L'}, {x: x - 1, y: y2 + b - 1, align: 'R'},
-	} {
-		spots = append(spots, q)
-	}
+	spots = append(spots,
+		spot{x: x + 1, y: y1 - a + 1, align: 'L'}, spot{x: x - 1, y: y1 - a + 1, align: 'R'},
+		spot{x: x + 1, y: y2 + b - 1, align: 'L'}, spot{x: x - 1, y: y2 + b - 1, align: 'R'},
+	)
 	for i := 1; i <= 3; i++ {
 		st := float64(i) * 2.7
 		spots = append(spots, spot{x: x, y: top.y - st, align: 'C', leader: true}, spot{x: x, y: bot.y + st, align: 'C', leader: true})

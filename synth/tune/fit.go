@@ -97,14 +97,6 @@ func (e *CoverageError) Error() string {
 
 // The fit works in scaled parameters of similar size: εr in per cent,
 // etch in micrometres, load scale in per cent.
-func toParams(s State, fitLoad bool) []float64 {
-	p := []float64{100 * (s.ErRatio - 1), s.Etch * 1e6}
-	if fitLoad {
-		p = append(p, 100*(s.LoadScale-1))
-	}
-	return p
-}
-
 func fromParams(p []float64) State {
 	s := State{ErRatio: 1 + p[0]/100, Etch: p[1] * 1e-6, LoadScale: 1}
 	if len(p) > 2 {

@@ -276,7 +276,7 @@ func (s *state) aperture(w string) error {
 		return fmt.Errorf("bad D-code")
 	}
 	if _, dup := s.f.Apertures[d]; dup {
-		return fmt.Errorf("D%d defined twice", d)
+		return fmt.Errorf("aperture D%d defined twice", d)
 	}
 	shape, params, ok := strings.Cut(w[i:], ",")
 	if !ok {
