@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
 
 	"stubcraft/synth/geom"
 )
@@ -35,6 +36,7 @@ type padMM struct {
 type viaMM struct {
 	c          ptMM
 	drill, pad float64
+	ground     bool // a stitching via of a coplanar pour
 }
 
 // segMM is one through-line segment: x0..x1 along the line, lo..hi across.
@@ -105,7 +107,7 @@ func newBoardModel(lay geom.Layout) (boardModel, error) {
 		b.pads = append(b.pads, padMM{c: ptOf(p.Center), w: nmToMM(p.W), h: nmToMM(p.H), round: p.Round})
 	}
 	for _, v := range lay.Vias {
-		b.vias = append(b.vias, viaMM{c: ptOf(v.Center), drill: nmToMM(v.Drill), pad: nmToMM(v.Pad)})
+		b.vias = append(b.vias, viaMM{c: ptOf(v.Center), drill: nmToMM(v.Drill), pad: nmToMM(v.Pad), ground: v.Net != geom.NetRF})
 	}
 	tees := map[string]geom.Tee{}
 	for _, t := range lay.Marks.Tees {
@@ -400,4 +402,59 @@ func (d *doc) bentCentreLine(s stubMM, v view, centreY float64) {
 	k := s.bend
 	f.Line(v.X(s.cx), v.Y(centreY), v.X(k.center.x), v.Y(k.center.y))
 	f.Line(v.X(k.center.x), v.Y(k.center.y), v.X(k.end.x)+k.toward*2.5, v.Y(k.center.y))
+}
+
+// pourGap finds the coplanar gap over the first through-line segment: at
+// x, from the segment's upper edge lo to the pour's edge hi above it.
+func (b boardModel) pourGap() (x, lo, hi float64, ok bool) {
+	if len(b.segs) == 0 {
+		return 0, 0, 0, false
+	}
+	g := b.segs[0]
+	x, lo = g.x0+0.3*(g.x1-g.x0), g.hi
+	hi = math.Inf(1)
+	for i, poly := range b.copper {
+		if !b.pour[i] {
+			continue
+		}
+		for j := range poly {
+			a, c := poly[j], poly[(j+1)%len(poly)]
+			if a.y == c.y && a.y > lo && math.Min(a.x, c.x) <= x && x <= math.Max(a.x, c.x) {
+				hi = math.Min(hi, a.y)
+			}
+		}
+	}
+	return x, lo, hi, !math.IsInf(hi, 1)
+}
+
+// stitchPitch finds the longest straight row of stitching vias and returns
+// the centres of its first two, ordered along the row; vertical says the
+// row runs along y.
+func (b boardModel) stitchPitch() (p, q ptMM, vertical, ok bool) {
+	rows := map[[2]float64][]ptMM{} // (axis, coordinate) → centres
+	for _, v := range b.vias {
+		if v.ground {
+			rows[[2]float64{0, v.c.y}] = append(rows[[2]float64{0, v.c.y}], v.c)
+			rows[[2]float64{1, v.c.x}] = append(rows[[2]float64{1, v.c.x}], v.c)
+		}
+	}
+	var best [2]float64
+	n := 1
+	for k, r := range rows {
+		if len(r) > n || (len(r) == n && n > 1 && (k[0] < best[0] || (k[0] == best[0] && k[1] < best[1]))) {
+			best, n = k, len(r)
+		}
+	}
+	if n < 2 {
+		return ptMM{}, ptMM{}, false, false
+	}
+	r := append([]ptMM(nil), rows[best]...)
+	vertical = best[0] == 1
+	sort.Slice(r, func(i, j int) bool {
+		if vertical {
+			return r[i].y < r[j].y
+		}
+		return r[i].x < r[j].x
+	})
+	return r[0], r[1], vertical, true
 }

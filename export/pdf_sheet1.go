@@ -437,6 +437,23 @@ func (d *doc) boardDims(k *ink, b boardModel, v view) {
 		}
 		low = math.Max(low, yd)
 	}
+	// A coplanar board: the gap over the first segment and the pitch of
+	// the stitching vias.
+	if x, lo, hi, ok := b.pourGap(); ok {
+		k.dimV(v.X(x), v.Y(lo), v.X(x), v.Y(hi), v.X(x), "gap "+mm3(hi-lo), false)
+	}
+	if p, q, vertical, ok := b.stitchPitch(); ok {
+		pad := 0.0
+		for _, via := range b.vias {
+			pad = math.Max(pad, via.pad)
+		}
+		off := v.s*pad/2 + 2.5
+		if vertical {
+			k.dimV(v.X(p.x), v.Y(p.y), v.X(q.x), v.Y(q.y), v.X(p.x)-off, "via pitch "+mm3(q.y-p.y), false)
+		} else {
+			k.dimH(v.X(p.x), v.Y(p.y), v.X(q.x), v.Y(q.y), v.Y(p.y)-off, "via pitch "+mm3(q.x-p.x), false)
+		}
+	}
 	// Rows under the board: segment lengths, stub positions, board length.
 	row := low + dimFirstRow
 	caption := func(s string, y float64) {

@@ -10,6 +10,8 @@ import (
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
 	"gonum.org/v1/plot/vg/draw"
+
+	"stubcraft/physical/units"
 )
 
 // PlotNames are the files WritePlots returns, in a fixed order.
@@ -62,15 +64,22 @@ func colour(c rgb) color.RGBA {
 func s11Plot(rep Report) (*plot.Plot, error) {
 	p := plot.New()
 	p.Title.Text = fmt.Sprintf("%s: input match |S11|", rep.Name)
-	p.X.Label.Text = "frequency (GHz)"
-	p.Y.Label.Text = "|S11| (dB)"
-	p.Add(plotter.NewGrid())
 	sw := rep.Sweep
+	top := rep.FrequencyHz
+	if len(sw.FreqHz) > 0 {
+		top = sw.FreqHz[len(sw.FreqHz)-1]
+	}
+	per, unit := units.FrequencyUnit(top)
+	p.X.Label.Text = "frequency (" + unit + ")"
+	p.Y.Label.Text = "|S11| (dB)"
+	p.X.Tick.Marker = markedTicker{marks: []float64{rep.FrequencyHz / per}}
+	p.Y.Tick.Marker = markedTicker{}
+	p.Add(plotter.NewGrid())
 	pts := make(plotter.XYs, len(sw.FreqHz))
 	lo, hi := math.Inf(1), math.Inf(-1)
 	for i, f := range sw.FreqHz {
-		pts[i] = plotter.XY{X: f / 1e9, Y: math.Max(sw.S11DB[i], -60)}
-		lo, hi = math.Min(lo, f/1e9), math.Max(hi, f/1e9)
+		pts[i] = plotter.XY{X: f / per, Y: math.Max(sw.S11DB[i], -60)}
+		lo, hi = math.Min(lo, f/per), math.Max(hi, f/per)
 	}
 	if len(pts) < 2 {
 		return p, nil
@@ -91,7 +100,7 @@ func s11Plot(rep Report) (*plot.Plot, error) {
 	p.Legend.Add("|S11|", l)
 	p.Legend.Add("−10 dB", limit)
 	p.Y.Max = 0
-	if f0 := rep.FrequencyHz / 1e9; f0 >= lo && f0 <= hi {
+	if f0 := rep.FrequencyHz / per; f0 >= lo && f0 <= hi {
 		ymin := -10.0
 		for _, q := range pts {
 			ymin = math.Min(ymin, q.Y)
@@ -105,7 +114,12 @@ func s11Plot(rep Report) (*plot.Plot, error) {
 		p.Add(mark)
 		p.Legend.Add("f0 "+formatFreq(rep.FrequencyHz), mark)
 	}
-	p.Legend.Top = false
+	ymin := -10.0
+	for _, q := range pts {
+		ymin = math.Min(ymin, q.Y)
+	}
+	p.X.Min, p.X.Max, p.Y.Min = lo, hi, ymin
+	placeLegend(p, []string{"|S11|", "−10 dB", "f0 " + formatFreq(rep.FrequencyHz)}, []plotter.XYs{pts, {{X: lo, Y: -10}, {X: hi, Y: -10}}}, nil)
 	return p, nil
 }
 
@@ -114,7 +128,9 @@ func smithPlot(rep Report) (*plot.Plot, error) {
 	p := plot.New()
 	p.Title.Text = fmt.Sprintf("%s: Smith chart, Z0 = %.4g Ω", rep.Name, rep.Z0Ohm)
 	p.HideAxes()
-	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = -1.1, 1.1, -1.1, 1.1
+	// Room under the disc for the legend, the same on x to keep it round.
+	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = -1.3, 1.3, -1.5, 1.1
+	p.Legend.Top, p.Legend.Left = false, true
 	add := func(run []ptMM, c rgb, w float64) error {
 		xy := make(plotter.XYs, len(run))
 		for i, q := range run {
@@ -138,6 +154,9 @@ func smithPlot(rep Report) (*plot.Plot, error) {
 		return nil, err
 	}
 	if err := add(arcRuns(circle{0, 0, 1}, 360)[0], colInk, 1); err != nil {
+		return nil, err
+	}
+	if err := smithGridValues(p); err != nil {
 		return nil, err
 	}
 	sw := rep.Sweep
@@ -186,6 +205,7 @@ func tolerancePlot(rep Report) (*plot.Plot, error) {
 	p.Title.Text = fmt.Sprintf("%s: |S11| at f0 over %d boards (seed %d)", rep.Name, t.Samples, t.Seed)
 	p.X.Label.Text = "|S11| at f0 (dB)"
 	p.Y.Label.Text = "boards"
+	p.X.Tick.Marker = markedTicker{}
 	p.Add(plotter.NewGrid())
 	h, err := plotter.NewHist(plotter.Values(t.SamplesS11DB), 24)
 	if err != nil {
@@ -198,6 +218,8 @@ func tolerancePlot(rep Report) (*plot.Plot, error) {
 	for _, b := range h.Bins {
 		top = math.Max(top, b.Weight)
 	}
+	var names []string
+	var marks []dataBox
 	for _, m := range []struct {
 		v    float64
 		c    rgb
@@ -211,7 +233,14 @@ func tolerancePlot(rep Report) (*plot.Plot, error) {
 		l.Dashes = []vg.Length{vg.Points(3), vg.Points(2)}
 		p.Add(l)
 		p.Legend.Add(m.name, l)
+		names = append(names, m.name)
+		marks = append(marks, dataBox{m.v, 0, m.v, top})
 	}
+	for _, b := range h.Bins {
+		marks = append(marks, dataBox{b.Min, 0, b.Max, b.Weight})
+	}
+	p.Y.Min = 0
+	placeLegend(p, names, nil, marks)
 	return p, nil
 }
 

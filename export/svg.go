@@ -101,6 +101,16 @@ func WriteSVG(w io.Writer, rep Report, lay geom.Layout) error {
 		row -= 6
 		s.dimH(0, st.cx, row, mm3(st.cx), "stub "+st.id+" from load port")
 	}
+	if x, lo, hi, ok := b.pourGap(); ok {
+		s.dimV(x, lo, hi, x, "gap "+mm3(hi-lo), "coplanar gap, line edge to pour edge")
+	}
+	if p, q, vertical, ok := b.stitchPitch(); ok {
+		if vertical {
+			s.dimV(p.x-1.5, p.y, q.y, p.x-1.5, "via pitch "+mm3(q.y-p.y), "stitching via pitch, centre to centre")
+		} else {
+			s.dimH(p.x, q.x, p.y+1.5, "via pitch "+mm3(q.x-p.x), "stitching via pitch, centre to centre")
+		}
+	}
 	s.dimH(0, b.w, row-6, mm3(b.w), "board length")
 	s.dimV(b.w+8, 0, b.h, b.w+8, mm3(b.h), "board height")
 	fmt.Fprintf(bw, "</g>\n")

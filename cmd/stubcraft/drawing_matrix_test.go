@@ -257,6 +257,7 @@ func TestDrawingMatrix(t *testing.T) {
 			}
 			checkSVGText(t, filepath.Join(dir, "layout.svg"))
 			checkSheet1Names(t, dir)
+			checkFrequencyTicks(t, dir)
 			if os.Getenv("STUBCRAFT_DRAWING_DIR") != "" {
 				_ = os.WriteFile(filepath.Join(os.Getenv("STUBCRAFT_DRAWING_DIR"), m.name+".pdf"), raw, 0o644)
 			}
@@ -429,5 +430,90 @@ func checkSheet1Names(t *testing.T, dir string) {
 		if name == "" || !strings.Contains(text, name) {
 			t.Errorf("sheet 1 does not name %q whole", name)
 		}
+	}
+}
+
+// checkFrequencyTicks reads the x-axis tick labels of s11.svg (gonum's
+// SVG: the row of numbers sharing one baseline) and checks that each
+// label reads the value under it — the labels' centres (estimated with
+// digit widths of half an em) lie on one straight line against their
+// values — and that the label nearest f0 reads f0 in the axis's unit.
+func checkFrequencyTicks(t *testing.T, dir string) {
+	t.Helper()
+	data, err := os.ReadFile(filepath.Join(dir, "s11.svg"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rep struct {
+		FrequencyHz float64 `json:"frequency_hz"`
+	}
+	raw, err := os.ReadFile(filepath.Join(dir, "report.json"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := json.Unmarshal(raw, &rep); err != nil {
+		t.Fatal(err)
+	}
+	re := regexp.MustCompile(`<text x="([-\d.e]+)" y="([-\d.e]+)"[^>]*font-size:([\d.]+)px">([^<]*)</text>`)
+	type lab struct{ x, y, size, v float64 }
+	rows := map[string][]lab{}
+	unit := ""
+	for _, m := range re.FindAllStringSubmatch(string(data), -1) {
+		text := m[4]
+		if strings.HasPrefix(text, "frequency (") {
+			unit = strings.TrimSuffix(strings.TrimPrefix(text, "frequency ("), ")")
+			continue
+		}
+		v, err := strconv.ParseFloat(strings.ReplaceAll(text, "−", "-"), 64)
+		if err != nil {
+			continue
+		}
+		x, _ := strconv.ParseFloat(m[1], 64)
+		size, _ := strconv.ParseFloat(m[3], 64)
+		w := 0.0
+		for _, r := range text {
+			switch r {
+			case '.':
+				w += 0.25
+			case '-', '−':
+				w += 0.33
+			default:
+				w += 0.5
+			}
+		}
+		rows[m[2]] = append(rows[m[2]], lab{x + w*size/2, 0, size, v})
+	}
+	var xs []lab
+	for _, r := range rows {
+		if len(r) > len(xs) {
+			xs = r
+		}
+	}
+	per := map[string]float64{"GHz": 1e9, "MHz": 1e6, "kHz": 1e3}[unit]
+	if len(xs) < 3 || per == 0 {
+		t.Fatalf("s11.svg: %d x tick labels, axis unit %q", len(xs), unit)
+	}
+	// Least-squares line centre = a + b·value.
+	var sx, sy, sxx, sxy float64
+	for _, l := range xs {
+		sx, sy, sxx, sxy = sx+l.v, sy+l.x, sxx+l.v*l.v, sxy+l.v*l.x
+	}
+	n := float64(len(xs))
+	b := (n*sxy - sx*sy) / (n*sxx - sx*sx)
+	a := (sy - b*sx) / n
+	for _, l := range xs {
+		if d := math.Abs(a + b*l.v - l.x); d > 4 {
+			t.Errorf("s11.svg: tick label %g is %.1f px off the position of its value", l.v, d)
+		}
+	}
+	f0 := rep.FrequencyHz / per
+	best := xs[0]
+	for _, l := range xs {
+		if math.Abs(l.x-(a+b*f0)) < math.Abs(best.x-(a+b*f0)) {
+			best = l
+		}
+	}
+	if math.Abs(best.v-f0) > 1e-9*f0 {
+		t.Errorf("s11.svg: the tick label nearest f0 = %g %s reads %g", f0, unit, best.v)
 	}
 }
