@@ -367,7 +367,7 @@ func TestBuildProcesses(t *testing.T) {
 	}
 	other := map[string]string{epochA: epochB, epochB: epochA}
 	// holding checks dir holds one of the two complete builds and returns its epoch.
-	holding := func(dir string) string {
+	holding := func(t *testing.T, dir string) string {
 		t.Helper()
 		epoch, ok := manifests[string(manifestOf(t, dir))]
 		if !ok {
@@ -392,7 +392,7 @@ func TestBuildProcesses(t *testing.T) {
 		if !strings.Contains(failed, "already exists") && !strings.Contains(failed, "in use by process") {
 			t.Errorf("the refused build does not say why: %q", failed)
 		}
-		holding(dir)
+		holding(t, dir)
 	})
 
 	t.Run("in use by process", func(t *testing.T) {
@@ -429,12 +429,12 @@ func TestBuildProcesses(t *testing.T) {
 		rng := rand.New(rand.NewPCG(1, 2))
 		replaced, leftovers := 0, false
 		for i := 0; i < 20; i++ {
-			old := holding(dir)
+			old := holding(t, dir)
 			r := startBuild(t, bin, other[old], append(args, "-o", dir, "--force")...)
 			time.Sleep(time.Duration(rng.Float64() * 1.2 * float64(duration)))
 			r.cmd.Process.Kill()
 			r.wait()
-			if holding(dir) != old {
+			if holding(t, dir) != old {
 				replaced++
 			}
 			leftovers = leftovers || len(temporaries(t, dir)) > 0
@@ -445,7 +445,7 @@ func TestBuildProcesses(t *testing.T) {
 		if code := r.wait(); code != 0 {
 			t.Fatalf("build after the kills: exit %d\n%s", code, r.stderr.String())
 		}
-		if holding(dir) != epochA {
+		if holding(t, dir) != epochA {
 			t.Error("the build after the kills is not in place")
 		}
 		if left := temporaries(t, dir); len(left) > 0 {
@@ -472,7 +472,7 @@ func TestBuildProcesses(t *testing.T) {
 			if code := r.wait(); code != sig.code {
 				t.Fatalf("exit %d, want %d\n%s", code, sig.code, r.stderr.String())
 			}
-			if holding(dir) != epochA {
+			if holding(t, dir) != epochA {
 				t.Error("a cancelled build replaced the output")
 			}
 			if left := temporaries(t, dir); len(left) > 0 {
@@ -488,7 +488,7 @@ func TestBuildProcesses(t *testing.T) {
 		}
 		interrupted := 0
 		for i := 0; i < 5 && interrupted < 2; i++ {
-			old := holding(dir)
+			old := holding(t, dir)
 			r := startBuild(t, bin, other[old], append(args, "-o", dir, "--force")...)
 			exited := make(chan int, 1)
 			go func() { exited <- r.wait() }()
@@ -508,12 +508,12 @@ func TestBuildProcesses(t *testing.T) {
 			}
 			switch code {
 			case 0:
-				if holding(dir) == old {
+				if holding(t, dir) == old {
 					t.Fatal("exit 0 but the old build is in place")
 				}
 			case 130:
 				interrupted++
-				if holding(dir) != old {
+				if holding(t, dir) != old {
 					t.Fatal("exit 130 but the build replaced the output")
 				}
 			default:

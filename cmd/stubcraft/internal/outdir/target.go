@@ -215,16 +215,16 @@ func (t *Target) check(noteChanged bool) (exists bool, err error) {
 		return true, &ExistsError{Dir: t.name}
 	}
 	if wd, err := os.Getwd(); err == nil {
-		if rel, err := filepath.Rel(t.dir, wd); err == nil && rel != ".." && !strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		if _, ok := within(t.dir, wd); ok {
 			return true, fmt.Errorf("refusing to replace %s: it holds the current directory %s; run the build from outside it", t.name, wd)
 		}
-	}
-	if err := t.checkInputs(); err != nil {
-		return true, err
 	}
 	entries, err := os.ReadDir(t.dir)
 	if err != nil {
 		return true, fmt.Errorf("output directory %s: %w", t.name, err)
+	}
+	if err := t.checkInputs(entries); err != nil {
+		return true, err
 	}
 	if len(entries) == 0 {
 		return true, nil
@@ -266,41 +266,42 @@ func (t *Target) check(noteChanged bool) (exists bool, err error) {
 	return true, nil
 }
 
-// checkInputs refuses a target that holds one of the inputs, at any depth
-// and under any name (hard links included).
-func (t *Target) checkInputs() error {
-	type input struct {
-		name string
-		info fs.FileInfo
-	}
-	var inputs []input
-	for _, p := range t.opt.Inputs {
-		if p == "" {
+// checkInputs refuses a target that holds one of the inputs: by path at
+// any depth (symbolic links resolved), and under any name among the
+// target's own entries (a hard link). Deeper entries under other names lie
+// in subdirectories, which the manifest check refuses anyway.
+func (t *Target) checkInputs(entries []os.DirEntry) error {
+	for _, in := range t.opt.Inputs {
+		if in == "" {
 			continue
 		}
-		if info, err := os.Stat(p); err == nil {
-			inputs = append(inputs, input{p, info})
-		}
-	}
-	if len(inputs) == 0 {
-		return nil
-	}
-	return filepath.WalkDir(t.dir, func(p string, d fs.DirEntry, err error) error {
+		info, err := os.Stat(in)
 		if err != nil {
-			return fmt.Errorf("output directory %s: %w", t.name, err)
+			continue // a preset name, not a file
 		}
-		info, err := d.Info()
-		if err != nil {
-			return nil
-		}
-		for _, in := range inputs {
-			if os.SameFile(info, in.info) {
-				rel, _ := filepath.Rel(t.dir, p)
-				return &InputInsideError{Dir: t.name, Input: in.name, Entry: rel}
+		if abs, err := filepath.Abs(in); err == nil {
+			if real, err := filepath.EvalSymlinks(abs); err == nil {
+				if rel, ok := within(t.dir, real); ok {
+					return &InputInsideError{Dir: t.name, Input: in, Entry: rel}
+				}
 			}
 		}
-		return nil
-	})
+		for _, e := range entries {
+			if ei, err := e.Info(); err == nil && os.SameFile(ei, info) {
+				return &InputInsideError{Dir: t.name, Input: in, Entry: e.Name()}
+			}
+		}
+	}
+	return nil
+}
+
+// within reports whether path lies in dir (or is dir), and where.
+func within(dir, path string) (rel string, ok bool) {
+	rel, err := filepath.Rel(dir, path)
+	if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		return "", false
+	}
+	return rel, true
 }
 
 // describe names each entry, a directory with a trailing "/" and the
@@ -312,18 +313,25 @@ func describe(dir string, entries []os.DirEntry) []string {
 			names = append(names, e.Name())
 			continue
 		}
+		const most = 1000 // counting stops here: a target may be a whole home directory
 		n := 0
 		filepath.WalkDir(filepath.Join(dir, e.Name()), func(_ string, d fs.DirEntry, err error) error {
 			if err == nil && !d.IsDir() {
 				n++
 			}
+			if n >= most {
+				return filepath.SkipAll
+			}
 			return nil
 		})
-		files := "files"
-		if n == 1 {
-			files = "file"
+		count := fmt.Sprintf("%d files", n)
+		switch {
+		case n == 1:
+			count = "1 file"
+		case n >= most:
+			count = fmt.Sprintf("%d or more files", most)
 		}
-		names = append(names, fmt.Sprintf("%s/ (%d %s)", e.Name(), n, files))
+		names = append(names, fmt.Sprintf("%s/ (%s)", e.Name(), count))
 	}
 	sort.Strings(names)
 	return names
