@@ -98,10 +98,13 @@ type ReportElement struct {
 	TeeMM         float64 `json:"tee_mm"`
 	StepMM        float64 `json:"step_mm,omitempty"`
 	TrimMM        float64 `json:"trim_mm,omitempty"`
-	ViaMM         float64 `json:"via_mm"`
-	RecentreMM    float64 `json:"recentre_mm"`
-	DrawnLengthMM float64 `json:"drawn_length_mm"`
-	AttachedTo    string  `json:"attached_to,omitempty"`
+	// TrimAllowanceMM is how much longer than DrawnLengthMM an open stub
+	// is etched, to be cut back at the bench ([layout] trim).
+	TrimAllowanceMM float64 `json:"trim_allowance_mm,omitempty"`
+	ViaMM           float64 `json:"via_mm"`
+	RecentreMM      float64 `json:"recentre_mm"`
+	DrawnLengthMM   float64 `json:"drawn_length_mm"`
+	AttachedTo      string  `json:"attached_to,omitempty"`
 }
 
 // ReportRecentring records the optimiser's work.
@@ -253,6 +256,9 @@ func NewReport(r *synth.Result, version string) Report {
 		if e.Role == synth.RoleStub {
 			re.End = e.End.String()
 			re.AttachedTo = throughID(els, e.At)
+			if e.End == synth.Open {
+				re.TrimAllowanceMM = r.Design.Layout.Trim * 1e3
+			}
 		}
 		rep.Elements = append(rep.Elements, re)
 	}

@@ -6,15 +6,31 @@ import (
 	"fmt"
 	"math/cmplx"
 
+	"stubcraft/physical"
 	"stubcraft/synth/geom"
 	"stubcraft/synth/tune"
 )
 
-// BenchModel returns the drawn board as a tune.Model: what the bench loop
+// BenchModel returns the etched board as a tune.Model (open stubs with their
+// trim allowance): what the bench loop
 // (sensitivities, the fit of a measured S11, trims) works on. Its line
 // maker is the tolerance analysis's, so perturbed boards cost no new field
 // solves.
 func (r *Result) BenchModel() tune.Model {
+	m := r.designModel()
+	// The etched board's open stubs carry the trim allowance.
+	m.Board.Stubs = append([]physical.Stub(nil), m.Board.Stubs...)
+	for k := range m.Board.Stubs {
+		if !m.Board.Stubs[k].Short {
+			m.Board.Stubs[k].Length += r.Design.Layout.Trim
+		}
+	}
+	return m
+}
+
+// designModel is BenchModel at the design lengths (no trim allowance):
+// what the sensitivities describe.
+func (r *Result) designModel() tune.Model {
 	m := tune.Model{
 		Board: r.Physical.Board,
 		Lines: r.benchLines,
@@ -45,7 +61,7 @@ func (r *Result) SweepBand() (lo, hi float64) {
 // the sweep has none, with a note.
 func (r *Result) sensitivities(ctx context.Context) error {
 	lo, hi := r.SweepBand()
-	s, err := r.BenchModel().Sensitivities(ctx, lo, hi)
+	s, err := r.designModel().Sensitivities(ctx, lo, hi)
 	if err != nil {
 		if ctx.Err() != nil {
 			return fmt.Errorf("sensitivities: %w", ctx.Err())
@@ -102,11 +118,20 @@ func (r *Result) Tune(ctx context.Context, meas tune.Measurement, opt TuneOption
 }
 
 // Trimmed returns a copy of the build with its open stubs cut as trims
-// say, its geometry laid out again: the drawing of the trimmed board.
+// say (cuts from the etched end, trim allowance included), its geometry
+// laid out again without trim ticks: the drawing of the trimmed board.
 func (r *Result) Trimmed(trims []tune.Trim) (*Result, error) {
 	q := *r
 	q.Physical.Elements = append([]Element(nil), r.Physical.Elements...)
 	q.Notes = append([]string(nil), r.Notes...)
+	allowance := r.Design.Layout.Trim
+	q.Design.Layout.Trim = 0
+	for i := range q.Physical.Elements {
+		if e := &q.Physical.Elements[i]; e.Role == RoleStub && e.End == Open {
+			e.Trim += allowance
+			e.DrawnLength += allowance
+		}
+	}
 	for _, t := range trims {
 		found := false
 		for i := range q.Physical.Elements {
@@ -120,7 +145,7 @@ func (r *Result) Trimmed(trims []tune.Trim) (*Result, error) {
 			}
 			e.Trim -= t.Cut
 			e.DrawnLength -= t.Cut
-			q.Notes = append(q.Notes, fmt.Sprintf("%s trimmed by %.3f mm at the bench (trim_mm)", t.ID, t.Cut*1e3))
+			q.Notes = append(q.Notes, fmt.Sprintf("%s cut by %.3f mm from its etched end at the bench (trim_mm is the change from the design length)", t.ID, t.Cut*1e3))
 		}
 		if !found {
 			return nil, fmt.Errorf("trim of %s: no such stub", t.ID)

@@ -113,6 +113,10 @@ type LayoutSpec struct {
 	// EdgeClearance is the copper pull-back from the routed outline, m:
 	// everything but the signal line at the port edges keeps it.
 	EdgeClearance float64
+	// Trim is the trim allowance, m: every open stub is drawn this much
+	// longer than its design length, with ticks every TrimTickPitch on the
+	// legend layer and in the drawing, to be cut back at the bench.
+	Trim float64
 }
 
 // FabSpec holds the board maker's limits.

@@ -73,6 +73,7 @@ type designRawLayout struct {
 	ViaDrill   any `toml:"via_drill"`
 	ViaPad     any `toml:"via_pad"`
 	EdgeClear  any `toml:"edge_clearance"`
+	Trim       any `toml:"trim"`
 }
 
 type designRawFab struct {
@@ -256,6 +257,7 @@ func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) De
 		designRead(dd, "layout.via_drill", l.ViaDrill, designLength, &d.Layout.ViaDrill, "")
 		designRead(dd, "layout.via_pad", l.ViaPad, designLength, &d.Layout.ViaPad, "")
 		designRead(dd, "layout.edge_clearance", l.EdgeClear, designLength, &d.Layout.EdgeClearance, "")
+		designRead(dd, "layout.trim", l.Trim, designLength, &d.Layout.Trim, "")
 	}
 	d.Fab = DefaultFab()
 	if f := tb.Fab; f != nil {

@@ -170,6 +170,9 @@ func (c *designCheck) checkLayout(l LayoutSpec) {
 	if !(l.Margin >= 0 && l.Margin <= MaxMargin) {
 		c.failErr("layout.margin", designMM(l.Margin), rangeError("the margin must be from 0 mm to %s, for example margin = \"5mm\"", formatMM(MaxMargin)))
 	}
+	if !(l.Trim >= 0) || !designFinite(l.Trim) || l.Trim > 10e-3 {
+		c.fail("layout.trim", designMM(l.Trim), "the trim allowance must be 0–10 mm")
+	}
 	if !(l.EdgeClearance >= 0) || !designFinite(l.EdgeClearance) || l.EdgeClearance > 5e-3 {
 		c.fail("layout.edge_clearance", designMM(l.EdgeClearance), "the copper pull-back from the routed edge must be 0–5 mm")
 	} else if l.Margin < l.EdgeClearance {

@@ -5,6 +5,7 @@ import (
 	"math"
 
 	"stubcraft/synth/geom"
+	"stubcraft/synth/tune"
 )
 
 // PortPadLength is the length of the pad flashed at each port for an
@@ -43,6 +44,9 @@ func (r *Result) GeomSpec() geom.Spec {
 	for _, e := range r.Physical.Elements {
 		if e.Role == RoleStub {
 			st := geom.Stub{ID: e.ID, At: e.At, Width: e.Width, Length: e.DrawnLength, Side: side}
+			if e.End == Open {
+				st.TrimAllowance = d.Layout.Trim
+			}
 			if e.End == Short {
 				st.Via = &geom.ViaSpec{Drill: d.Layout.ViaDrill, Pad: d.Layout.ViaPad}
 				st.Length += d.Layout.ViaPad / 2
@@ -92,5 +96,31 @@ func (r *Result) LayoutNotes(l geom.Layout) []string {
 		}
 		notes = append(notes, n)
 	}
+	for _, t := range l.Marks.Trims {
+		notes = append(notes, r.TrimNote(t))
+	}
 	return notes
+}
+
+// TrimNote says how to use the trim ticks of one stub drawn with a trim
+// allowance: which tick is the design length, and how far each tick cut
+// moves the best match (from the stub's length sensitivity).
+func (r *Result) TrimNote(t geom.Trim) string {
+	n := fmt.Sprintf("%s is drawn %.2f mm beyond its design length for trimming at the bench: ticks every %.2f mm on the legend, tick 0 (nearest the tee) at the design length, the drawn end %d ticks beyond it",
+		t.StubID, r.Design.Layout.Trim*1e3, float64(geom.TrimTickPitch)*1e-6, t.Ticks)
+	if mhz, ok := r.TickShift(t.StubID); ok {
+		n += fmt.Sprintf("; each tick cut moves the best match by %+.1f MHz", mhz)
+	}
+	return n
+}
+
+// TickShift returns how far one trim tick cut from stub id moves the best
+// match, MHz (from the length sensitivity, scaled to the tick pitch).
+func (r *Result) TickShift(id string) (float64, bool) {
+	for _, s := range r.Sensitivity {
+		if s.ID == id && s.Quantity == tune.Length {
+			return -s.BestMatchShift / 1e6 * float64(geom.TrimTickPitch) * 1e-9 / tune.LengthStep, true
+		}
+	}
+	return 0, false
 }

@@ -39,7 +39,7 @@ type Element struct {
 	Via           float64 // via-inductance compensation (Goldfarb-Pucel), m
 	Step          float64 // width-step compensation (Gupta, Garg, Bahl and Bhartia), m
 	Recentre      float64 // change made by the re-centring optimiser, m
-	Trim          float64 // cut made at the bench (negative: shorter), m; zero in a build
+	Trim          float64 // change from the design length after trimming at the bench, m; zero in a build
 	DrawnLength   float64 // the copper drawn, m
 	At            int     // stubs: index of the through element on the load side of the tee
 	Params        physical.LineParams

@@ -60,7 +60,7 @@ func Build(s Spec) (Layout, error) {
 	base := [2]int64{up, down} // the through line's and port pads' extent, before the stubs
 	stubs := make([]stubNM, len(s.Stubs))
 	for k, t := range s.Stubs {
-		w, l := Nanometres(t.Width), Nanometres(t.Length)
+		w, l := Nanometres(t.Width), Nanometres(t.Length+t.TrimAllowance)
 		a, b := segs[t.At], segs[t.At+1]
 		x0 := a.x1 - w/2
 		st := stubNM{cx: x0 + w/2, xs: [2]int64{x0, x0 + w}}
@@ -181,6 +181,11 @@ func Build(s Spec) (Layout, error) {
 			keep = append(keep, sq)
 		}
 	}
+	for k, t := range s.Stubs {
+		if t.TrimAllowance > 0 {
+			l.Marks.Trims = append(l.Marks.Trims, trimMark(t, stubs[k], bends, k, yc))
+		}
+	}
 	outline := Union(copper)
 	if len(outline) != 1 {
 		return Layout{}, specErr("Segments", ErrOverlap, "the copper is not one simple polygon (%d loops)", len(outline))
@@ -295,6 +300,12 @@ func check(s Spec) error {
 		if err := pos(f+".Length", t.Length); err != nil {
 			return err
 		}
+		if err := nonNeg(f+".TrimAllowance", t.TrimAllowance); err != nil {
+			return err
+		}
+		if t.TrimAllowance > 0 && t.Via != nil {
+			return specErr(f+".TrimAllowance", ErrRange, "stub %q ends in a via and cannot be trimmed", t.ID)
+		}
 		if v := t.Via; v != nil {
 			if err := pos(f+".Via.Drill", v.Drill); err != nil {
 				return err
@@ -360,3 +371,20 @@ func check(s Spec) error {
 
 // mm formats nanometres as millimetres for error messages.
 func mm(nm int64) string { return FormatMM(nm) }
+
+// trimMark places the ticks of stub t (laid out as st, or bent by
+// bends[k]) drawn TrimAllowance longer than its design length.
+func trimMark(t Stub, st stubNM, bends []*bendNM, k int, yc int64) Trim {
+	a := Nanometres(t.TrimAllowance)
+	tr := Trim{StubID: t.ID, Across: Nanometres(t.Width), Ticks: int(a / TrimTickPitch)}
+	if bends != nil && bends[k] != nil {
+		b := bends[k]
+		tr.End = Point{b.end.X, b.end.Y + yc}
+		tr.Dir = Point{b.dir, 0}
+	} else {
+		tr.End = Point{st.cx, st.end + yc}
+		tr.Dir = Point{0, int64(t.Side)}
+	}
+	tr.DesignEnd = Point{tr.End.X - a*tr.Dir.X, tr.End.Y - a*tr.Dir.Y}
+	return tr
+}

@@ -102,6 +102,37 @@ type Marks struct {
 	// not fit Spec.MaxBoard straight), in Spec order; nil when every stub
 	// is straight.
 	Bends []Bend
+	// Trims has one entry per stub drawn with a trim allowance, in Spec
+	// order.
+	Trims []Trim
+}
+
+// TrimTickPitch is the spacing of the trim ticks along a stub drawn with a
+// trim allowance: a quarter millimetre, what a knife and a ruler resolve
+// at the bench (common practice, no source).
+const TrimTickPitch = 250_000 // nm
+
+// Trim locates the trim ticks of one open stub drawn longer than its
+// design length. Tick k lies at DesignEnd + k·TrimTickPitch·Dir, for k = 0
+// (the design length) … Ticks; the drawn end is End.
+type Trim struct {
+	StubID    string
+	DesignEnd Point
+	End       Point
+	// Dir is the unit direction from the design end toward the drawn end
+	// (one of ±x, ±y).
+	Dir Point
+	// Ticks is the number of whole pitches between the design end and the
+	// drawn end.
+	Ticks int
+	// Across is the stub's width at its end, nm: the ticks run across it.
+	Across int64
+}
+
+// Tick returns the position of tick k on the stub's centre line.
+func (t Trim) Tick(k int) Point {
+	d := int64(k) * TrimTickPitch
+	return Point{t.DesignEnd.X + d*t.Dir.X, t.DesignEnd.Y + d*t.Dir.Y}
 }
 
 // Tee locates one stub.

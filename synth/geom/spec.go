@@ -81,6 +81,9 @@ type Stub struct {
 	Side   int // +1: the stub goes toward +y; −1: toward −y
 	// Via, when not nil, shorts the stub's end to ground.
 	Via *ViaSpec
+	// TrimAllowance draws an open stub this much longer than Length, m,
+	// to be cut back at the bench; Marks.Trims places its ticks.
+	TrimAllowance float64
 }
 
 // ViaSpec is the via at the end of a shorted stub. Its round pad is centred
