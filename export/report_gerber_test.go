@@ -16,7 +16,7 @@ import (
 
 // buildReport runs the pipeline on an invented load and returns the
 // report, the layout and the parsed top copper and drill files.
-func buildReport(t *testing.T, stub, side string) (Report, *gerberread.File, *gerberread.Drill) {
+func buildReport(t *testing.T, stub, side, trim string) (Report, *gerberread.File, *gerberread.Drill) {
 	t.Helper()
 	text := `
 name = "check"
@@ -31,6 +31,7 @@ stub = "` + stub + `"
 pick = "shortest"
 [layout]
 stub_side = "` + side + `"
+trim = "` + trim + `"
 `
 	d, err := synth.DecodeDesign(strings.NewReader(text), "check.toml", "")
 	if err != nil {
@@ -55,11 +56,12 @@ stub_side = "` + side + `"
 // widths across the line, through lengths between the board edges and the
 // stub's centre line, the stub's width across it, and its length from the
 // through line's edge to its end (open) or to its via's drill centre
-// (short, read from the Excellon file).
+// (short, read from the Excellon file). An open stub drawn with a trim
+// allowance reaches the allowance beyond its drawn length.
 func TestReportDimensionsInGerber(t *testing.T) {
-	for _, c := range []struct{ stub, side string }{{"open", "up"}, {"short", "down"}} {
-		t.Run(c.stub+"-"+c.side, func(t *testing.T) {
-			rep, top, drill := buildReport(t, c.stub, c.side)
+	for _, c := range []struct{ stub, side, trim string }{{"open", "up", "0mm"}, {"short", "down", "0mm"}, {"open", "down", "1.25mm"}} {
+		t.Run(c.stub+"-"+c.side+"-trim-"+c.trim, func(t *testing.T) {
+			rep, top, drill := buildReport(t, c.stub, c.side, c.trim)
 			if len(top.Regions) != 1 {
 				t.Fatalf("%d copper regions, want one merged net", len(top.Regions))
 			}
@@ -129,7 +131,10 @@ func TestReportDimensionsInGerber(t *testing.T) {
 				if sign < 0 {
 					end = along[0][0]
 				}
-				near("drawn length of "+stub.ID, sign*(end-edge), stub.DrawnLengthMM)
+				if want := map[string]float64{"0mm": 0, "1.25mm": 1.25}[c.trim]; stub.TrimAllowanceMM != want {
+					t.Errorf("trim_allowance_mm %g, want %g", stub.TrimAllowanceMM, want)
+				}
+				near("drawn length of "+stub.ID+" with its trim allowance", sign*(end-edge), stub.DrawnLengthMM+stub.TrimAllowanceMM)
 			} else {
 				if len(drill.Hits) != 1 {
 					t.Fatalf("%d drill hits", len(drill.Hits))

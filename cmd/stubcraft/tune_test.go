@@ -122,3 +122,64 @@ func TestTuneRefusals(t *testing.T) {
 		t.Errorf("a missing file: got %v", err)
 	}
 }
+
+// With a trim allowance the etched open stub is longer than its design
+// length, so a board whose εr came out a little low (which raises the
+// match, within what the 1.5 mm allowance covers: about 7 MHz here) or
+// high is still fixed by a cut, never by growing the stub.
+func TestTuneWithTrimAllowance(t *testing.T) {
+	dir := t.TempDir()
+	design := filepath.Join("..", "..", "testdata", "designs", "trim-allowance.toml")
+	in, err := synth.LoadDesign(design, synth.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	in.SkipTolerance = true
+	res, err := synth.Build(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, truth := range []tune.State{{ErRatio: 0.99, LoadScale: 1}, {ErRatio: 1.03, Etch: -10e-6, LoadScale: 1}} {
+		r, err := res.BenchModel().Simulate(truth)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ts := &physical.Touchstone{Ports: 1, Z0: 50}
+		for i := 0; i <= 120; i++ {
+			f := 0.8e9 + 0.25e9*float64(i)/120
+			g, err := r.S11(f)
+			if err != nil {
+				t.Fatal(err)
+			}
+			ts.Freqs, ts.S = append(ts.Freqs, f), append(ts.S, []complex128{g})
+		}
+		var b bytes.Buffer
+		if err := export.WriteTouchstone(&b, ts, nil); err != nil {
+			t.Fatal(err)
+		}
+		measured := filepath.Join(dir, "meter.s1p")
+		if err := os.WriteFile(measured, b.Bytes(), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		text, err := runRoot(t, "tune", design, measured, "--json")
+		if err != nil {
+			t.Fatal(err)
+		}
+		var rep struct {
+			Trims []struct {
+				TrimMM float64 `json:"trim_mm"`
+				CanCut bool    `json:"can_cut"`
+			} `json:"trims"`
+			PredictedBestMatchHz float64 `json:"predicted_best_match_hz"`
+		}
+		if err := json.Unmarshal([]byte(text), &rep); err != nil {
+			t.Fatal(err)
+		}
+		if len(rep.Trims) != 1 || !rep.Trims[0].CanCut || rep.Trims[0].TrimMM <= 0 {
+			t.Errorf("εr ratio %.2f: trims %+v, want one cut", truth.ErRatio, rep.Trims)
+		}
+		if math.Abs(rep.PredictedBestMatchHz/915e6-1) > 0.003 {
+			t.Errorf("εr ratio %.2f: predicted best match %.4f MHz", truth.ErRatio, rep.PredictedBestMatchHz/1e6)
+		}
+	}
+}
