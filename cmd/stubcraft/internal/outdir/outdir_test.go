@@ -462,3 +462,31 @@ func TestForceRefusesTargetHoldingTheWorkingDirectory(t *testing.T) {
 	}
 	checkComplete(t, dir, "1")
 }
+
+// The portable fallback (systems without RENAME_EXCHANGE): a new target is
+// renamed in without replacing anything; an existing one moves aside and
+// is handed back for removal.
+func TestPlaceByRenames(t *testing.T) {
+	root := t.TempDir()
+	dir := filepath.Join(root, "out")
+	tmp := filepath.Join(root, ".out.tmp-1-a")
+	mustWrite(t, filepath.Join(tmp, "report.json"), "new")
+	if old, err := placeByRenames(tmp, dir, false); err != nil || old != "" {
+		t.Fatalf("new target: old %q, %v", old, err)
+	}
+	tmp2 := filepath.Join(root, ".out.tmp-1-b")
+	mustWrite(t, filepath.Join(tmp2, "report.json"), "newer")
+	if _, err := placeByRenames(tmp2, dir, false); err == nil {
+		t.Fatal("a target that appeared meanwhile was replaced")
+	}
+	old, err := placeByRenames(tmp2, dir, true)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if data, _ := os.ReadFile(filepath.Join(dir, "report.json")); string(data) != "newer" {
+		t.Errorf("target holds %q", data)
+	}
+	if data, _ := os.ReadFile(filepath.Join(old, "report.json")); string(data) != "new" || !strings.HasPrefix(filepath.Base(old), ".out.tmp-1-") {
+		t.Errorf("old output at %s holds %q", old, data)
+	}
+}
