@@ -36,6 +36,9 @@ func Files(res *synth.Result, opt FileOptions) []Artefact {
 	rep := NewReport(res, opt.Version)
 	lay := res.Layout
 	meta := Meta{ProjectName: res.Design.Name, Version: opt.Version, Created: opt.Created}
+	if b := res.Stackup.Board; b != nil {
+		meta.Layers = b.Layers
+	}
 	base := res.Design.Name
 	files := []Artefact{
 		{"report.json", func(w io.Writer) error { return WriteReport(w, rep) }},
@@ -53,7 +56,7 @@ func Files(res *synth.Result, opt FileOptions) []Artefact {
 		files = append(files, Artefact{ExcellonFileName(base), func(w io.Writer) error { return WriteExcellon(w, lay, meta) }})
 	}
 	files = append(files,
-		Artefact{JobFileName(base), func(w io.Writer) error { return WriteGerberJob(w, lay, meta, JobStackOf(res.Stackup)) }},
+		Artefact{JobFileName(base), func(w io.Writer) error { return WriteGerberJob(w, lay, meta, JobStackFor(res)) }},
 	)
 	dopt := DrawingOptions{Page: opt.Page, Fit: opt.Fit, Created: opt.Created, Version: opt.Version}
 	files = append(files,
@@ -96,6 +99,20 @@ func JobStackOf(st stackups.Stackup) JobStack {
 	if st.Mask != nil {
 		js.Mask, js.MaskThickness, js.MaskEr = true, st.Mask.Thickness, st.Mask.Er
 	}
+	return js
+}
+
+// JobStackFor returns the job file's stack for a build: JobStackOf its
+// stackup, the multilayer board a layer-pair stackup belongs to, the
+// design's finish, and impedance control (every line is sized for its
+// Z0, so the fab is to hold the widths of the impedance table).
+func JobStackFor(res *synth.Result) JobStack {
+	js := JobStackOf(res.Stackup)
+	if b := res.Stackup.Board; b != nil {
+		js.Layers, js.BoardThickness = b.Layers, b.Thickness
+	}
+	js.Finish = synth.FinishJobName(res.Design.Fab.Finish)
+	js.ImpedanceControlled = true
 	return js
 }
 

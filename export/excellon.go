@@ -56,7 +56,7 @@ func WriteExcellon(w io.Writer, l geom.Layout, meta Meta) error {
 	p("; #@! TF.CreationDate,%s", meta.creationDate())
 	p("; #@! TF.ProjectId,%s,%s,%s", attrField(meta.name()), guid, attrField(meta.revision()))
 	p("; #@! TF.SameCoordinates,%s", guid)
-	p("; #@! TF.FileFunction,%s", DrillPTH.FileFunction())
+	p("; #@! TF.FileFunction,%s", DrillPTH.FileFunctionOf(meta.Layers))
 	p("; #@! TF.FilePolarity,Positive")
 	p("FMAT,2")
 	p("METRIC,TZ")

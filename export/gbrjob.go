@@ -22,6 +22,18 @@ type JobStack struct {
 	Mask                bool    // a top solder mask is applied
 	MaskThickness       float64
 	MaskEr              float64
+	// Layers and BoardThickness describe the whole board when the stack
+	// is the outer layer pair of a multilayer: its copper layer count and
+	// finished thickness, m. Zero: a two-layer board, as thick as the
+	// dielectric and the two coppers.
+	Layers         int
+	BoardThickness float64
+	// Finish is the surface finish in the job format's words ("ENIG",
+	// "None", …; see FinishJobName); empty leaves it out.
+	Finish string
+	// ImpedanceControlled marks a board whose line widths are sized for
+	// an impedance, which the fab is to hold.
+	ImpedanceControlled bool
 }
 
 // job mirrors the keys of the Gerber job format (Gerber Layer Format
@@ -44,10 +56,12 @@ type jobSoftware struct {
 }
 
 type jobGeneral struct {
-	ProjectId      jobProject // key name from the specification
-	Size           jobSize
-	LayerNumber    int
-	BoardThickness json.Number
+	ProjectId           jobProject // key name from the specification
+	Size                jobSize
+	LayerNumber         int
+	BoardThickness      json.Number
+	Finish              string `json:",omitempty"`
+	ImpedanceControlled bool   `json:",omitempty"`
 }
 
 type jobProject struct {
@@ -73,8 +87,9 @@ type jobMaterial struct {
 
 // WriteGerberJob writes the Gerber job file (.gbrjob, JSON) of the board:
 // the header with GenerationSoftware and CreationDate, GeneralSpecs with
-// ProjectId, the board Size (mm), LayerNumber 2 and BoardThickness (the
-// dielectric plus both coppers, mm), FilesAttributes naming the Gerber
+// ProjectId, the board Size (mm), LayerNumber and BoardThickness (2 and
+// the dielectric plus both coppers, mm, unless stack gives the multilayer
+// board's), Finish and ImpedanceControlled, FilesAttributes naming the Gerber
 // files by Layer.FileName(l.Name), and MaterialStackup from top to bottom.
 // FilesAttributes lists every file a build writes for the layout, each
 // with its function: the Gerber layers that have content (LayersOf) and,
@@ -112,15 +127,23 @@ func WriteGerberJob(w io.Writer, l geom.Layout, meta Meta, stack JobStack) error
 		GeneralSpecs: jobGeneral{
 			ProjectId:      jobProject{meta.name(), guid, meta.revision()},
 			Size:           jobSize{mmNumber(max.X - min.X), mmNumber(max.Y - min.Y)},
-			LayerNumber:    2,
-			BoardThickness: mmNumber(geom.Nanometres(stack.DielectricThickness) + 2*cu),
+			LayerNumber:         2,
+			BoardThickness:      mmNumber(geom.Nanometres(stack.DielectricThickness) + 2*cu),
+			Finish:              stack.Finish,
+			ImpedanceControlled: stack.ImpedanceControlled,
 		},
 	}
+	if stack.Layers > 2 {
+		j.GeneralSpecs.LayerNumber = stack.Layers
+	}
+	if stack.BoardThickness > 0 {
+		j.GeneralSpecs.BoardThickness = mmNumber(geom.Nanometres(stack.BoardThickness))
+	}
 	for _, ly := range LayersOf(l) {
-		j.FilesAttributes = append(j.FilesAttributes, jobFile{ly.FileName(l.Name), ly.FileFunction(), ly.FilePolarity()})
+		j.FilesAttributes = append(j.FilesAttributes, jobFile{ly.FileName(l.Name), ly.FileFunctionOf(stack.Layers), ly.FilePolarity()})
 	}
 	if len(l.Vias) > 0 {
-		j.FilesAttributes = append(j.FilesAttributes, jobFile{ExcellonFileName(l.Name), DrillPTH.FileFunction(), "Positive"})
+		j.FilesAttributes = append(j.FilesAttributes, jobFile{ExcellonFileName(l.Name), DrillPTH.FileFunctionOf(stack.Layers), "Positive"})
 	}
 	if stack.Mask {
 		m := jobMaterial{Type: "SolderMask", Thickness: mmNumber(geom.Nanometres(stack.MaskThickness)), Name: "Top solder mask"}

@@ -129,3 +129,50 @@ func TestGerberJobListsWrittenFiles(t *testing.T) {
 		t.Errorf("files %v, want %v", got, want)
 	}
 }
+
+// TestGerberJobMultilayerFinish: the outer layer pair of a 4-layer board
+// reports the whole board's layer count and thickness, the plane as the
+// inner layer L2 and the vias plated through all four layers (Gerber Layer
+// Format Specification 2023.08, 5.6.3 .FileFunction, from memory); the
+// finish and impedance control go into GeneralSpecs (Gerber Job Format,
+// from memory).
+func TestGerberJobMultilayerFinish(t *testing.T) {
+	l := build(t, refSpec())
+	st := refStack()
+	st.Layers, st.BoardThickness, st.Finish, st.ImpedanceControlled = 4, 1.6e-3, "ENIG", true
+	var b bytes.Buffer
+	if err := WriteGerberJob(&b, l, refMeta(), st); err != nil {
+		t.Fatal(err)
+	}
+	var j struct {
+		GeneralSpecs struct {
+			LayerNumber         int
+			BoardThickness      float64
+			Finish              string
+			ImpedanceControlled bool
+		}
+		FilesAttributes []struct{ Path, FileFunction string }
+	}
+	if err := json.Unmarshal(b.Bytes(), &j); err != nil {
+		t.Fatal(err)
+	}
+	g := j.GeneralSpecs
+	if g.LayerNumber != 4 || g.BoardThickness != 1.6 || g.Finish != "ENIG" || !g.ImpedanceControlled {
+		t.Errorf("general specs %+v", g)
+	}
+	want := map[string]string{"ref-copper-bottom.gbr": "Copper,L2,Inr", "ref-drill-plated.gbr": "Plated,1,4,PTH", "ref-drill.drl": "Plated,1,4,PTH"}
+	for _, f := range j.FilesAttributes {
+		if w, ok := want[f.Path]; ok && f.FileFunction != w {
+			t.Errorf("%s: %s, want %s", f.Path, f.FileFunction, w)
+		}
+	}
+	m := refMeta()
+	m.Layers = 4
+	var g2 bytes.Buffer
+	if err := WriteGerber(&g2, l, CopperBottom, m); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(g2.String(), "%TF.FileFunction,Copper,L2,Inr*%") {
+		t.Error("the plane Gerber of a 4-layer board is not Copper,L2,Inr")
+	}
+}

@@ -75,19 +75,33 @@ func (ly Layer) String() string {
 	return "Layer(" + strconv.Itoa(int(ly)) + ")"
 }
 
-// FileFunction returns the value of the layer's .FileFunction attribute.
-func (ly Layer) FileFunction() string {
+// FileFunction returns the value of the layer's .FileFunction attribute
+// on a two-layer board.
+func (ly Layer) FileFunction() string { return ly.FileFunctionOf(2) }
+
+// FileFunctionOf returns the value of the layer's .FileFunction attribute
+// on a board of that many copper layers (Gerber Layer Format
+// Specification 2023.08, 5.6.3, from memory): on a multilayer board the
+// plane under the top layer is the inner layer L2, and the vias are
+// plated through all layers.
+func (ly Layer) FileFunctionOf(layers int) string {
+	if layers < 2 {
+		layers = 2
+	}
 	switch ly {
 	case CopperTop:
 		return "Copper,L1,Top"
 	case CopperBottom:
+		if layers > 2 {
+			return "Copper,L2,Inr"
+		}
 		return "Copper,L2,Bot"
 	case Profile:
 		return "Profile,NP"
 	case SoldermaskTop:
 		return "Soldermask,Top"
 	case DrillPTH:
-		return "Plated,1,2,PTH"
+		return "Plated,1," + strconv.Itoa(layers) + ",PTH"
 	}
 	return ""
 }
@@ -208,7 +222,7 @@ func (g *gerber) header(layer Layer, meta Meta, guid, board string) {
 	g.line("%TF.CreationDate," + meta.creationDate() + "*%")
 	g.line("%TF.ProjectId," + attrField(meta.name()) + "," + guid + "," + attrField(meta.revision()) + "*%")
 	g.line("%TF.SameCoordinates," + guid + "*%")
-	g.line("%TF.FileFunction," + layer.FileFunction() + "*%")
+	g.line("%TF.FileFunction," + layer.FileFunctionOf(meta.Layers) + "*%")
 	g.line("%TF.FilePolarity," + layer.FilePolarity() + "*%")
 	g.line("%FSLAX46Y46*%")
 	g.line("%MOMM*%")

@@ -26,6 +26,10 @@ type Meta struct {
 	// Revision is the project revision in ProjectId; empty means "1".
 	Revision string
 	Created  time.Time
+	// Layers is the copper layer count of the whole board when the files
+	// describe the outer layer pair of a multilayer board; 0 or 2: a
+	// two-layer board.
+	Layers int
 }
 
 // dnsNamespace is the RFC 4122 (appendix C) name space ID for domain

@@ -22,6 +22,7 @@ func schema() tomlx.Schema {
 		"copper":     tomlx.Keys(rawCopper{}),
 		"mask":       tomlx.Keys(rawMask{}),
 		"spread":     tomlx.Keys(rawSpread{}),
+		"board":      tomlx.Keys(rawBoard{}),
 	}
 }
 
@@ -38,6 +39,11 @@ type (
 		Copper      toml.Primitive `toml:"copper"`
 		Mask        toml.Primitive `toml:"mask"`
 		Spread      toml.Primitive `toml:"spread"`
+		Board       toml.Primitive `toml:"board"`
+	}
+	rawBoard struct {
+		Layers    any `toml:"layers"`
+		Thickness any `toml:"thickness"`
 	}
 	rawDielectric struct {
 		Er          any `toml:"er"`
@@ -140,6 +146,9 @@ func (d *decoder) stackup(raw *rawFile) (Stackup, error) {
 		return Stackup{}, err
 	}
 	if s.Spread, err = d.spread(raw.Spread, s.Dielectric); err != nil {
+		return Stackup{}, err
+	}
+	if s.Board, err = d.board(raw.Board); err != nil {
 		return Stackup{}, err
 	}
 	// Everything in the schema has now been decoded; what is left is what
@@ -312,6 +321,29 @@ func (d *decoder) mask(p toml.Primitive) (*Mask, error) {
 		return nil, err
 	}
 	if out.LossTangent, _, err = d.num("mask.loss_tangent", raw.LossTangent, false); err != nil {
+		return nil, err
+	}
+	return &out, nil
+}
+
+// board reads the optional [board] table: the whole board this layer
+// pair belongs to.
+func (d *decoder) board(p toml.Primitive) (*Board, error) {
+	var raw rawBoard
+	present, err := d.table("board", p, &raw, false)
+	if err != nil || !present {
+		return nil, err
+	}
+	var out Board
+	n, _, err := d.num("board.layers", raw.Layers, true)
+	if err != nil {
+		return nil, err
+	}
+	out.Layers = int(n)
+	if float64(out.Layers) != n {
+		out.Layers = -1 // refused by Validate
+	}
+	if out.Thickness, err = d.quantity("board.thickness", raw.Thickness, true, units.ParseLength, "1.6mm"); err != nil {
 		return nil, err
 	}
 	return &out, nil

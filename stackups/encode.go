@@ -54,6 +54,12 @@ func Encode(w io.Writer, s Stackup) error {
 		kv("loss_tangent", tomlx.Number(m.LossTangent))
 	}
 
+	if bd := s.Board; bd != nil {
+		b.WriteString("\n[board]\n")
+		kv("layers", tomlx.Number(float64(bd.Layers)))
+		kv("thickness", tomlx.Quote(formatLength(bd.Thickness)))
+	}
+
 	if sp := s.Spread; sp != (Spread{}) {
 		b.WriteString("\n[spread]\n")
 		if sp.ErRel != 0 {

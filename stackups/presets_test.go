@@ -4,10 +4,12 @@ import (
 	"bytes"
 	"errors"
 	"io/fs"
+	"math"
 	"os"
 	"path/filepath"
 	"reflect"
 	"sort"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -60,9 +62,12 @@ func TestPresetValues(t *testing.T) {
 		{"fr4-1.6mm", 4.2, 4.7, 0.02, 1.6e-3, 34e-6, 36e-6, false},
 		{"fr4-1.6mm-masked", 4.2, 4.7, 0.02, 1.6e-3, 34e-6, 36e-6, true},
 		{"fr4-prepreg-0.2mm", 4.0, 4.2, 0.02, 0.2e-3, 34e-6, 36e-6, false},
+		{"fr4-prepreg-0.1mm", 3.8, 4.2, 0.02, 0.1e-3, 34e-6, 36e-6, false},
 		{"ptfe-glass-0.79mm", 2.17, 2.6, 0.002, 0.787e-3, 17e-6, 36e-6, false},
 		{"ptfe-glass-0.51mm", 2.17, 2.6, 0.002, 0.508e-3, 17e-6, 36e-6, false},
-		{"hydrocarbon-ceramic-0.51mm", 3.48, 3.48, 0.0037, 0.508e-3, 17e-6, 36e-6, false},
+		// Class-typical and rounded (the class spans about 3.3-3.7, from
+		// memory), not one product's figures.
+		{"hydrocarbon-ceramic-0.51mm", 3.3, 3.7, 0.004, 0.51e-3, 17e-6, 36e-6, false},
 		{"alumina-0.635mm", 9.6, 9.9, 0.0001, 0.635e-3, 3e-6, 5e-6, false},
 		{"polyimide-flex-0.1mm", 3.2, 3.5, 0.002, 0.1e-3, 17e-6, 18e-6, false},
 	}
@@ -86,6 +91,37 @@ func TestPresetValues(t *testing.T) {
 	// The FR-4 spread covers the usual 4.2-4.7 (from memory) to within 0.05.
 	if s, _ := Preset("fr4-1.6mm"); s.Dielectric.Er*(1-s.Spread.ErRel) > 4.2 || s.Dielectric.Er*(1+s.Spread.ErRel) < 4.65 {
 		t.Errorf("fr4-1.6mm spread %g around %g does not cover 4.2-4.65", s.Spread.ErRel, s.Dielectric.Er)
+	}
+}
+
+// TestPresetsTypicalRounded: every preset marks its values typical and
+// rounds εr to 0.05 and tanδ to one significant digit, so that no preset
+// reproduces the figures of one product's datasheet; the layer-pair
+// presets of multilayer boards say so and give the board's layer count and
+// total thickness (a usual 1.6 mm, from memory), which the board thickness
+// reports.
+func TestPresetsTypicalRounded(t *testing.T) {
+	for _, s := range Presets() {
+		d := s.Dielectric
+		if r := d.Er * 20; math.Abs(r-math.Round(r)) > 1e-9 {
+			t.Errorf("%s: εr %g not rounded to 0.05", s.Name, d.Er)
+		}
+		if e := math.Pow(10, math.Floor(math.Log10(d.LossTangent))); math.Abs(d.LossTangent/e-math.Round(d.LossTangent/e)) > 1e-9 {
+			t.Errorf("%s: tanδ %g not rounded to one significant digit", s.Name, d.LossTangent)
+		}
+	}
+	for _, c := range []struct {
+		name   string
+		layers int
+	}{{"fr4-prepreg-0.2mm", 4}, {"fr4-prepreg-0.1mm", 6}} {
+		s, _ := Preset(c.name)
+		if !s.LayerPair() || s.Board.Layers != c.layers || s.BoardThickness() != 1.6e-3 ||
+			!strings.Contains(s.Description, "layer pair of a "+strconv.Itoa(c.layers)+"-layer") {
+			t.Errorf("%s: board %+v, description %q; want the outer pair of a %d-layer 1.6 mm board", c.name, s.Board, s.Description, c.layers)
+		}
+	}
+	if s, _ := Preset("fr4-1.6mm"); s.LayerPair() || math.Abs(s.BoardThickness()-1.67e-3) > 1e-6 {
+		t.Errorf("fr4-1.6mm: a two-layer board 1.6 + 2 × 0.035 mm thick (1 oz, about 35 µm), got %g m", s.BoardThickness())
 	}
 }
 

@@ -19,6 +19,29 @@ type Stackup struct {
 	Copper      Copper
 	Mask        *Mask // solder mask over the line; nil when there is none
 	Spread      Spread
+	// Board, when not nil, says that this cross-section is one layer
+	// pair (the outer signal layer over the first plane) of a multilayer
+	// board, and gives that board's layer count and total thickness.
+	Board *Board
+}
+
+// Board is the multilayer board an outer layer pair belongs to.
+type Board struct {
+	Layers    int     // copper layers of the whole board: 2, 4, 6, …
+	Thickness float64 // finished board thickness, m
+}
+
+// LayerPair reports whether the stackup describes one layer pair of a
+// multilayer board rather than a whole two-layer board.
+func (s Stackup) LayerPair() bool { return s.Board != nil && s.Board.Layers > 2 }
+
+// BoardThickness returns the finished board thickness: [board] thickness
+// when given, else the dielectric and the two coppers.
+func (s Stackup) BoardThickness() float64 {
+	if s.Board != nil {
+		return s.Board.Thickness
+	}
+	return s.Dielectric.Thickness + 2*s.Copper.Thickness
 }
 
 // Dielectric is the laminate between the strip and its ground plane.

@@ -77,6 +77,12 @@ func (s Stackup) checks() []check {
 			check{"mask.loss_tangent", numValue(m.LossTangent), lossTangent(m.LossTangent)},
 		)
 	}
+	if b := s.Board; b != nil {
+		cs = append(cs,
+			check{"board.layers", numValue(float64(b.Layers)), checkLayers(b.Layers)},
+			check{"board.thickness", lenValue(b.Thickness), between("board thickness", b.Thickness, d.Thickness+2*c.Thickness, 10e-3, roundLength)},
+		)
+	}
 	return append(cs,
 		check{"spread.er", pctValue(s.Spread.ErRel), between("a spread", s.Spread.ErRel, 0, maxSpread, formatPercent)},
 		check{"spread.thickness", pctValue(s.Spread.ThicknessRel), between("a spread", s.Spread.ThicknessRel, 0, maxSpread, formatPercent)},
@@ -170,6 +176,14 @@ func checkMaskThickness(t float64) error {
 	}
 	if t <= 0 {
 		return fmt.Errorf("mask thickness must be positive (leave out [mask] for no mask)")
+	}
+	return nil
+}
+
+// checkLayers wants an even copper layer count from 2 to 32.
+func checkLayers(n int) error {
+	if n < 2 || n > 32 || n%2 != 0 {
+		return fmt.Errorf("the board's copper layer count must be an even whole number from 2 to 32")
 	}
 	return nil
 }

@@ -119,9 +119,44 @@ type LayoutSpec struct {
 	Trim float64
 }
 
-// FabSpec holds the board maker's limits.
+// FabSpec holds the board maker's limits and what the board is ordered
+// with.
 type FabSpec struct {
 	MinWidth float64 // narrowest track, m
+	Finish   string  // surface finish, one of Finishes()
+}
+
+// Finishes returns the surface finishes a design may name ([fab] finish).
+func Finishes() []string {
+	return []string{"enig", "enepig", "hasl-lead-free", "osp", "immersion-silver", "immersion-tin", "none"}
+}
+
+// DefaultFinish is the finish ordered when a design names none: ENIG is
+// flat (no solder levelling bumps on a line) and does not tarnish on the
+// bench (common practice, no source).
+const DefaultFinish = "enig"
+
+// FinishJobName returns the words the Gerber job format uses for a finish
+// of Finishes() (Gerber Job Format, GeneralSpecs.Finish, from memory), or
+// "" for an unknown one.
+func FinishJobName(f string) string {
+	switch f {
+	case "enig":
+		return "ENIG"
+	case "enepig":
+		return "ENEPIG"
+	case "hasl-lead-free":
+		return "HAL lead-free"
+	case "osp":
+		return "OSP"
+	case "immersion-silver":
+		return "Immersion silver"
+	case "immersion-tin":
+		return "Immersion tin"
+	case "none":
+		return "None"
+	}
+	return ""
 }
 
 // SweepSpec is the frequency sweep of the reports.
@@ -159,7 +194,7 @@ func DefaultLayout() LayoutSpec {
 
 // DefaultFab returns the board maker's limits used when a design file
 // gives none.
-func DefaultFab() FabSpec { return FabSpec{MinWidth: 0.15e-3} }
+func DefaultFab() FabSpec { return FabSpec{MinWidth: 0.15e-3, Finish: DefaultFinish} }
 
 // DefaultSweepSpan is the sweep span, each side of the design frequency,
 // used when a design file gives no sweep.

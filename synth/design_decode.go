@@ -78,6 +78,7 @@ type designRawLayout struct {
 
 type designRawFab struct {
 	MinWidth any `toml:"min_width"`
+	Finish   any `toml:"finish"`
 }
 
 type designRawSweep struct {
@@ -262,6 +263,7 @@ func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) De
 	d.Fab = DefaultFab()
 	if f := tb.Fab; f != nil {
 		designRead(dd, "fab.min_width", f.MinWidth, designLength, &d.Fab.MinWidth, "")
+		designRead(dd, "fab.finish", f.Finish, designString, &d.Fab.Finish, "")
 	}
 	d.Sweep = DefaultSweep(d.Freq)
 	if s := tb.Sweep; s != nil {

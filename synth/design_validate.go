@@ -114,6 +114,9 @@ func (d Design) Validate() error {
 	if !(d.Fab.MinWidth >= MinFabWidth && d.Fab.MinWidth <= MaxFabWidth) {
 		c.failErr("fab.min_width", designMM(d.Fab.MinWidth), rangeError("the narrowest track must be from %s to %s, for example min_width = \"0.15mm\"", formatMM(MinFabWidth), formatMM(MaxFabWidth)))
 	}
+	if FinishJobName(d.Fab.Finish) == "" {
+		c.fail("fab.finish", strconv.Quote(d.Fab.Finish), "use one of %s", strings.Join(Finishes(), ", "))
+	}
 	c.checkSweep(d.Sweep, d.Freq)
 	c.checkTolerance(d.Tolerance)
 	return c.err
