@@ -125,8 +125,8 @@ func WriteGerberJob(w io.Writer, l geom.Layout, meta Meta, stack JobStack) error
 			CreationDate:       meta.creationDate(),
 		},
 		GeneralSpecs: jobGeneral{
-			ProjectId:      jobProject{meta.name(), guid, meta.revision()},
-			Size:           jobSize{mmNumber(max.X - min.X), mmNumber(max.Y - min.Y)},
+			ProjectId:           jobProject{meta.name(), guid, meta.revision()},
+			Size:                jobSize{mmNumber(max.X - min.X), mmNumber(max.Y - min.Y)},
 			LayerNumber:         2,
 			BoardThickness:      mmNumber(geom.Nanometres(stack.DielectricThickness) + 2*cu),
 			Finish:              stack.Finish,
