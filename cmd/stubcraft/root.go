@@ -16,6 +16,6 @@ func newRootCmd() *cobra.Command {
 		SilenceUsage:  true,
 		SilenceErrors: true,
 	}
-	root.AddCommand(newTraceCmd(), newStackupsCmd(), newSolveCmd(), newBuildCmd(), newCompareCmd(), newXsectCmd(), newTuneCmd())
+	root.AddCommand(newTraceCmd(), newStackupsCmd(), newSolveCmd(), newBuildCmd(), newCompareCmd(), newXsectCmd(), newTuneCmd(), newVerifyCmd())
 	return root
 }

@@ -1,0 +1,183 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"time"
+
+	"github.com/spf13/cobra"
+
+	"stubcraft/export"
+	"stubcraft/physical"
+	"stubcraft/physical/fdtd"
+	"stubcraft/synth"
+	"stubcraft/synth/fullwave"
+)
+
+// verifyReport is what verify prints with --json and writes as
+// fullwave.json.
+type verifyReport struct {
+	Design             string   `json:"design"`
+	Mesh               string   `json:"mesh"`
+	FrequencyHz        float64  `json:"frequency_hz"`
+	S11DBF0            float64  `json:"s11_db_f0"`
+	BestMatchHz        float64  `json:"best_match_hz"`
+	CircuitS11DBF0     float64  `json:"circuit_s11_db_f0"`
+	CircuitBestMatchHz float64  `json:"circuit_best_match_hz"`
+	MaxSDifference     float64  `json:"max_s_difference"`
+	Cells              int      `json:"cells"`
+	Steps              int      `json:"steps"`
+	Seconds            float64  `json:"seconds"`
+	Notes              []string `json:"notes"`
+}
+
+func newVerifyCmd() *cobra.Command {
+	var (
+		outDir, meshArg         string
+		asJSON, force, mismatch bool
+		memMiB                  int
+	)
+	cmd := &cobra.Command{
+		Use:   "verify [DESIGN.toml]",
+		Short: "Check the drawn copper with a full-wave (3-D FDTD) solve",
+		Long: `Build the design with the same checks as build, then solve the drawn copper
+full-wave (three-dimensional FDTD: perfect zero-thickness copper, the
+substrate and its loss tangent, the ground plane and the vias), attach the
+load by network math and compare with the circuit model. It writes
+fullwave.s2p (the network alone, port 1 the source side, port 2 the load
+port, as network.s2p), fullwave-matched.s1p, fullwave.json and plots that
+overlay the full-wave and circuit |S11|. Without a design it checks the
+embedded demo. A run that does not converge writes nothing.`,
+		Example: `  stubcraft verify -o fw
+  stubcraft verify probe.toml -o fw --mesh normal --json`,
+		Args: cobra.MaximumNArgs(1),
+		RunE: func(cmd *cobra.Command, args []string) error {
+			path := ""
+			if len(args) == 1 {
+				path = args[0]
+			}
+			var mesh fdtd.MeshLevel
+			switch meshArg {
+			case "coarse":
+				mesh = fdtd.Coarse
+			case "normal":
+				mesh = fdtd.Normal
+			case "fine":
+				mesh = fdtd.Fine
+			default:
+				return fmt.Errorf("--mesh %q: want coarse, normal or fine", meshArg)
+			}
+			if memMiB <= 0 {
+				return fmt.Errorf("--memory %d: want a positive number of MiB", memMiB)
+			}
+			in, err := loadDesign(path, "")
+			if err != nil {
+				return err
+			}
+			out, err := openOutput(cmd, outDir, force, path, in.Design.StackupRef(), in.Design.Load.Touchstone)
+			if err != nil {
+				return err
+			}
+			defer out.Close()
+			cache := synth.NewSolverCache()
+			in.Lines = synth.LineMakerFor(cmd.Context(), in.Stackup, cache)
+			in.SkipTolerance, in.AcceptMismatch = true, mismatch
+			res, err := synth.Build(cmd.Context(), in)
+			if err != nil {
+				var mm *synth.MismatchError
+				if errors.As(err, &mm) {
+					err = fmt.Errorf("%w; fix the network or pass --accept-mismatch to check it anyway", err)
+				}
+				return inDesign(path, err)
+			}
+			opt := fdtd.Options{Mesh: mesh.Params(), MemoryLimit: int64(memMiB) << 20}
+			stop := fullwaveProgress(&opt)
+			rep, err := fullwave.Verify(cmd.Context(), res, opt)
+			stop()
+			if err != nil {
+				var me *fdtd.MemoryError
+				if errors.As(err, &me) {
+					return fmt.Errorf("%w (or raise --memory)", err)
+				}
+				return err
+			}
+			vr := verifyReport{Design: res.Design.Name, Mesh: meshArg, FrequencyHz: res.Design.Freq,
+				S11DBF0: rep.S11DBF0, BestMatchHz: rep.BestMatchHz, CircuitS11DBF0: rep.CircuitS11DBF0,
+				CircuitBestMatchHz: rep.CircuitBestMatchHz, MaxSDifference: rep.MaxSDifference,
+				Cells: rep.Cells, Steps: rep.Steps, Seconds: rep.Seconds, Notes: rep.Notes}
+			z0 := res.Design.Z0
+			net := &physical.Touchstone{Ports: 2, Z0: z0, Freqs: rep.Freqs}
+			in1 := &physical.Touchstone{Ports: 1, Z0: z0, Freqs: rep.Freqs}
+			for k := range rep.Freqs {
+				s := rep.Network[k]
+				net.S = append(net.S, []complex128{s[0][0], s[0][1], s[1][0], s[1][1]})
+				in1.S = append(in1.S, []complex128{rep.Matched[k]})
+			}
+			comments := func(what string) []string {
+				c := export.TouchstoneComments(res, version, what)
+				return append(c, fmt.Sprintf("full-wave FDTD, %s mesh, %d cells, %d steps", meshArg, rep.Cells, rep.Steps))
+			}
+			curves := export.FullwaveCurves{Name: res.Design.Name, F0: res.Design.Freq, Z0: z0, Freqs: rep.Freqs,
+				Fullwave: rep.Matched, Circuit: rep.CircuitMatched}
+			files := []artefact{
+				{"fullwave.json", func(w io.Writer) error { return printJSON(w, vr) }},
+				{"fullwave.s2p", func(w io.Writer) error {
+					return export.WriteTouchstone(w, net, comments("the matching network, full-wave: port 1 the source side, port 2 the load port"))
+				}},
+				{"fullwave-matched.s1p", func(w io.Writer) error {
+					return export.WriteTouchstone(w, in1, comments("the input of the matched load, full-wave network"))
+				}},
+			}
+			for _, name := range export.FullwavePlotNames() {
+				files = append(files, artefact{name, func(w io.Writer) error { return export.WriteFullwavePlot(w, name, curves) }})
+			}
+			if err := out.write(cmd.Context(), files); err != nil {
+				return err
+			}
+			if asJSON {
+				return printJSON(cmd.OutOrStdout(), vr)
+			}
+			w := cmd.OutOrStdout()
+			fmt.Fprintf(w, "full-wave |S11| at f0: %.1f dB (circuit model %.1f dB)\n", vr.S11DBF0, vr.CircuitS11DBF0)
+			fmt.Fprintf(w, "best match: %.4f GHz full-wave, %.4f GHz circuit model (f0 %.4f GHz)\n", vr.BestMatchHz/1e9, vr.CircuitBestMatchHz/1e9, vr.FrequencyHz/1e9)
+			fmt.Fprintf(w, "largest |S_fullwave − S_circuit| of the network: %.3f\n", vr.MaxSDifference)
+			fmt.Fprintf(w, "%d cells, %d steps, %.1f s; files in %s\n", vr.Cells, vr.Steps, vr.Seconds, outDir)
+			return nil
+		},
+	}
+	f := cmd.Flags()
+	f.StringVarP(&outDir, "out", "o", "", "write the full-wave results into this directory (required)")
+	f.BoolVar(&force, "force", false, "replace an existing output directory written by stubcraft")
+	f.BoolVar(&asJSON, "json", false, "print the result as JSON")
+	f.StringVar(&meshArg, "mesh", "normal", "mesh density: coarse, normal or fine")
+	f.BoolVar(&mismatch, "accept-mismatch", false, "check the copper even when the layout does not match (|S11| at f0 above −10 dB)")
+	f.IntVar(&memMiB, "memory", 1024, "refuse a grid whose estimate exceeds this many MiB")
+	_ = cmd.MarkFlagRequired("out")
+	return cmd
+}
+
+// fullwaveProgress sets o.Progress to show, on stderr when it is a
+// terminal, which run the solve is in, the field energy's decay and an
+// estimate of the time left. The returned function ends the line.
+func fullwaveProgress(o *fdtd.Options) (stop func()) {
+	if !isTerminal(os.Stderr) {
+		return func() {}
+	}
+	shown := false
+	o.Progress = func(p fdtd.Progress) {
+		eta := "?"
+		if p.EstimatedRemain > 0 {
+			eta = p.EstimatedRemain.Round(time.Second).String()
+		}
+		fmt.Fprintf(os.Stderr, "\rfull-wave run %d of %d: step %d, energy %.0f dB of %.0f dB, %s elapsed, about %s left   ",
+			p.Run, p.Runs, p.Step, p.EnergyDB, p.TargetDB, p.Elapsed.Round(time.Second), eta)
+		shown = true
+	}
+	return func() {
+		if shown {
+			fmt.Fprintln(os.Stderr)
+		}
+	}
+}

@@ -1,0 +1,210 @@
+// Package fullwave checks a build's drawn copper with the three-dimensional
+// FDTD solver of physical/fdtd: it turns the layout into the solver's
+// description of the board, runs the solve, attaches the load by network
+// math and compares the result with the circuit model's.
+//
+// What the full-wave model leaves out, and says so in Report.Notes: the
+// copper's thickness and conductivity (it is a perfect, zero-thickness
+// conductor), the solder mask, and the board's outline (the substrate and
+// the ground plane run on into the absorbing layers on every side).
+package fullwave
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"math"
+	"math/cmplx"
+	"sort"
+
+	"stubcraft/physical/fdtd"
+	"stubcraft/synth"
+	"stubcraft/synth/geom"
+)
+
+// ErrNoPort is returned when no copper meets a port's board edge.
+var ErrNoPort = errors.New("fullwave: no copper at a port")
+
+// Structure returns the full-wave description of res's drawn layout, swept
+// at freqs. Port 1 is the source port (the board's right edge), port 2
+// the load port (x = 0), as in network.s2p.
+func Structure(res *synth.Result, freqs []float64) (fdtd.Structure, error) {
+	l := res.Layout
+	st := res.Stackup
+	bmin, bmax := l.Board.Bounds()
+	s := fdtd.Structure{
+		Er: st.Dielectric.Er, TanD: st.Dielectric.LossTangent, F0: res.Design.Freq,
+		H: st.Dielectric.Thickness, BoardMinX: bmin.X, BoardMaxX: bmax.X,
+		Freqs: freqs, Zref: res.Design.Z0,
+	}
+	for _, n := range l.Copper {
+		s.Copper = append(s.Copper, polygon(n.Outline))
+	}
+	for _, p := range l.Pads {
+		if p.Round {
+			s.Copper = append(s.Copper, disc(p.Center, p.W))
+			continue
+		}
+		s.Copper = append(s.Copper, fdtd.RectPolygon(p.Center.X-p.W/2, p.Center.Y-p.H/2, p.Center.X-p.W/2+p.W, p.Center.Y-p.H/2+p.H))
+	}
+	for _, v := range l.Vias {
+		s.Vias = append(s.Vias, fdtd.Via{Center: fdtd.Point{X: v.Center.X, Y: v.Center.Y}, Diameter: v.Drill})
+	}
+	if len(l.Copper) == 0 {
+		return s, fmt.Errorf("%w: the layout has no copper", ErrNoPort)
+	}
+	rf := l.Copper[0].Outline
+	for i, q := range []struct {
+		side fdtd.Side
+		at   geom.Point
+	}{{fdtd.Right, l.Marks.Ports[1]}, {fdtd.Left, l.Marks.Ports[0]}} {
+		x := q.at.X + 1000 // 1 µm inside the board
+		if q.side == fdtd.Right {
+			x = q.at.X - 1000
+		}
+		lo, hi, ok := span(rf, x, q.at.Y)
+		if !ok {
+			return s, fmt.Errorf("%w: nothing at x = %.3f mm, y = %.3f mm", ErrNoPort, float64(q.at.X)/1e6, float64(q.at.Y)/1e6)
+		}
+		s.Ports[i] = fdtd.Port{Side: q.side, Y: (lo + hi) / 2, Width: hi - lo}
+	}
+	return s, s.Validate()
+}
+
+func polygon(p geom.Polygon) fdtd.Polygon {
+	out := make(fdtd.Polygon, len(p))
+	for i, q := range p {
+		out[i] = fdtd.Point{X: q.X, Y: q.Y}
+	}
+	return out
+}
+
+// disc returns a 16-sided polygon of diameter d round c.
+func disc(c geom.Point, d int64) fdtd.Polygon {
+	out := make(fdtd.Polygon, 16)
+	for i := range out {
+		a := 2 * math.Pi * float64(i) / 16
+		out[i] = fdtd.Point{X: c.X + int64(math.Round(float64(d)/2*math.Cos(a))), Y: c.Y + int64(math.Round(float64(d)/2*math.Sin(a)))}
+	}
+	return out
+}
+
+// span returns the y extent of p's interior on the vertical line at x that
+// contains y (the strip that reaches the port).
+func span(p geom.Polygon, x, y int64) (lo, hi int64, ok bool) {
+	var ys []int64
+	n := len(p)
+	for i := 0; i < n; i++ {
+		a, b := p[i], p[(i+1)%n]
+		if (a.X <= x) == (b.X <= x) {
+			continue
+		}
+		t := float64(x-a.X) / float64(b.X-a.X)
+		ys = append(ys, a.Y+int64(math.Round(t*float64(b.Y-a.Y))))
+	}
+	sort.Slice(ys, func(i, j int) bool { return ys[i] < ys[j] })
+	for i := 0; i+1 < len(ys); i += 2 {
+		if ys[i] <= y && y <= ys[i+1] {
+			return ys[i], ys[i+1], true
+		}
+	}
+	return 0, 0, false
+}
+
+// Report is a full-wave check of one build.
+type Report struct {
+	Freqs              []float64          // Hz
+	Network            [][2][2]complex128 // full-wave S of the network alone, port 1 the source side, referred to Zref
+	Circuit            [][2][2]complex128 // the circuit model's, at the same frequencies
+	Matched            []complex128       // full-wave S11 with the load attached
+	CircuitMatched     []complex128       // the circuit model's S11 with the load
+	Zref               float64            // ohm
+	S11DBF0            float64            `json:"s11_db_f0"`
+	BestMatchHz        float64            `json:"best_match_hz"`
+	CircuitS11DBF0     float64            `json:"circuit_s11_db_f0"`
+	CircuitBestMatchHz float64            `json:"circuit_best_match_hz"`
+	MaxSDifference     float64            `json:"max_s_difference"`
+	Cells              int                `json:"cells"`
+	Steps              int                `json:"steps"`
+	Seconds            float64            `json:"seconds"`
+	Notes              []string           `json:"notes"`
+}
+
+// Verify runs the full-wave solve of res's drawn copper at the build's
+// sweep frequencies and compares it with the circuit model. The full-wave
+// |S11| at f0 is interpolated (complex, linear) between the two sweep
+// points round f0; the circuit's is the build's own value at f0.
+func Verify(ctx context.Context, res *synth.Result, o fdtd.Options) (*Report, error) {
+	f0 := res.Design.Freq
+	sw := res.Sweep
+	freqs := append([]float64(nil), sw.Freqs...)
+	if len(freqs) < 3 || f0 < freqs[0] || f0 > freqs[len(freqs)-1] {
+		return nil, fmt.Errorf("fullwave: the sweep (%d points) must hold f0 = %.6g GHz and at least 3 points", len(freqs), f0/1e9)
+	}
+	s, err := Structure(res, freqs)
+	if err != nil {
+		return nil, err
+	}
+	r, err := fdtd.Solve(ctx, s, o)
+	if err != nil {
+		return nil, err
+	}
+	z0 := res.Design.Z0
+	rep := &Report{Freqs: freqs, Network: r.S, Circuit: sw.Network, Zref: r.Zref, Cells: r.Cells, Steps: r.Steps, Seconds: r.Seconds}
+	rep.Notes = append(rep.Notes, r.Warnings...)
+	rep.Notes = append(rep.Notes, "full-wave model: perfect zero-thickness copper, no solder mask, substrate and ground plane unbounded beside the board")
+	for k := range freqs {
+		sc, zl := sw.Network[k], sw.ZLoad[k]
+		gl := (zl - complex(z0, 0)) / (zl + complex(z0, 0))
+		rep.Matched = append(rep.Matched, terminate(r.S[k], gl))
+		rep.CircuitMatched = append(rep.CircuitMatched, sw.S11[k])
+		for i := 0; i < 2; i++ {
+			for j := 0; j < 2; j++ {
+				rep.MaxSDifference = math.Max(rep.MaxSDifference, cmplx.Abs(r.S[k][i][j]-sc[i][j]))
+			}
+		}
+	}
+	ik := sort.SearchFloat64s(freqs, f0)
+	if ik == 0 {
+		ik = 1
+	}
+	t := (f0 - freqs[ik-1]) / (freqs[ik] - freqs[ik-1])
+	rep.S11DBF0 = db(rep.Matched[ik-1] + complex(t, 0)*(rep.Matched[ik]-rep.Matched[ik-1]))
+	rep.CircuitS11DBF0 = db(res.S11F0)
+	rep.BestMatchHz = bestMatch(freqs, rep.Matched)
+	rep.CircuitBestMatchHz = bestMatch(freqs, rep.CircuitMatched)
+	return rep, nil
+}
+
+// terminate returns the input reflection at port 1 of s with port 2
+// terminated in reflection gl: S11 + S12·S21·Γ/(1 − S22·Γ).
+func terminate(s [2][2]complex128, gl complex128) complex128 {
+	return s[0][0] + s[0][1]*s[1][0]*gl/(1-s[1][1]*gl)
+}
+
+func db(g complex128) float64 { return 20 * math.Log10(math.Max(cmplx.Abs(g), 1e-15)) }
+
+// bestMatch returns the frequency of the smallest |S11|, refined by a
+// parabola through its neighbours.
+func bestMatch(freqs []float64, s11 []complex128) float64 {
+	b := 0
+	for i := range s11 {
+		if cmplx.Abs(s11[i]) < cmplx.Abs(s11[b]) {
+			b = i
+		}
+	}
+	if b == 0 || b == len(s11)-1 {
+		return freqs[b]
+	}
+	y0, y1, y2 := cmplx.Abs(s11[b-1]), cmplx.Abs(s11[b]), cmplx.Abs(s11[b+1])
+	den := y0 - 2*y1 + y2
+	if den <= 0 {
+		return freqs[b]
+	}
+	// Non-uniform spacing: fit on the index and map back linearly.
+	t := 0.5 * (y0 - y2) / den
+	if t < 0 {
+		return freqs[b] + t*(freqs[b]-freqs[b-1])
+	}
+	return freqs[b] + t*(freqs[b+1]-freqs[b])
+}

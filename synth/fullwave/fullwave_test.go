@@ -1,0 +1,60 @@
+package fullwave
+
+import (
+	"context"
+	"testing"
+
+	"stubcraft/physical/fdtd"
+	"stubcraft/synth"
+)
+
+// TestStructureOfDemo checks the conversion of the demo's layout: the
+// source port on the right edge and the load port at x = 0, both as wide as
+// the through line's copper there, and every copper net carried over.
+func TestStructureOfDemo(t *testing.T) {
+	in, err := synth.LoadDemo(synth.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	in.SkipTolerance = true
+	res, err := synth.Build(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := Structure(res, res.Sweep.Freqs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s.Ports[0].Side != fdtd.Right || s.Ports[1].Side != fdtd.Left {
+		t.Errorf("port sides %v, %v: want right (source) then left (load)", s.Ports[0].Side, s.Ports[1].Side)
+	}
+	// The through line's width at each end, from the layout's own element
+	// rectangles (independent of the polygon crossing Structure uses).
+	var ends []int64
+	for _, e := range res.Layout.Marks.Elements {
+		if e.Kind == "segment" && (e.Rect.Min.X == s.BoardMinX || e.Rect.Max.X == s.BoardMaxX) {
+			ends = append(ends, e.Rect.Dy())
+		}
+	}
+	for _, p := range s.Ports {
+		found := false
+		for _, w := range ends {
+			if w == p.Width {
+				found = true
+			}
+		}
+		if !found {
+			t.Errorf("port width %d nm not among the end segments' widths %v", p.Width, ends)
+		}
+	}
+	if len(s.Copper) < len(res.Layout.Copper) {
+		t.Errorf("%d copper polygons, layout has %d nets", len(s.Copper), len(res.Layout.Copper))
+	}
+	for _, m := range []fdtd.MeshLevel{fdtd.Coarse, fdtd.Normal} {
+		g, err := fdtd.NewGrid(s, m.Params())
+		if err != nil {
+			t.Fatal(err)
+		}
+		t.Logf("%v mesh: %d×%d×%d = %d cells, %.0f MiB, largest grading %.2f", m, len(g.X), len(g.Y), len(g.Z), g.Cells(), float64(fdtd.EstimateBytes(g))/(1<<20), g.MaxGrading())
+	}
+}
