@@ -58,9 +58,6 @@ func (p MeshParams) Refined(factor float64) MeshParams {
 	return p
 }
 
-// fixedLine is a coordinate (m) the mesh must have a line at.
-type fixedLine struct{ at float64 }
-
 // mergeLines sorts xs and replaces every cluster of lines closer than tol
 // by their mean.
 func mergeLines(xs []float64, tol float64) []float64 {
