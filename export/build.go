@@ -1,7 +1,6 @@
 package export
 
 import (
-	"bytes"
 	"fmt"
 	"io"
 	"sort"
@@ -63,32 +62,15 @@ func Files(res *synth.Result, opt FileOptions) []Artefact {
 		Artefact{"drawing.pdf", func(w io.Writer) error { return WritePDF(w, rep, lay, dopt) }},
 		Artefact{"layout.svg", func(w io.Writer) error { return WriteSVG(w, rep, lay) }},
 	)
-	// The plots are rendered once, lazily, by the first plot file written;
-	// a failure is reported by every plot file.
-	var (
-		plots   map[string][]byte
-		plotErr error
-		done    bool
-	)
-	render := func() (map[string][]byte, error) {
-		if !done {
-			plots, plotErr = WritePlots(rep)
-			done = true
+	// The plots, by file name.
+	var plots []Artefact
+	for _, p := range Plots() {
+		for _, f := range ImageFormats() {
+			plots = append(plots, Artefact{p.FileName(f), func(w io.Writer) error { return WritePlot(w, rep, p, f) }})
 		}
-		return plots, plotErr
 	}
-	names := PlotNames()
-	sort.Strings(names)
-	for _, name := range names {
-		files = append(files, Artefact{name, func(w io.Writer) error {
-			m, err := render()
-			if err != nil {
-				return fmt.Errorf("plots: %w", err)
-			}
-			_, err = io.Copy(w, bytes.NewReader(m[name]))
-			return err
-		}})
-	}
+	sort.Slice(plots, func(i, j int) bool { return plots[i].Name < plots[j].Name })
+	files = append(files, plots...)
 	return files
 }
 

@@ -1,10 +1,11 @@
 package export
 
 import (
-	"bytes"
 	"fmt"
 	"image/color"
+	"io"
 	"math"
+	"strconv"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -14,45 +15,91 @@ import (
 	"stubcraft/physical/units"
 )
 
-// PlotNames are the files WritePlots returns, in a fixed order.
-func PlotNames() []string {
-	return []string{"s11.png", "s11.svg", "smith.png", "smith.svg", "tolerance.png", "tolerance.svg"}
+// Plot is one of the plots of a report.
+type Plot int
+
+// The plots, in the order a build writes them.
+const (
+	PlotS11       Plot = iota + 1 // |S11| across the sweep
+	PlotSmith                     // the input reflection on a Smith chart
+	PlotTolerance                 // the Monte Carlo histogram of |S11| at f0
+)
+
+// Plots returns every plot, in order.
+func Plots() []Plot { return []Plot{PlotS11, PlotSmith, PlotTolerance} }
+
+// String returns the plot's name, the base of its file name.
+func (p Plot) String() string {
+	switch p {
+	case PlotS11:
+		return "s11"
+	case PlotSmith:
+		return "smith"
+	case PlotTolerance:
+		return "tolerance"
+	}
+	return "Plot(" + strconv.Itoa(int(p)) + ")"
 }
 
-// WritePlots renders the band response, the Smith chart and the tolerance
-// histogram of rep as PNG and SVG images, keyed by the names of
-// PlotNames. A report without a tolerance analysis gets a tolerance plot
-// that says so.
-func WritePlots(rep Report) (map[string][]byte, error) {
-	type maker struct {
-		base string
-		make func(Report) (*plot.Plot, error)
-		w, h vg.Length
+// FileName returns the plot's file name in format f: "s11.png".
+func (p Plot) FileName(f ImageFormat) string { return p.String() + "." + f.String() }
+
+// ImageFormat is the file format of a plot.
+type ImageFormat int
+
+// Image formats.
+const (
+	PNG ImageFormat = iota + 1
+	SVG
+)
+
+// ImageFormats returns every image format, in order.
+func ImageFormats() []ImageFormat { return []ImageFormat{PNG, SVG} }
+
+// String returns "png" or "svg", the file extension.
+func (f ImageFormat) String() string {
+	switch f {
+	case PNG:
+		return "png"
+	case SVG:
+		return "svg"
 	}
-	makers := []maker{
-		{"s11", s11Plot, 16 * vg.Centimeter, 10 * vg.Centimeter},
-		{"smith", smithPlot, 14 * vg.Centimeter, 14 * vg.Centimeter},
-		{"tolerance", tolerancePlot, 16 * vg.Centimeter, 10 * vg.Centimeter},
+	return "ImageFormat(" + strconv.Itoa(int(f)) + ")"
+}
+
+// WritePlot renders plot p of rep in format f to w. A report without a
+// tolerance analysis gets a tolerance plot that says so.
+func WritePlot(w io.Writer, rep Report, p Plot, f ImageFormat) error {
+	var (
+		build func(Report) (*plot.Plot, error)
+		wd    = 16 * vg.Centimeter
+		ht    = 10 * vg.Centimeter
+	)
+	switch p {
+	case PlotS11:
+		build = s11Plot
+	case PlotSmith:
+		build, wd, ht = smithPlot, 14*vg.Centimeter, 14*vg.Centimeter
+	case PlotTolerance:
+		build = tolerancePlot
+	default:
+		return fmt.Errorf("plot: unknown %v", p)
 	}
-	out := map[string][]byte{}
-	for _, m := range makers {
-		p, err := m.make(rep)
-		if err != nil {
-			return nil, fmt.Errorf("plot %s: %w", m.base, err)
-		}
-		for _, format := range []string{"png", "svg"} {
-			wt, err := p.WriterTo(m.w, m.h, format)
-			if err != nil {
-				return nil, fmt.Errorf("plot %s.%s: %w", m.base, format, err)
-			}
-			var buf bytes.Buffer
-			if _, err := wt.WriteTo(&buf); err != nil {
-				return nil, fmt.Errorf("plot %s.%s: %w", m.base, format, err)
-			}
-			out[m.base+"."+format] = buf.Bytes()
-		}
+	if f != PNG && f != SVG {
+		return fmt.Errorf("plot %s: unknown %v", p, f)
 	}
-	return out, nil
+	pl, err := build(rep)
+	if err != nil {
+		return fmt.Errorf("plot %s: %w", p, err)
+	}
+	wt, err := pl.WriterTo(wd, ht, f.String())
+	if err != nil {
+		return fmt.Errorf("plot %s: %w", p.FileName(f), err)
+	}
+	if _, err := wt.WriteTo(w); err != nil {
+		return fmt.Errorf("plot %s: %w", p.FileName(f), err)
+	}
+	return nil
 }
 
 func colour(c rgb) color.RGBA {
