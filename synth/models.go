@@ -18,6 +18,10 @@ type SolverCache = fieldsolve.Cache
 // NewSolverCache returns an empty cache for one run.
 func NewSolverCache() *SolverCache { return fieldsolve.NewCache() }
 
+// NewSolverCacheDir returns a cache that also keeps solved cross-sections
+// in dir across runs (fieldsolve.NewCacheDir); "" keeps them in memory only.
+func NewSolverCacheDir(dir string) *SolverCache { return fieldsolve.NewCacheDir(dir) }
+
 // UsesFieldSolver reports whether lines on st need the field solver: the
 // closed forms know neither solder mask nor grounded coplanar lines.
 func UsesFieldSolver(st stackups.Stackup) bool {

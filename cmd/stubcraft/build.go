@@ -81,7 +81,7 @@ process N".
 			if err != nil {
 				return err
 			}
-			cache := synth.NewSolverCache()
+			cache := newSolverCache()
 			in.Lines = synth.LineMakerFor(cmd.Context(), in.Stackup, cache)
 			in.SkipTolerance, in.AcceptMismatch, in.AcceptLoss = noTolerance, acceptMismatch, acceptLoss
 			stop := solverProgress(cache)
@@ -94,6 +94,7 @@ process N".
 				}
 				return inDesign(path, err)
 			}
+			res.Notes = append(res.Notes, cacheNotes(cache)...)
 			created, err := creationTime()
 			if err != nil {
 				return err

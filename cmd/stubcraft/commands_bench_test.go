@@ -38,7 +38,7 @@ func BenchmarkCommands(b *testing.B) {
 		b.Fatalf("go build: %v\n%s", err, out)
 	}
 	baseline := os.Getenv("STUBCRAFT_BENCH_BASELINE")
-	demo, err := os.ReadFile(filepath.Join("demo", "soil-probe.toml"))
+	demo, err := os.ReadFile(filepath.Join("..", "..", "synth", "demo", "soil-probe.toml"))
 	if err != nil {
 		b.Fatal(err)
 	}

@@ -82,7 +82,7 @@ meets the fab minimum. Nothing is written to disk.`,
 					sts = append(sts, st)
 				}
 			}
-			cache := synth.NewSolverCache()
+			cache := newSolverCache()
 			stop := solverProgress(cache)
 			var rows []compareRow
 			for _, st := range sts {

@@ -51,6 +51,7 @@ func TestArtefactHashesUnchanged(t *testing.T) {
 	got := map[string]string{}
 	for name, args := range goldenBuilds(t) {
 		dir := filepath.Join(t.TempDir(), "out")
+		t.Setenv(cacheDirEnv, filepath.Join(t.TempDir(), "cache")) // every build from an empty cache
 		argv := append([]string{"build"}, args...)
 		argv = append(argv, "-o", dir, "--samples", "200")
 		if _, err := runRoot(t, argv...); err != nil {

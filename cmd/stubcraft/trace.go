@@ -67,7 +67,7 @@ of that electrical length at --freq is given too.`,
 			if err := synth.CheckFrequency(freq); err != nil {
 				return fmt.Errorf("--freq %q: %w", freqArg, err)
 			}
-			cache := synth.NewSolverCache()
+			cache := newSolverCache()
 			maker := synth.LineMakerFor(cmd.Context(), st, cache)
 			defer solverProgress(cache)()
 			sub, subNotes := synth.SubstrateAt(st, freq)
@@ -114,7 +114,7 @@ of that electrical length at --freq is given too.`,
 				AlphaDielDBPerM:    p.AlphaDielectric * physical.NpDB,
 				AlphaTotalDBPerM:   p.Alpha() * physical.NpDB,
 				Warnings:           nonNil(warnings),
-				Notes:              nonNil(subNotes),
+				Notes:              nonNil(append(subNotes, cacheNotes(cache)...)),
 				Er:                 sub.Er,
 				LossTangent:        sub.LossTangent,
 			}

@@ -72,7 +72,7 @@ state explains, is refused and gives no trims.
 				return err
 			}
 			in.SkipTolerance = true
-			in.Lines = synth.LineMakerFor(cmd.Context(), in.Stackup, synth.NewSolverCache())
+			in.Lines = synth.LineMakerFor(cmd.Context(), in.Stackup, newSolverCache())
 			res, err := synth.Build(cmd.Context(), in)
 			if err != nil {
 				return inDesign(args[0], err)

@@ -3,7 +3,9 @@ package main
 import (
 	"bytes"
 	"encoding/json"
+	"fmt"
 	"math"
+	"path/filepath"
 	"strings"
 	"testing"
 )
@@ -109,6 +111,32 @@ func TestXsectErrors(t *testing.T) {
 		}
 		if !strings.Contains(err.Error(), tc.want) {
 			t.Errorf("%v: error %q does not name %s", tc.args, err, tc.want)
+		}
+	}
+}
+
+func TestTraceSolverCacheAcrossRuns(t *testing.T) {
+	// A second run reads the solved cross-sections from the on-disk cache,
+	// says so in the notes, and prints the same numbers.
+	t.Setenv(cacheDirEnv, filepath.Join(t.TempDir(), "cache"))
+	args := []string{"trace", "--stackup", "fr4-1.6mm-masked", "--z0", "50", "--freq", "2.45GHz", "--json"}
+	var reps [2]map[string]any
+	for i := range reps {
+		out, err := runRoot(t, args...)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := json.Unmarshal([]byte(out), &reps[i]); err != nil {
+			t.Fatalf("%v\n%s", err, out)
+		}
+	}
+	notes := fmt.Sprint(reps[1]["notes"])
+	if strings.Contains(fmt.Sprint(reps[0]["notes"]), "cache") || !strings.Contains(notes, "read from the cache") {
+		t.Errorf("notes: first run %v, second run %v", reps[0]["notes"], notes)
+	}
+	for _, k := range []string{"width_mm", "z0_ohm", "eps_eff", "z0_static_ohm"} {
+		if reps[0][k] != reps[1][k] {
+			t.Errorf("%s: %v from the solver, %v from the cache", k, reps[0][k], reps[1][k])
 		}
 	}
 }

@@ -11,8 +11,11 @@ import (
 // nil *Cache solves every time. It is safe for concurrent use; two goroutines
 // asking for the same new cross-section at once may both solve it.
 type Cache struct {
-	mu sync.Mutex
-	m  map[cacheKey]Result
+	mu         sync.Mutex
+	m          map[cacheKey]Result
+	dir        string // on-disk cache directory; "" for none (NewCacheDir)
+	maxEntries int    // bound of the on-disk cache
+	diskHits   int
 }
 
 type cacheKey struct {
@@ -44,6 +47,15 @@ func (c *Cache) SolveContext(ctx context.Context, cs CrossSection, opt Options) 
 	if ok {
 		return r, nil
 	}
+	if c.dir != "" {
+		if r, ok := c.load(k); ok {
+			c.mu.Lock()
+			c.m[k] = r
+			c.diskHits++
+			c.mu.Unlock()
+			return r, nil
+		}
+	}
 	r, err := SolveContext(ctx, cs, opt)
 	if err != nil {
 		return r, err
@@ -51,6 +63,9 @@ func (c *Cache) SolveContext(ctx context.Context, cs CrossSection, opt Options) 
 	c.mu.Lock()
 	c.m[k] = r
 	c.mu.Unlock()
+	if c.dir != "" {
+		c.save(k, r)
+	}
 	return r, nil
 }
 
