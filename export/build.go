@@ -57,7 +57,9 @@ func Files(res *synth.Result, opt FileOptions) []Artefact {
 	files = append(files,
 		Artefact{JobFileName(base), func(w io.Writer) error { return WriteGerberJob(w, lay, meta, JobStackFor(res)) }},
 	)
-	dopt := DrawingOptions{Page: opt.Page, Fit: opt.Fit, Created: opt.Created, Version: opt.Version}
+	notes := NewFabNotes(res, rep, lay)
+	files = append(files, Artefact{FabNotesFileName, func(w io.Writer) error { return WriteFabNotes(w, notes) }})
+	dopt := DrawingOptions{Page: opt.Page, Fit: opt.Fit, Created: opt.Created, Version: opt.Version, FabNotes: &notes}
 	files = append(files,
 		Artefact{"drawing.pdf", func(w io.Writer) error { return WritePDF(w, rep, lay, dopt) }},
 		Artefact{"layout.svg", func(w io.Writer) error { return WriteSVG(w, rep, lay) }},

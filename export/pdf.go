@@ -27,6 +27,9 @@ type DrawingOptions struct {
 	// and modification dates. The caller takes it from SOURCE_DATE_EPOCH
 	// for reproducible output; the zero time is written as 1970-01-01.
 	Created time.Time
+	// FabNotes, when not nil, adds a fab-notes sheet after the data
+	// sheets.
+	FabNotes *FabNotes
 	// Version is the tool version printed in the title block.
 	Version string
 }
@@ -124,6 +127,9 @@ func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOp
 	d := &doc{pdf: f, pg: pg, rep: rep, opt: opt, total: total}
 	d.boardSheets(b, plan)
 	d.dataSheets(b)
+	if opt.FabNotes != nil {
+		d.fabNotesSheet(*opt.FabNotes)
+	}
 	if err := f.Error(); err != nil {
 		return nil, fmt.Errorf("drawing: %w", err)
 	}
