@@ -58,3 +58,26 @@ func TestStructureOfDemo(t *testing.T) {
 		t.Logf("%v mesh: %d×%d×%d = %d cells, %.0f MiB, largest grading %.2f", m, len(g.X), len(g.Y), len(g.Z), g.Cells(), float64(fdtd.EstimateBytes(g))/(1<<20), g.MaxGrading())
 	}
 }
+
+// BenchmarkVerifyDemo is the whole full-wave check of the demo at the
+// normal mesh (issue 11's goal: at most 120 s and 1 GiB). Run it alone:
+// go test ./synth/fullwave -run - -bench VerifyDemo -benchtime 1x
+func BenchmarkVerifyDemo(b *testing.B) {
+	in, err := synth.LoadDemo(synth.LoadOptions{})
+	if err != nil {
+		b.Fatal(err)
+	}
+	in.SkipTolerance = true
+	res, err := synth.Build(context.Background(), in)
+	if err != nil {
+		b.Fatal(err)
+	}
+	b.ResetTimer()
+	for i := 0; i < b.N; i++ {
+		rep, err := Verify(context.Background(), res, fdtd.Options{Mesh: fdtd.Normal.Params()})
+		if err != nil {
+			b.Fatal(err)
+		}
+		b.ReportMetric(float64(rep.Cells)*float64(rep.Steps)/rep.Seconds/1e6, "Mcells/s")
+	}
+}
