@@ -173,6 +173,9 @@ func (s *Sim) Relength(through, stubs []float64) (*Sim, error) {
 	return &q, nil
 }
 
+// ThroughModel returns the line model of Through[i].
+func (s *Sim) ThroughModel(i int) LineModel { return s.through[i] }
+
 // Board returns the board being simulated.
 func (s *Sim) Board() Board { return s.board }
 

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"sort"
 	"stubcraft/physical/units"
 
 	"gonum.org/v1/gonum/optimize"
@@ -64,21 +65,25 @@ type BuildInput struct {
 // Result is a built design: the corrected physical network and the proof
 // that it matches.
 type Result struct {
-	Design    Design
-	Stackup   stackups.Stackup
-	Model     string // the line model used
-	LoadF0    complex128
-	Physical  Physical
-	Sections  []Section // the electrical network, from the load
-	Notes     []string
-	Warnings  []string
-	Recentre  Recentring
-	S11F0     complex128 // the drawn layout at f0, full model
-	Uncorr    complex128 // at f0, without the discontinuity corrections
-	Sweep     Sweep
-	BW10      Band
-	BW20      Band
-	LossF0DB  float64 // the network's own dissipation at f0, dB
+	Design   Design
+	Stackup  stackups.Stackup
+	Model    string // the line model used
+	LoadF0   complex128
+	Physical Physical
+	Sections []Section // the electrical network, from the load
+	Notes    []string
+	Warnings []string
+	Recentre Recentring
+	S11F0    complex128 // the drawn layout at f0, full model
+	Uncorr   complex128 // at f0, without the discontinuity corrections
+	Sweep    Sweep
+	BW10     Band
+	BW20     Band
+	LossF0DB float64 // the network's own dissipation at f0, dB
+	// Band is the match across match.band; nil without a band.
+	Band *BandMatch
+	// candidate is the [match] candidate this result built.
+	candidate Candidate
 	Tolerance *Tolerance
 	// Layout is the board geometry; Build fills it, Simulate does not.
 	Layout geom.Layout
@@ -118,9 +123,12 @@ type Sweep struct {
 // Recentring records the optimiser's adjustment of the drawn lengths.
 type Recentring struct {
 	Before, After complex128 // S11 at f0
-	Changes       []float64  // per adjustable element, m, in Elements order
-	IDs           []string
-	Evaluations   int
+	// Target is the S11 at f0 the re-centring aimed at: the electrical
+	// network's own (zero for a solved match).
+	Target      complex128
+	Changes     []float64 // per adjustable element, m, in Elements order
+	IDs         []string
+	Evaluations int
 }
 
 // Build runs the whole path for one design on one stackup: electrical
@@ -178,6 +186,9 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	if mk == nil || sizing.Mask != in.Stackup.Mask {
 		mk = LineMakerFor(ctx, sizing, NewSolverCache())
 	}
+	if err := checkLoadCoversBand(d, in.Load); err != nil {
+		return nil, err
+	}
 	zl, err := in.Load.Impedance(f0)
 	if err != nil {
 		return nil, d.KeyError(loadKey(d), fmt.Errorf("the load at %.6g GHz: %w", f0/1e9, err))
@@ -185,10 +196,126 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	if err := CheckFrequencyOn(f0, sub); err != nil {
 		return nil, d.KeyError("frequency", err)
 	}
-	gamma := LoadGamma(zl, z0)
-	sections, notes, err := d.Electrical(zl)
+	sim := simContext{in: in, d: d, sub: sub, sizing: sizing, mk: mk, zl: zl,
+		preNotes: subNote, postNotes: append(spreadNotes, maskNotes...), warnings: maskWarnings}
+	if d.Match != nil && d.Match.HasBand() && d.Match.Resolved().Objective == ObjectiveYield {
+		if sim.tmk, err = ToleranceMaker(physical.Board{Sub: sub}, mk, UsesFieldSolver(sizing), f0); err != nil {
+			return nil, err
+		}
+	}
+	var r *Result
+	if d.Match == nil {
+		if r, err = sim.run(ctx, nil); err != nil {
+			return nil, err
+		}
+	} else {
+		specs := d.Match.Resolved().candidateSpecs()
+		var results []*Result
+		var firstErr error
+		for i := range specs {
+			c := &specs[i]
+			cr, err := sim.run(ctx, c)
+			if err != nil {
+				if len(specs) == 1 || ctx.Err() != nil {
+					return nil, err
+				}
+				c.Err = err.Error()
+				if firstErr == nil {
+					firstErr = err
+				}
+				continue
+			}
+			c.WorstS11DB = S11DB(cr.S11F0)
+			if cr.Band != nil {
+				c.WorstS11DB = cr.Band.WorstS11DB
+			}
+			c.AreaM2 = cr.Physical.Footprint()
+			c.LossDB = cr.LossF0DB
+			for _, s := range cr.Sections {
+				c.TotalDeg += s.LengthDeg
+			}
+			cr.candidate = *c
+			results = append(results, cr)
+		}
+		if len(results) == 0 {
+			return nil, firstErr
+		}
+		rankCandidates(specs)
+		for _, cr := range results {
+			if cr.candidate == specs[0] {
+				r = cr
+			}
+		}
+		if r.Band != nil {
+			r.Band.Candidates = specs
+		}
+		if len(specs) > 1 {
+			r.Notes = append(r.Notes, fmt.Sprintf("topology auto: %s built, the best of %d candidates by worst |S11| in the band, then board area, then loss", specs[0].Name(), len(specs)))
+		}
+	}
+	tmk, err := ToleranceMaker(r.Physical.Board, mk, UsesFieldSolver(sizing), f0)
 	if err != nil {
-		if gamma > MaxLoadGamma && !in.AcceptLoss {
+		return nil, err
+	}
+	r.load, r.benchLines = in.Load, tmk
+	if err := r.sensitivities(ctx); err != nil {
+		return nil, err
+	}
+	if !in.SkipTolerance && d.Tolerance.Samples > 0 {
+		t, err := Analyse(ctx, r.Physical.Board, sub, tmk, zl, f0, z0, d.Tolerance)
+		if err != nil {
+			return nil, err
+		}
+		r.Tolerance = &t
+	}
+	return r, nil
+}
+
+// simContext is what every candidate of one Simulate shares.
+type simContext struct {
+	in      BuildInput
+	d       Design
+	sub     physical.Substrate
+	sizing  stackups.Stackup
+	mk, tmk physical.LineMaker
+	zl      complex128 // the load at f0
+	// preNotes go before the solution's notes, postNotes after them.
+	preNotes, postNotes []string
+	warnings            []string
+}
+
+// run builds one network: the design's sections (c == nil) or the
+// candidate c of its [match] table, through widths, corrections, the
+// re-centring or band optimisation and the sweep.
+func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
+	d, in, sub, mk, zl := s.d, s.in, s.sub, s.mk, s.zl
+	f0, z0 := d.Freq, d.Z0
+	var sections []Section
+	var notes []string
+	var err error
+	if c == nil {
+		sections, notes, err = d.Electrical(zl)
+	} else {
+		m := d.Match.Resolved()
+		m.Sections = c.Sections
+		if c.Pick > 0 {
+			m.Pick = fmt.Sprint(c.Pick)
+		}
+		var opt ElectricalOptions
+		if c.Topology == TopologyDoubleStub {
+			w, werr := WidthWith(mk, sub, z0, f0)
+			if werr != nil {
+				return nil, d.KeyError("z0", werr)
+			}
+			opt.FeedDeg = ElectricalDegrees(w.Params, d.Layout.FeedLength)
+		}
+		notes = []string{d.loadNote(zl)}
+		var more []string
+		sections, more, err = d.matchSections(m, c.Topology, c.End, zl, opt)
+		notes = append(notes, more...)
+	}
+	if err != nil {
+		if gamma := LoadGamma(zl, z0); gamma > MaxLoadGamma && !in.AcceptLoss {
 			return nil, d.KeyError(loadKey(d), &LossError{Gamma: gamma, LossDB: math.Inf(1), FreqHz: f0})
 		}
 		return nil, err
@@ -201,12 +328,12 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 		return nil, d.KeyError("", fmt.Errorf("on stackup %s at %.6g GHz: %w", in.Stackup.Name, f0/1e9, err))
 	}
 	r := &Result{Design: d, Stackup: in.Stackup, LoadF0: zl, Sections: sections, Physical: ph}
-	r.Notes = append(append(append(append(append(r.Notes, subNote...), notes...), ph.Notes...), spreadNotes...), maskNotes...)
-	r.Warnings = append(append(r.Warnings, ph.Warnings...), maskWarnings...)
+	r.Notes = append(append(append(append(r.Notes, s.preNotes...), notes...), ph.Notes...), s.postNotes...)
+	r.Warnings = append(append(r.Warnings, ph.Warnings...), s.warnings...)
 	if len(ph.Elements) > 0 {
 		r.Model = ph.Elements[0].Model
 	}
-	if UsesFieldSolver(sizing) {
+	if UsesFieldSolver(s.sizing) {
 		r.Notes = append(r.Notes, "line widths from the 2-D field solver (solder mask or grounded coplanar lines); the tee, open-end and via corrections use the closed-form microstrip models")
 	}
 	if len(ph.Board.Stubs) > 0 {
@@ -228,32 +355,29 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 	}
 	r.Uncorr = uncorr.InputReflection(f0, zl, z0)
 
-	sim, err := r.recentre(ctx, mk, zl)
+	var sim *physical.Sim
+	band := d.Match != nil && d.Match.HasBand()
+	if band {
+		widths := c != nil && c.Topology == TopologyQuarterWave && !UsesFieldSolver(s.sizing)
+		sim, err = r.bandOptimise(ctx, mk, s.tmk, in.Load, widths)
+	} else {
+		sim, err = r.recentre(ctx, mk, zl)
+	}
 	if err != nil {
 		return nil, err
 	}
 	r.S11F0 = sim.InputReflection(f0, zl, z0)
 	r.LossF0DB = sim.Loss(f0, zl, z0)
-	if err := checkLoss(gamma, r.LossF0DB, f0); err != nil && !in.AcceptLoss {
+	if err := checkLoss(LoadGamma(zl, z0), r.LossF0DB, f0); err != nil && !in.AcceptLoss {
 		return nil, d.KeyError(loadKey(d), err)
 	}
 	if err := r.sweep(sim, in.Load); err != nil {
 		return nil, err
 	}
-	tmk, err := ToleranceMaker(r.Physical.Board, mk, UsesFieldSolver(sizing), f0)
-	if err != nil {
-		return nil, err
-	}
-	r.load, r.benchLines = in.Load, tmk
-	if err := r.sensitivities(ctx); err != nil {
-		return nil, err
-	}
-	if !in.SkipTolerance && d.Tolerance.Samples > 0 {
-		t, err := Analyse(ctx, r.Physical.Board, sub, tmk, zl, f0, z0, d.Tolerance)
-		if err != nil {
+	if band {
+		if err := r.bandResult(in.Load, c.Topology); err != nil {
 			return nil, err
 		}
-		r.Tolerance = &t
 	}
 	return r, nil
 }
@@ -293,10 +417,12 @@ const MaxRecentre = 0.05
 const RecentreWarn = 0.01
 
 // recentre lets Nelder-Mead (gonum/optimize) adjust the drawn lengths of
-// the lines and stubs of the solution so that the full model's |S11| at f0
-// is least. The corrections put the layout close already; this takes out
-// what they cannot: loss, and the small asymmetries of the tee model. It
-// returns the simulation of the layout it keeps.
+// the lines and stubs of the solution so that the full model's S11 at f0
+// comes as near as it can to the electrical network's own: zero for a
+// solved match, and for hand-entered sections whatever they do (a notch
+// stays a notch). The corrections put the layout close already; this takes
+// out what they cannot: loss, and the small asymmetries of the tee model.
+// It returns the simulation of the layout it keeps.
 func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex128) (*physical.Sim, error) {
 	f0, z0 := r.Design.Freq, r.Design.Z0
 	ph := &r.Physical
@@ -319,6 +445,30 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 		return nil, err
 	}
 	r.Recentre.Before = base.InputReflection(f0, zl, z0)
+	var target complex128
+	if r.Design.Match == nil {
+		// The electrical network seen from the source port: its sections,
+		// then the source-side feed of z0 between them and the port.
+		// The feed enters the model from the tee's reference plane when a
+		// stub hangs at its load end.
+		secs := r.Sections
+		through := ph.ThroughIndex()
+		if k := len(through) - 1; k >= 0 && ph.Elements[through[k]].Role == RoleFeed {
+			feed := ph.Elements[through[k]]
+			l := feed.DrawnLength
+			for _, st := range ph.Elements {
+				if st.Role == RoleStub && st.At == k-1 {
+					arm := ph.Elements[through[k-1]]
+					l -= physical.Tee{ThroughZ0: arm.Params.Z0, ThroughEpsEff: arm.Params.EpsEff,
+						StubZ0: st.Params.Z0, StubEpsEff: st.Params.EpsEff, H: ph.Board.Sub.Height, Er: ph.Board.Sub.Er}.At(f0).ThroughShift
+				}
+			}
+			secs = append(append([]Section(nil), secs...), Section{Kind: SeriesLine, Z0: z0, LengthDeg: ElectricalDegrees(feed.Params, l)})
+		}
+		zin := SectionsInput(secs, zl)
+		target = physical.Reflection(zin, z0)
+		r.Recentre.Target = target
+	}
 	// simFor is the layout with the adjustable lengths moved by x; the
 	// line models are made once, in base.
 	simFor := func(x []float64) (*physical.Sim, bool) {
@@ -347,7 +497,7 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 		if !ok {
 			return 10
 		}
-		g := sim.InputReflection(f0, zl, z0)
+		g := sim.InputReflection(f0, zl, z0) - target
 		// A faint pull toward the corrected lengths picks, among the
 		// layouts that match equally well (a network with more lengths
 		// than the two conditions of a match), the one nearest to it.
@@ -425,8 +575,22 @@ func (r *Result) sweep(sim *physical.Sim, load Load) error {
 	}
 	s := Sweep{}
 	z0 := r.Design.Z0
+	freqs := make([]float64, 0, n+2)
 	for i := 0; i < n; i++ {
-		f := sw.Start + (sw.Stop-sw.Start)*float64(i)/float64(n-1)
+		freqs = append(freqs, sw.Start+(sw.Stop-sw.Start)*float64(i)/float64(n-1))
+	}
+	if m := r.Design.Match; m != nil && m.HasBand() {
+		// The band edges are sweep points, so that the worst |S11| in the
+		// band can be read from the swept data alone.
+		for _, e := range m.Band {
+			k := sort.SearchFloat64s(freqs, e)
+			if k < len(freqs) && freqs[k] == e {
+				continue
+			}
+			freqs = append(freqs[:k], append([]float64{e}, freqs[k:]...)...)
+		}
+	}
+	for _, f := range freqs {
 		zl, err := load.Impedance(f)
 		if err != nil {
 			return r.Design.KeyError(loadKey(r.Design), fmt.Errorf("the load at %.6g GHz, in the sweep: %w", f/1e9, err))

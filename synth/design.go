@@ -49,17 +49,89 @@ type LoadSpec struct {
 }
 
 // MatchSpec asks for a matching network to be solved at the design
-// frequency.
+// frequency, or across a band.
 type MatchSpec struct {
-	Topology string  // "shunt-stub", the only one for now (see Topologies)
+	Topology string  // one of Topologies
 	End      StubEnd // stub termination
 	Pick     string  // "shortest", "1" or "2", as read by Pick
 	StubZ0   float64 // stub impedance, ohm (default: the design z0)
 	LineZ0   float64 // series line impedance, ohm (default: the design z0)
+
+	// Band is the start and stop of the band to match, Hz; both zero when
+	// the design matches at its frequency only.
+	Band [2]float64
+	// GoalDB is the worst |S11| wanted across Band, dB (negative); 0 when
+	// no goal is given.
+	GoalDB float64
+	// Response is the quarter-wave transformer's response.
+	Response Response
+	// Sections is the number of quarter-wave sections, 1 to
+	// MaxTransformerSections.
+	Sections int
+	// SpacingDeg is the double stub's spacing, electrical degrees at f0.
+	SpacingDeg float64
+	// Objective is what a band optimisation minimises: ObjectiveWorst or
+	// ObjectiveYield.
+	Objective string
+}
+
+// HasBand reports whether the match is asked for across a band.
+func (m MatchSpec) HasBand() bool { return m.Band != [2]float64{} }
+
+// The topology names of a [match] table.
+const (
+	TopologyShuntStub   = "shunt-stub"
+	TopologyDoubleStub  = "double-stub"
+	TopologyQuarterWave = "quarter-wave"
+	TopologyAuto        = "auto"
+)
+
+// The objectives of a band optimisation.
+const (
+	// ObjectiveWorst minimises the worst |S11| across the band of the
+	// nominal board.
+	ObjectiveWorst = "worst"
+	// ObjectiveYield minimises the 90th percentile, over boards drawn
+	// within the [tolerance] spreads, of each board's worst |S11| across
+	// the band.
+	ObjectiveYield = "yield"
+)
+
+// DefaultMatch returns the [match] values used where the table does not
+// give them: open stubs, the shortest solution, lines and stubs of z0, a
+// two-section Chebyshev transformer, stubs 3λ/8 apart, the worst case.
+func DefaultMatch(z0 float64) MatchSpec {
+	return MatchSpec{Pick: "shortest", StubZ0: z0, LineZ0: z0, Response: Chebyshev, Sections: 2,
+		SpacingDeg: DefaultStubSpacingDeg, Objective: ObjectiveWorst}
+}
+
+// Resolved returns m with its unset (zero) band-matching fields at their
+// defaults (DefaultMatch), so that a MatchSpec built in code needs only
+// the fields it cares about.
+func (m MatchSpec) Resolved() MatchSpec {
+	def := DefaultMatch(0)
+	if m.Response == 0 {
+		m.Response = def.Response
+	}
+	if m.Sections == 0 {
+		m.Sections = def.Sections
+	}
+	if m.SpacingDeg == 0 {
+		m.SpacingDeg = def.SpacingDeg
+	}
+	if m.Objective == "" {
+		m.Objective = def.Objective
+	}
+	if m.End == 0 {
+		m.End = Open
+	}
+	return m
 }
 
 // Topologies returns the matching topologies a MatchSpec may name.
-func Topologies() []string { return []string{"shunt-stub"} }
+func Topologies() []string {
+	return []string{TopologyShuntStub, TopologyDoubleStub, TopologyQuarterWave, TopologyAuto}
+}
 
 // SectionKind says what a Section is.
 type SectionKind int

@@ -50,11 +50,17 @@ type designRawLoad struct {
 }
 
 type designRawMatch struct {
-	Topology any `toml:"topology"`
-	Stub     any `toml:"stub"`
-	Pick     any `toml:"pick"`
-	StubZ0   any `toml:"stub_z0"`
-	LineZ0   any `toml:"line_z0"`
+	Topology  any `toml:"topology"`
+	Stub      any `toml:"stub"`
+	Pick      any `toml:"pick"`
+	StubZ0    any `toml:"stub_z0"`
+	LineZ0    any `toml:"line_z0"`
+	Band      any `toml:"band"`
+	Goal      any `toml:"goal"`
+	Response  any `toml:"response"`
+	Sections  any `toml:"sections"`
+	Spacing   any `toml:"spacing"`
+	Objective any `toml:"objective"`
 }
 
 type designRawSection struct {
@@ -214,7 +220,11 @@ func designRead[T any](dd *designDecoder, path string, v any, conv func(any) (T,
 func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) Design {
 	d := Design{Source: dd.file.Source, Dir: dir}
 	designRead(dd, "name", raw.Name, designString, &d.Name, `name = "sensor-antenna-match"`)
-	designRead(dd, "frequency", raw.Frequency, designFrequency, &d.Freq, `frequency = "2.45GHz"`)
+	freqExample := `frequency = "2.45GHz"`
+	if tb.Match != nil && tb.Match.Band != nil {
+		freqExample = "" // f0 defaults to the band's centre
+	}
+	designRead(dd, "frequency", raw.Frequency, designFrequency, &d.Freq, freqExample)
 	designRead(dd, "z0", raw.Z0, designOhms, &d.Z0, `z0 = 50`)
 	designRead(dd, "stackup", raw.Stackup, designString, &d.Stackup, `stackup = "my-board.toml"`)
 
@@ -238,6 +248,9 @@ func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) De
 		dd.fail("match", nil, errors.New("give either a [match] table or [[section]] tables, not both"))
 	case tb.Match != nil:
 		d.Match = dd.match(tb.Match, d.Z0)
+		if d.Freq == 0 && d.Match.HasBand() {
+			d.Freq = (d.Match.Band[0] + d.Match.Band[1]) / 2
+		}
 	case len(tb.Section) > 0:
 		for i, rs := range tb.Section {
 			d.Sections = append(d.Sections, dd.section(i+1, rs, d.Z0))
@@ -298,13 +311,26 @@ func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) De
 }
 
 func (dd *designDecoder) match(rm *designRawMatch, z0 float64) *MatchSpec {
-	m := &MatchSpec{Pick: "shortest", StubZ0: z0, LineZ0: z0}
+	m := DefaultMatch(z0)
+	p := &m
 	designRead(dd, "match.topology", rm.Topology, designString, &m.Topology, `topology = "shunt-stub"`)
-	designRead(dd, "match.stub", rm.Stub, designStubEnd, &m.End, `stub = "open"`)
+	stubExample := `stub = "open"`
+	if m.Topology == TopologyQuarterWave || m.Topology == TopologyAuto {
+		stubExample = "" // no stub, or every end tried
+	}
+	if !designRead(dd, "match.stub", rm.Stub, designStubEnd, &m.End, stubExample) {
+		m.End = Open
+	}
+	designRead(dd, "match.band", rm.Band, designBand, &m.Band, "")
+	designRead(dd, "match.goal", rm.Goal, designDB, &m.GoalDB, "")
+	designRead(dd, "match.response", rm.Response, designResponse, &m.Response, "")
+	designRead(dd, "match.sections", rm.Sections, designInt, &m.Sections, "")
+	designRead(dd, "match.spacing", rm.Spacing, designElectricalLength, &m.SpacingDeg, "")
+	designRead(dd, "match.objective", rm.Objective, designString, &m.Objective, "")
 	designRead(dd, "match.pick", rm.Pick, designPick, &m.Pick, "")
 	designRead(dd, "match.stub_z0", rm.StubZ0, designOhms, &m.StubZ0, "")
 	designRead(dd, "match.line_z0", rm.LineZ0, designOhms, &m.LineZ0, "")
-	return m
+	return p
 }
 
 func (dd *designDecoder) section(n int, rs designRawSection, z0 float64) Section {
@@ -446,6 +472,45 @@ func designPick(v any) (string, error) {
 		return strings.ToLower(strings.TrimSpace(x)), nil
 	}
 	return "", errors.New(`want "shortest", 1 or 2`)
+}
+
+// designBand reads ["2.4GHz", "2.4835GHz"].
+func designBand(v any) ([2]float64, error) {
+	a, ok := v.([]any)
+	if !ok || len(a) != 2 {
+		return [2]float64{}, errors.New(`want a start and a stop frequency, for example ["2.4GHz", "2.4835GHz"]`)
+	}
+	var out [2]float64
+	for i, e := range a {
+		f, err := designFrequency(e)
+		if err != nil {
+			return [2]float64{}, err
+		}
+		out[i] = f
+	}
+	return out, nil
+}
+
+// designDB reads a level in decibels: "-15dB".
+func designDB(v any) (float64, error) {
+	s, ok := v.(string)
+	t := strings.TrimSpace(s)
+	if !ok || !strings.HasSuffix(strings.ToLower(t), "db") {
+		return 0, errors.New(`write it in decibels, for example "-15dB"`)
+	}
+	f, err := strconv.ParseFloat(strings.TrimSpace(t[:len(t)-2]), 64)
+	if err != nil || math.IsInf(f, 0) || math.IsNaN(f) {
+		return 0, fmt.Errorf("cannot read %q as decibels", s)
+	}
+	return f, nil
+}
+
+func designResponse(v any) (Response, error) {
+	s, ok := v.(string)
+	if !ok {
+		return 0, errors.New(`want "binomial" or "chebyshev"`)
+	}
+	return ParseResponse(s)
 }
 
 // designBoardSize reads ["60mm", "40mm"].

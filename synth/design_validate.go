@@ -2,6 +2,7 @@ package synth
 
 import (
 	"cmp"
+	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -104,7 +105,7 @@ func (d Design) Validate() error {
 	}
 	// A load past the loss rule's |Γ| limit is left to Build, which refuses
 	// it with the network's dissipation unless the loss is accepted.
-	if c.err == nil && d.Match != nil && d.Load.Touchstone == "" && LoadGamma(d.Load.Impedance, d.Z0) <= MaxLoadGamma {
+	if c.err == nil && d.Match != nil && d.Load.Touchstone == "" && d.Match.Topology == TopologyShuntStub && LoadGamma(d.Load.Impedance, d.Z0) <= MaxLoadGamma {
 		m := *d.Match
 		if _, err := SolveShuntStubZ(d.Load.Impedance, d.Z0, m.LineZ0, m.StubZ0, m.End); err != nil {
 			c.failErr("load.impedance", zText, fmt.Errorf("topology %s: %w", m.Topology, err))
@@ -119,12 +120,62 @@ func (d Design) Validate() error {
 	}
 	c.checkSweep(d.Sweep, d.Freq)
 	c.checkTolerance(d.Tolerance)
+	if c.err == nil && d.Match != nil && d.Match.HasBand() {
+		b := d.Match.Band
+		if b[0] < d.Sweep.Start || b[1] > d.Sweep.Stop {
+			c.fail("match.band", designBandText(b), "the band must lie inside the sweep (%.6g–%.6g GHz); widen [sweep]", d.Sweep.Start/1e9, d.Sweep.Stop/1e9)
+		}
+		if !(b[0] <= d.Freq && d.Freq <= b[1]) {
+			c.fail("frequency", designQuote(d.Freq, "Hz"), "the design frequency must lie inside match.band (%.6g–%.6g GHz); leave frequency out to take the band's centre", b[0]/1e9, b[1]/1e9)
+		}
+		if d.Match.Objective == ObjectiveYield && d.Tolerance.Samples == 0 {
+			c.fail("match.objective", `"yield"`, "a yield objective needs [tolerance] samples above 0")
+		}
+	}
 	return c.err
 }
 
+func designBandText(b [2]float64) string {
+	return fmt.Sprintf("[%s, %s]", designQuote(b[0], "Hz"), designQuote(b[1], "Hz"))
+}
+
 func (c *designCheck) checkMatch(m MatchSpec) {
-	if m.Topology != "shunt-stub" {
+	known := false
+	for _, t := range Topologies() {
+		known = known || m.Topology == t
+	}
+	if !known {
 		c.fail("match.topology", strconv.Quote(m.Topology), "unknown topology (the topologies are: %s)", strings.Join(Topologies(), ", "))
+	}
+	if m.HasBand() {
+		b := m.Band
+		if !(b[0] > 0 && b[1] > b[0]) || !designFinite(b[1]) {
+			c.fail("match.band", designBandText(b), "the band needs 0 < start < stop")
+		}
+	}
+	if m.GoalDB != 0 && !(m.GoalDB < 0) || !designFinite(m.GoalDB) {
+		c.fail("match.goal", designQuote(m.GoalDB, "dB"), "the goal is a worst |S11| in the band, below 0 dB, for example \"-15dB\"")
+	}
+	if m.GoalDB != 0 && !m.HasBand() {
+		c.fail("match.goal", designQuote(m.GoalDB, "dB"), "a goal needs match.band, the band it holds across")
+	}
+	if m.Response != 0 && m.Response != Binomial && m.Response != Chebyshev {
+		c.fail("match.response", "", "use binomial or chebyshev")
+	}
+	if m.Topology == TopologyQuarterWave && m.Response == Chebyshev && !m.HasBand() && c.d.Written("match.response") {
+		c.fail("match.response", `"chebyshev"`, "a Chebyshev transformer needs match.band, the band of its ripple")
+	}
+	if m.Sections != 0 && (m.Sections < 1 || m.Sections > MaxTransformerSections) {
+		c.fail("match.sections", strconv.Itoa(m.Sections), "a quarter-wave transformer has 1 to %d sections", MaxTransformerSections)
+	}
+	if sd := math.Sin(m.SpacingDeg * math.Pi / 180); m.SpacingDeg != 0 && (!(m.SpacingDeg > 0 && m.SpacingDeg <= MaxSectionDeg) || math.Abs(sd) < 0.1) {
+		c.fail("match.spacing", designQuote(m.SpacingDeg/360, "wl"), "the stub spacing must be positive, at most %g°, and not near a multiple of half a wavelength (the forbidden region would cover everything)", float64(MaxSectionDeg))
+	}
+	if m.Objective != "" && m.Objective != ObjectiveWorst && m.Objective != ObjectiveYield {
+		c.fail("match.objective", strconv.Quote(m.Objective), "use worst (the worst |S11| across the band) or yield (its 90th percentile over the [tolerance] spreads)")
+	}
+	if m.Objective == ObjectiveYield && !m.HasBand() {
+		c.fail("match.objective", strconv.Quote(m.Objective), "a yield objective needs match.band")
 	}
 	if m.End != Open && m.End != Short {
 		c.fail("match.stub", "", "the stub end must be open or short")
@@ -252,15 +303,61 @@ func (c *designCheck) checkTolerance(t ToleranceSpec) {
 // for [[section]] tables it is those sections, and a note gives the match
 // they reach. An already matched load is an error wrapping ErrMatched.
 func (d Design) Electrical(zLoadAtF0 complex128) ([]Section, []string, error) {
+	return d.ElectricalWith(zLoadAtF0, ElectricalOptions{})
+}
+
+// ElectricalOptions carry what the electrical solution needs to know of
+// the layout.
+type ElectricalOptions struct {
+	// FeedDeg is the electrical length of the load-side feed at f0: a
+	// double stub puts its first stub no nearer the load than this, so
+	// the feed need not move it half a wavelength away.
+	FeedDeg float64
+}
+
+// loadNote says how badly the load at f0 is matched to z0.
+func (d Design) loadNote(zl complex128) string {
+	g, _, rl := LoadReport(zl, d.Z0)
+	return fmt.Sprintf("load %s ohm at %s on %g ohm: |Γ| = %.4f, return loss %.2f dB",
+		matchZText(zl), units.FormatFrequency(d.Freq, 6), d.Z0, g, rl)
+}
+
+// ElectricalWith is Electrical with the layout's options.
+func (d Design) ElectricalWith(zLoadAtF0 complex128, opt ElectricalOptions) ([]Section, []string, error) {
 	if err := d.Validate(); err != nil {
 		return nil, nil, err
 	}
-	g, _, rl := LoadReport(zLoadAtF0, d.Z0)
-	notes := []string{fmt.Sprintf("load %s ohm at %s on %g ohm: |Γ| = %.4f, return loss %.2f dB",
-		matchZText(zLoadAtF0), units.FormatFrequency(d.Freq, 6), d.Z0, g, rl)}
+	notes := []string{d.loadNote(zLoadAtF0)}
 	if d.Match != nil {
-		m := *d.Match
-		sols, err := SolveShuntStubZ(zLoadAtF0, d.Z0, m.LineZ0, m.StubZ0, m.End)
+		m := d.Match.Resolved()
+		secs, more, err := d.matchSections(m, m.Topology, m.End, zLoadAtF0, opt)
+		return secs, append(notes, more...), err
+	}
+	if cmplx.IsNaN(zLoadAtF0) || cmplx.IsInf(zLoadAtF0) || real(zLoadAtF0) < 0 {
+		return nil, nil, fmt.Errorf("%s: load %s ohm: %w", d.Source, matchZText(zLoadAtF0), ErrBadLoad)
+	}
+	secs := append([]Section(nil), d.Sections...)
+	for i, s := range secs {
+		if s.LengthDeg > 180 {
+			notes = append(notes, fmt.Sprintf("section %d is %.1f° long: more than half a wavelength, which only narrows the bandwidth", i+1, s.LengthDeg))
+		}
+	}
+	zin := SectionsInput(secs, zLoadAtF0)
+	gin, _, rlin := LoadReport(zin, d.Z0)
+	if cmplx.IsInf(zin) {
+		gin, rlin = 1, 0
+	}
+	notes = append(notes, fmt.Sprintf("the given sections present %s ohm at the input: |Γ| = %.4f, return loss %.2f dB",
+		matchZText(zin), gin, rlin))
+	return secs, notes, nil
+}
+
+// matchSections solves one topology (not auto) at f0 for the load zl.
+func (d Design) matchSections(m MatchSpec, topology string, end StubEnd, zl complex128, opt ElectricalOptions) ([]Section, []string, error) {
+	var notes []string
+	switch topology {
+	case TopologyShuntStub:
+		sols, err := SolveShuntStubZ(zl, d.Z0, m.LineZ0, m.StubZ0, end)
 		if err != nil {
 			return nil, nil, fmt.Errorf("%s: %w", d.Source, err)
 		}
@@ -281,24 +378,47 @@ func (d Design) Electrical(zLoadAtF0 complex128) ([]Section, []string, error) {
 			{Kind: SeriesLine, Z0: s.LineZ0, LengthDeg: s.LineDeg},
 			{Kind: ShuntStub, End: s.End, Z0: s.StubZ0, LengthDeg: s.StubDeg},
 		}, notes, nil
-	}
-	if cmplx.IsNaN(zLoadAtF0) || cmplx.IsInf(zLoadAtF0) || real(zLoadAtF0) < 0 {
-		return nil, nil, fmt.Errorf("%s: load %s ohm: %w", d.Source, matchZText(zLoadAtF0), ErrBadLoad)
-	}
-	secs := append([]Section(nil), d.Sections...)
-	for i, s := range secs {
-		if s.LengthDeg > 180 {
-			notes = append(notes, fmt.Sprintf("section %d is %.1f° long: more than half a wavelength, which only narrows the bandwidth", i+1, s.LengthDeg))
+	case TopologyDoubleStub:
+		line := opt.FeedDeg
+		sols, err := SolveDoubleStub(zl, d.Z0, line, m.SpacingDeg, end)
+		var fe *ForbiddenRegionError
+		if errors.As(err, &fe) {
+			notes = append(notes, fe.Error()+" (done)")
+			line = fe.FixLineDeg
+			sols, err = SolveDoubleStub(zl, d.Z0, line, m.SpacingDeg, end)
 		}
+		if err != nil {
+			return nil, nil, fmt.Errorf("%s: %w", d.Source, err)
+		}
+		s := sols[0]
+		if p, perr := strconv.Atoi(m.Pick); perr == nil && p >= 1 && p <= len(sols) {
+			s = sols[p-1]
+		}
+		notes = append(notes, fmt.Sprintf("double-stub match: %.2f° of %g ohm line, %s stub %.2f°, %.2f° spacing, %s stub %.2f° (of %d solutions)",
+			s.LineDeg, d.Z0, end, s.Stub1Deg, s.SpacingDeg, end, s.Stub2Deg, len(sols)))
+		return s.Sections(), notes, nil
+	case TopologyQuarterWave:
+		frac := 0.0
+		if m.HasBand() {
+			frac = (m.Band[1] - m.Band[0]) / d.Freq
+		}
+		resp := m.Response
+		if resp == Chebyshev && frac == 0 {
+			resp = Binomial
+			notes = append(notes, "no match.band: the transformer is binomial (a Chebyshev one needs the band of its ripple)")
+		}
+		secs, more, err := QuarterWaveMatch(zl, d.Z0, m.Sections, resp, frac)
+		if err != nil {
+			return nil, nil, fmt.Errorf("%s: %w", d.Source, err)
+		}
+		for i, s := range secs {
+			if s.Z0 < MinLineZ0 || s.Z0 > MaxLineZ0 {
+				return nil, nil, d.KeyError("match.sections", fmt.Errorf("transformer section %d needs %.4g ohm, outside the printable %g–%g ohm: use more sections or another topology", i+1, s.Z0, MinLineZ0, MaxLineZ0))
+			}
+		}
+		return secs, append(notes, more...), nil
 	}
-	zin := SectionsInput(secs, zLoadAtF0)
-	gin, _, rlin := LoadReport(zin, d.Z0)
-	if cmplx.IsInf(zin) {
-		gin, rlin = 1, 0
-	}
-	notes = append(notes, fmt.Sprintf("the given sections present %s ohm at the input: |Γ| = %.4f, return loss %.2f dB",
-		matchZText(zin), gin, rlin))
-	return secs, notes, nil
+	return nil, nil, d.KeyError("match.topology", fmt.Errorf("topology %q has no single electrical solution", topology))
 }
 
 // SectionsInput returns the impedance looking into lossless sections (from

@@ -85,6 +85,16 @@ func Analyse(ctx context.Context, b physical.Board, sub physical.Substrate, mk p
 
 // sample simulates board i of the analysis.
 func sample(b physical.Board, sub physical.Substrate, mk physical.LineMaker, zl complex128, f0, z0 float64, spec ToleranceSpec, i int) (float64, error) {
+	sim, err := physical.NewSim(perturbBoard(b, sub, spec, i), mk)
+	if err != nil {
+		return 0, err
+	}
+	return S11DB(sim.InputReflection(f0, zl, z0)), nil
+}
+
+// perturbBoard returns board i of a tolerance analysis: b on sub with εr,
+// thickness and copper spread and one etch offset on every line.
+func perturbBoard(b physical.Board, sub physical.Substrate, spec ToleranceSpec, i int) physical.Board {
 	rng := rand.New(rand.NewPCG(uint64(spec.Seed), uint64(i)))
 	spread := func(limit float64) float64 { return limit * (2*rng.Float64() - 1) }
 	s := sub
@@ -102,11 +112,7 @@ func sample(b physical.Board, sub physical.Substrate, mk physical.LineMaker, zl 
 	for k := range q.Stubs {
 		q.Stubs[k].Width = max(q.Stubs[k].Width+etch, 1e-6)
 	}
-	sim, err := physical.NewSim(q, mk)
-	if err != nil {
-		return 0, err
-	}
-	return S11DB(sim.InputReflection(f0, zl, z0)), nil
+	return q
 }
 
 // quantile returns the q-quantile of sorted data by linear interpolation
