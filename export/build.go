@@ -48,6 +48,7 @@ func Files(res *synth.Result, opt FileOptions) []Artefact {
 			return WriteTouchstone(w, InputTouchstone(res), TouchstoneComments(res, opt.Version, "the input of the matched load"))
 		}},
 	}
+	fabFrom := len(files) // the fab archive holds the files from here to the notes
 	for _, layer := range LayersOf(lay) {
 		files = append(files, Artefact{layer.FileName(base), func(w io.Writer) error { return WriteGerber(w, lay, layer, meta) }})
 	}
@@ -59,6 +60,9 @@ func Files(res *synth.Result, opt FileOptions) []Artefact {
 	)
 	notes := NewFabNotes(res, rep, lay)
 	files = append(files, Artefact{FabNotesFileName, func(w io.Writer) error { return WriteFabNotes(w, notes) }})
+	// The fab archive: the Gerbers, the drill and job files and the notes.
+	fab := append([]Artefact(nil), files[fabFrom:]...)
+	files = append(files, Artefact{FabZipFileName(base), func(w io.Writer) error { return WriteFabZip(w, fab, opt.Created) }})
 	dopt := DrawingOptions{Page: opt.Page, Fit: opt.Fit, Created: opt.Created, Version: opt.Version, FabNotes: &notes}
 	files = append(files,
 		Artefact{"drawing.pdf", func(w io.Writer) error { return WritePDF(w, rep, lay, dopt) }},

@@ -78,7 +78,10 @@ func (d *doc) fabNotesSheet(n FabNotes) {
 	}
 	head("Files")
 	for _, fl := range n.Files {
-		f.Text(x, y+3, fl[0])
+		f.Text(x, y+3, clip(f.GetStringWidth, fl[0], w))
+		if f.GetStringWidth(fl[0]) > 70 {
+			next(lh) // a long name: its function on the next line
+		}
 		para(72, fl[1])
 	}
 }
