@@ -11,6 +11,8 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+
+	"stubcraft/physical/inputfile"
 )
 
 // Touchstone is an N-port network's S parameters over frequency, as read
@@ -138,15 +140,23 @@ func ReadTouchstone(r io.Reader, source string, ports int) (*Touchstone, error) 
 		recLine  int       // line on which it started
 		noise    bool
 		lineNo   int
-		sc       = bufio.NewScanner(r)
+		br       = bufio.NewReaderSize(r, 64*1024)
 		errAt    = func(line int, err error, format string, a ...any) error {
 			return &TouchstoneError{Source: source, Line: line, Msg: fmt.Sprintf(format, a...), Err: err}
 		}
 	)
-	sc.Buffer(make([]byte, 64*1024), 1<<20)
-	for sc.Scan() {
+	for {
+		text, err := touchLine(br)
+		if err == io.EOF {
+			break
+		}
 		lineNo++
-		text := sc.Text()
+		if errors.Is(err, errLineTooLong) {
+			return nil, errAt(lineNo, err, "the line is longer than %d bytes; a Touchstone record line is a few hundred", maxTouchstoneLine)
+		}
+		if err != nil {
+			return nil, fmt.Errorf("%s: reading line %d: %w", source, lineNo, err)
+		}
 		if i := strings.IndexByte(text, '!'); i >= 0 {
 			text = text[:i]
 		}
@@ -192,6 +202,9 @@ func ReadTouchstone(r io.Reader, source string, ports int) (*Touchstone, error) 
 			if nums[0] < 0 {
 				return nil, errAt(lineNo, nil, "negative frequency %s", fields[0])
 			}
+			if f := nums[0] * opts.freqScale; math.IsInf(f, 0) {
+				return nil, errAt(lineNo, nil, "frequency %s in the option line's unit is not a finite number of hertz", fields[0])
+			}
 			if n := len(t.Freqs); n > 0 && nums[0]*opts.freqScale <= t.Freqs[n-1] {
 				if ports == 2 && len(nums) == 5 {
 					noise = true
@@ -207,12 +220,13 @@ func ReadTouchstone(r io.Reader, source string, ports int) (*Touchstone, error) 
 		if len(rec) < per {
 			continue
 		}
+		sm, err := recordS(opts, rec[1:], ports)
+		if err != nil {
+			return nil, errAt(recLine, err, "record starting here: %v", err)
+		}
 		t.Freqs = append(t.Freqs, rec[0]*opts.freqScale)
-		t.S = append(t.S, recordS(opts, rec[1:], ports))
+		t.S = append(t.S, sm)
 		rec = rec[:0]
-	}
-	if err := sc.Err(); err != nil {
-		return nil, fmt.Errorf("%s: reading: %w", source, err)
 	}
 	if len(rec) > 0 {
 		return nil, errAt(recLine, nil, "record starting here ends with %d values, want %d (frequency and %d pairs)", len(rec), per, ports*ports)
@@ -226,16 +240,72 @@ func ReadTouchstone(r io.Reader, source string, ports int) (*Touchstone, error) 
 	return t, nil
 }
 
-// recordS turns a record's pairs into a row-major S matrix.
-func recordS(o touchOptions, v []float64, ports int) []complex128 {
+// recordS turns a record's pairs into a row-major S matrix, refusing a
+// value that is not finite once converted (a dB figure of thousands) and a
+// negative magnitude.
+func recordS(o touchOptions, v []float64, ports int) ([]complex128, error) {
 	s := make([]complex128, ports*ports)
 	for k := 0; k < ports*ports; k++ {
-		s[k] = o.pair(v[2*k], v[2*k+1])
+		a, b := v[2*k], v[2*k+1]
+		if o.format == "MA" && a < 0 {
+			return nil, fmt.Errorf("pair %d: magnitude %g is negative", k+1, a)
+		}
+		s[k] = o.pair(a, b)
+		if cmplx.IsInf(s[k]) || cmplx.IsNaN(s[k]) {
+			return nil, fmt.Errorf("pair %d (%g, %g in %s) is not a finite S parameter", k+1, a, b, o.format)
+		}
 	}
 	if ports == 2 {
 		s[1], s[2] = s[2], s[1] // file order S11 S21 S12 S22
 	}
-	return s
+	return s, nil
+}
+
+// maxTouchstoneLine is the longest line ReadTouchstone reads, bytes.
+const maxTouchstoneLine = 1 << 20
+
+var errLineTooLong = errors.New("line too long")
+
+// touchLine returns the next line of br without its end, or io.EOF after
+// the last; a line longer than maxTouchstoneLine gives errLineTooLong.
+func touchLine(br *bufio.Reader) (string, error) {
+	var line []byte
+	for {
+		chunk, err := br.ReadSlice('\n')
+		if len(line)+len(chunk) > maxTouchstoneLine {
+			return "", errLineTooLong
+		}
+		line = append(line, chunk...)
+		switch {
+		case err == bufio.ErrBufferFull:
+			continue
+		case err == io.EOF && len(line) > 0:
+			return string(line), nil
+		case err != nil:
+			return "", err
+		}
+		return string(line[:len(line)-1]), nil
+	}
+}
+
+// ReadTouchstoneFile reads the Touchstone file at path, which must be a
+// regular file of at most inputfile.TouchstoneLimit bytes, for a network of
+// the port count its extension announces; want, when above 0, is the port
+// count the caller needs.
+func ReadTouchstoneFile(path string, want int) (*Touchstone, error) {
+	ports, err := TouchstonePorts(path)
+	if err != nil {
+		return nil, err
+	}
+	if want > 0 && ports != want {
+		return nil, fmt.Errorf("%s: a %d-port file; a %d-port (.s%dp) file is needed here", path, ports, want, want)
+	}
+	f, err := inputfile.Open(path, inputfile.TouchstoneLimit)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	return ReadTouchstone(inputfile.Reader(f, path, inputfile.TouchstoneLimit), path, ports)
 }
 
 // Reflection returns S11 at freq (Hz), interpolated linearly in real and
@@ -247,7 +317,7 @@ func (t *Touchstone) Reflection(freq float64) (complex128, error) {
 		return 0, errors.New("touchstone: no data")
 	}
 	if freq < t.Freqs[0] || freq > t.Freqs[n-1] || math.IsNaN(freq) {
-		return 0, fmt.Errorf("touchstone: %.6g Hz outside the data, %.6g to %.6g Hz", freq, t.Freqs[0], t.Freqs[n-1])
+		return 0, fmt.Errorf("%.6g GHz is outside the data, which run from %.6g to %.6g GHz; give data that cover it", freq/1e9, t.Freqs[0]/1e9, t.Freqs[n-1]/1e9)
 	}
 	k := sort.SearchFloat64s(t.Freqs, freq)
 	if t.Freqs[k] == freq {

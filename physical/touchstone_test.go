@@ -104,6 +104,10 @@ func TestReadTouchstoneRejects(t *testing.T) {
 		{"second option line", 1, "# GHz S MA R 50\n# MHz\n", 2, "second option line"},
 		{"no data", 1, "! only a comment\n# GHz S MA R 50\n", 2, "no data"},
 		{"negative frequency", 1, "# GHz S MA R 50\n-1 0.5 0\n", 2, "negative"},
+		{"dB beyond float64", 1, "# GHz S DB R 50\n1 -10 0\n2 7000 20\n", 3, "not a finite S parameter"},
+		{"negative magnitude", 1, "# GHz S MA R 50\n1 -0.5 0\n", 2, "negative"},
+		{"frequency beyond float64 once scaled", 1, "# GHz S MA R 50\n1e305 0.5 0\n", 2, "not a finite number of hertz"},
+		{"a 2 MB line", 1, "# GHz S MA R 50\n1 0.5 0\n! " + strings.Repeat("x", 2<<20) + "\n", 3, "longer than"},
 		{"bad noise line", 2, "# GHz S MA R 50\n2 0.5 0 0.9 0 0.9 0 0.5 0\n1 1.2 0.3 40 0.25\n2 1.5 0.3\n", 4, "noise"},
 	}
 	for _, tt := range tests {

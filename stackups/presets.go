@@ -6,10 +6,11 @@ import (
 	"errors"
 	"fmt"
 	"io/fs"
-	"os"
 	"path"
 	"sort"
 	"strings"
+
+	"stubcraft/physical/inputfile"
 )
 
 // presetFiles holds the presets, one file per preset named after it.
@@ -76,7 +77,7 @@ func Load(nameOrPath string) (Stackup, error) {
 			return s, nil
 		}
 	}
-	data, err := os.ReadFile(nameOrPath)
+	data, err := inputfile.Read(nameOrPath, inputfile.TOMLLimit)
 	if err != nil {
 		if !isPath && errors.Is(err, fs.ErrNotExist) {
 			return Stackup{}, fmt.Errorf("no preset named %q and no such file (presets: %s): %w",

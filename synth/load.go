@@ -3,12 +3,11 @@ package synth
 import (
 	"bytes"
 	_ "embed"
-	"fmt"
 	"io"
-	"os"
 	"path/filepath"
 
 	"stubcraft/physical"
+	"stubcraft/physical/inputfile"
 	"stubcraft/stackups"
 )
 
@@ -34,12 +33,11 @@ type LoadOptions struct {
 // refers to; relative paths in it start from the file's directory. Errors
 // in the design, and in the files it names, are *DesignError.
 func LoadDesign(path string, opt LoadOptions) (BuildInput, error) {
-	f, err := os.Open(path)
+	data, err := inputfile.Read(path, inputfile.TOMLLimit)
 	if err != nil {
 		return BuildInput{}, err
 	}
-	defer f.Close()
-	return ReadDesign(f, path, filepath.Dir(path), opt)
+	return ReadDesign(bytes.NewReader(data), path, filepath.Dir(path), opt)
 }
 
 // LoadDemo returns the embedded demo design, ready to build.
@@ -76,19 +74,7 @@ func OpenLoad(d Design) (Load, error) {
 		return ConstantLoad(d.Load.Impedance), nil
 	}
 	path := d.Load.Touchstone
-	ports, err := physical.TouchstonePorts(path)
-	if err != nil {
-		return nil, err
-	}
-	if ports != 1 {
-		return nil, fmt.Errorf("%s: a load is a one-port (.s1p) file", path)
-	}
-	f, err := os.Open(path)
-	if err != nil {
-		return nil, err
-	}
-	defer f.Close()
-	t, err := physical.ReadTouchstone(f, path, 1)
+	t, err := physical.ReadTouchstoneFile(path, 1)
 	if err != nil {
 		return nil, err
 	}

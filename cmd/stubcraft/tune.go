@@ -3,7 +3,6 @@ package main
 import (
 	"fmt"
 	"io"
-	"os"
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
@@ -129,19 +128,7 @@ state explains, is refused and gives no trims.
 // readMeasurement reads a one-port Touchstone file of a measured board
 // and refers it to z0.
 func readMeasurement(path string, z0 float64) (tune.Measurement, error) {
-	ports, err := physical.TouchstonePorts(path)
-	if err != nil {
-		return tune.Measurement{}, err
-	}
-	if ports != 1 {
-		return tune.Measurement{}, fmt.Errorf("%s: a measured board's input reflection is a one-port (.s1p) file, not %d ports", path, ports)
-	}
-	file, err := os.Open(path)
-	if err != nil {
-		return tune.Measurement{}, err
-	}
-	defer file.Close()
-	t, err := physical.ReadTouchstone(file, path, 1)
+	t, err := physical.ReadTouchstoneFile(path, 1)
 	if err != nil {
 		return tune.Measurement{}, err
 	}
