@@ -39,10 +39,36 @@ type Report struct {
 	Band20DBHz      [2]float64          `json:"band_20db_hz"`
 	Sweep           ReportSweep         `json:"sweep"`
 	Tolerance       *ReportTolerance    `json:"tolerance,omitempty"`
+	Band            *ReportBand         `json:"band,omitempty"`
 	Sensitivity     []ReportSensitivity `json:"sensitivity"`
 	Notes           []string            `json:"notes"`
 	Warnings        []string            `json:"warnings"`
 	Cautions        []string            `json:"cautions"`
+}
+
+// ReportBand is the match across a band.
+type ReportBand struct {
+	StartHz    float64  `json:"start_hz"`
+	StopHz     float64  `json:"stop_hz"`
+	GoalDB     *float64 `json:"goal_db"` // null when no goal was given
+	WorstS11DB float64  `json:"worst_s11_db"`
+	// BodeFanoS11DB is null for a load with no reactance (no limit).
+	BodeFanoS11DB *float64          `json:"bode_fano_s11_db"`
+	LoadFit       string            `json:"load_fit"`
+	Topology      string            `json:"topology"`
+	Objective     string            `json:"objective"`
+	Candidates    []ReportCandidate `json:"candidates,omitempty"`
+}
+
+// ReportCandidate is one network tried by topology auto, best first.
+type ReportCandidate struct {
+	Name       string  `json:"name"`
+	Topology   string  `json:"topology"`
+	WorstS11DB float64 `json:"worst_s11_db"`
+	AreaMM2    float64 `json:"footprint_mm2"`
+	LossDB     float64 `json:"network_loss_db_f0"`
+	TotalDeg   float64 `json:"total_electrical_deg"`
+	Error      string  `json:"error,omitempty"`
 }
 
 // ReportStackup holds the values of the stackup used.
@@ -282,6 +308,22 @@ func NewReport(r *synth.Result, version string) Report {
 	for _, x := range r.Sensitivity {
 		rep.Sensitivity = append(rep.Sensitivity, ReportSensitivity{ID: x.ID, Quantity: x.Quantity.String(), Step: SensitivityStep(x.Quantity),
 			BestMatchShiftMHz: x.BestMatchShift / 1e6, S11DBF0AfterStep: synth.S11DB(x.S11F0)})
+	}
+	if b := r.Band; b != nil {
+		rep.Band = &ReportBand{StartHz: b.Start, StopHz: b.Stop, WorstS11DB: b.WorstS11DB, LoadFit: b.Fit.String(),
+			Topology: b.Topology, Objective: b.Objective}
+		if b.GoalDB != 0 {
+			v := b.GoalDB
+			rep.Band.GoalDB = &v
+		}
+		if !math.IsInf(b.BodeFanoS11DB, 0) {
+			v := b.BodeFanoS11DB
+			rep.Band.BodeFanoS11DB = &v
+		}
+		for _, c := range b.Candidates {
+			rep.Band.Candidates = append(rep.Band.Candidates, ReportCandidate{Name: c.Name(), Topology: c.Topology,
+				WorstS11DB: c.WorstS11DB, AreaMM2: c.AreaM2 * 1e6, LossDB: c.LossDB, TotalDeg: c.TotalDeg, Error: c.Err})
+		}
 	}
 	if t := r.Tolerance; t != nil {
 		rep.Tolerance = &ReportTolerance{Samples: t.Spec.Samples, Seed: t.Spec.Seed, ErRel: t.Spec.Er,

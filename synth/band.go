@@ -131,7 +131,7 @@ func (p Physical) Footprint() float64 {
 // bandSamples is the number of frequencies across the band at which the
 // band optimisation evaluates |S11| (common practice, no source: enough to
 // see the ripple of a four-section transformer).
-const bandSamples = 21
+const bandSamples = 13
 
 // yieldSamples is the number of boards the yield objective draws.
 const yieldSamples = 16
@@ -259,7 +259,7 @@ func (r *Result) bandOptimise(ctx context.Context, mk, tmk physical.LineMaker, l
 		return w
 	}
 	var objective func(x []float64) float64
-	evals := 3000
+	evals := 1500
 	if m.Objective == ObjectiveYield {
 		evals = 600
 		objective = func(x []float64) float64 {

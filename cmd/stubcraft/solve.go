@@ -19,25 +19,43 @@ import (
 type solveOptions struct {
 	load, z0, lineZ0, stubZ0, stub string
 	asJSON, acceptLoss             bool
+	stubSet                        bool // --stub was given
 }
 
 // newSolveCmd returns the command that prints the single-shunt-stub
 // solutions for a load, with the load's mismatch.
 func newSolveCmd() *cobra.Command {
 	var o solveOptions
+	var b solveBandOptions
 	cmd := &cobra.Command{
-		Use:   "solve --load Z [--z0 Z0] [--stub open|short]",
+		Use:   "solve (--load Z | --touchstone FILE) [--z0 Z0] [--stub open|short] [--band START..STOP --topology T]",
 		Short: "Solve the single shunt stub that matches a load",
 		Long: `Solve the single shunt stub that matches a load impedance to z0: where to
 put the stub on the line from the load, and how long to make it. Both
 solutions are printed, in wavelengths and degrees, with the load's
 reflection, VSWR and return loss. The series line and the stub may have
-impedances other than z0 (--line-z0, --stub-z0).`,
+impedances other than z0 (--line-z0, --stub-z0).
+
+With --band, the match is asked for across a band instead: every network
+of --topology (shunt-stub, double-stub, quarter-wave, or auto for all of
+them) is solved at the band's centre and its lengths optimised on ideal
+lossless lines for the worst |S11| in the band; each is listed with that
+worst |S11| and its total electrical length, beside the Bode-Fano limit
+of the load. The load may then be a one-port Touchstone file.`,
 		Example: `  stubcraft solve --load 22-j31
-  stubcraft solve --load "75+j40" --z0 50 --stub short --json`,
+  stubcraft solve --load "75+j40" --z0 50 --stub short --json
+  stubcraft solve --band 2.4GHz..2.4835GHz --topology auto --load 31-j24
+  stubcraft solve --band 2.4GHz..2.4835GHz --topology auto --touchstone antenna.s1p`,
 		Args:         cobra.NoArgs,
 		SilenceUsage: true,
 		RunE: func(cmd *cobra.Command, args []string) error {
+			o.stubSet = cmd.Flags().Changed("stub")
+			if b.band != "" {
+				return runSolveBand(cmd.OutOrStdout(), o, b)
+			}
+			if b.touchstone != "" || cmd.Flags().Changed("topology") {
+				return errors.New("--touchstone and --topology go with --band")
+			}
 			return runSolve(cmd.OutOrStdout(), o)
 		},
 	}
@@ -47,6 +65,11 @@ impedances other than z0 (--line-z0, --stub-z0).`,
 	f.StringVar(&o.lineZ0, "line-z0", "", "impedance of the line from the load to the stub, ohm (default: z0)")
 	f.StringVar(&o.stubZ0, "stub-z0", "", "impedance of the stub, ohm (default: z0)")
 	f.StringVar(&o.stub, "stub", "open", "stub end: open, or short (a via to ground)")
+	f.StringVar(&b.band, "band", "", "match across this band, START..STOP, such as 2.4GHz..2.4835GHz")
+	f.StringVar(&b.topology, "topology", synth.TopologyAuto, "with --band: shunt-stub, double-stub, quarter-wave or auto")
+	f.StringVar(&b.touchstone, "touchstone", "", "with --band: the load as a one-port Touchstone file")
+	f.IntVar(&b.sections, "sections", 0, "with --band and quarter-wave: sections, 1 to 4 (default 2)")
+	f.StringVar(&b.response, "response", "", "with --band and quarter-wave: binomial or chebyshev (default chebyshev)")
 	f.BoolVar(&o.asJSON, "json", false, "print JSON instead of a table")
 	f.BoolVar(&o.acceptLoss, "accept-loss", false, "solve a load even when |Γ| is above 0.98 (a network for it would dissipate most of the power)")
 	return cmd

@@ -1,0 +1,119 @@
+package main
+
+import (
+	"encoding/json"
+	"math"
+	"math/cmplx"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"stubcraft/physical"
+)
+
+// The worst |S11| in the band that report.json states is the one an
+// engineer recomputes from matched.s1p alone: the largest |S11| of the
+// file's points from start_hz to stop_hz (the band edges are sweep points),
+// within 0.05 dB (matched.s1p carries enough digits that only its rounding
+// differs). Built for the band examples of each topology.
+func TestBandReportAgreesWithMatchedS1P(t *testing.T) {
+	for _, name := range []string{"band-double-stub", "band-quarter-wave", "band-auto"} {
+		dir := filepath.Join(t.TempDir(), "out")
+		if _, err := runRoot(t, "build", filepath.Join("..", "..", "testdata", "designs", name+".toml"), "-o", dir, "--samples", "0"); err != nil {
+			t.Fatalf("%s: %v", name, err)
+		}
+		raw, err := os.ReadFile(filepath.Join(dir, "report.json"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		var rep struct {
+			Band *struct {
+				StartHz       float64  `json:"start_hz"`
+				StopHz        float64  `json:"stop_hz"`
+				GoalDB        *float64 `json:"goal_db"`
+				WorstS11DB    float64  `json:"worst_s11_db"`
+				BodeFanoS11DB *float64 `json:"bode_fano_s11_db"`
+				Topology      string   `json:"topology"`
+			} `json:"band"`
+		}
+		if err := json.Unmarshal(raw, &rep); err != nil {
+			t.Fatal(err)
+		}
+		if rep.Band == nil || rep.Band.Topology == "" || rep.Band.GoalDB == nil {
+			t.Fatalf("%s: band %+v", name, rep.Band)
+		}
+		f, err := os.Open(filepath.Join(dir, "matched.s1p"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		ts, err := physical.ReadTouchstone(f, "matched.s1p", 1)
+		f.Close()
+		if err != nil {
+			t.Fatal(err)
+		}
+		worst, edges := math.Inf(-1), 0
+		for i, fr := range ts.Freqs {
+			// The file's frequencies are written with finite digits:
+			// compare the band edges to a hertz.
+			if math.Abs(fr-rep.Band.StartHz) < 1 || math.Abs(fr-rep.Band.StopHz) < 1 {
+				edges++
+			}
+			if fr >= rep.Band.StartHz-1 && fr <= rep.Band.StopHz+1 {
+				worst = math.Max(worst, 20*math.Log10(cmplx.Abs(ts.S[i][0])))
+			}
+		}
+		if edges != 2 || math.Abs(worst-rep.Band.WorstS11DB) > 0.05 {
+			t.Errorf("%s: report.json worst %.3f dB, matched.s1p %.3f dB over %d band edges", name, rep.Band.WorstS11DB, worst, edges)
+		}
+		if b := rep.Band.BodeFanoS11DB; b != nil && rep.Band.WorstS11DB < *b {
+			t.Logf("%s: worst %.2f dB below the Bode-Fano limit %.2f dB (possible only through the network's loss)", name, rep.Band.WorstS11DB, *b)
+		}
+	}
+}
+
+// solve --band lists every candidate of auto with its worst |S11| in the
+// band, the Bode-Fano limit and the total electrical length; the best
+// first, and never worse than the best single stub it also lists.
+func TestSolveBandAuto(t *testing.T) {
+	out, err := runRoot(t, "solve", "--band", "2.4GHz..2.4835GHz", "--topology", "auto", "--load", "31-j24", "--json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var res struct {
+		BodeFanoS11DB *float64 `json:"bode_fano_s11_db"`
+		Candidates    []struct {
+			Topology   string   `json:"topology"`
+			WorstS11DB *float64 `json:"worst_s11_db"`
+			TotalDeg   float64  `json:"total_electrical_deg"`
+		} `json:"candidates"`
+	}
+	if err := json.Unmarshal([]byte(out), &res); err != nil {
+		t.Fatalf("%v: %s", err, out)
+	}
+	if len(res.Candidates) != 10 || res.BodeFanoS11DB == nil {
+		t.Fatalf("%s", out)
+	}
+	bestStub := math.Inf(1)
+	for _, c := range res.Candidates {
+		if c.WorstS11DB == nil || !(c.TotalDeg > 0) {
+			t.Errorf("candidate %+v", c)
+			continue
+		}
+		if c.Topology == "shunt-stub" {
+			bestStub = math.Min(bestStub, *c.WorstS11DB)
+		}
+	}
+	if first := res.Candidates[0].WorstS11DB; first == nil || *first > bestStub {
+		t.Errorf("first candidate %v, best single stub %.2f dB", first, bestStub)
+	}
+}
+
+// A Touchstone load that does not cover the band is refused, naming both
+// ranges.
+func TestSolveBandTouchstoneNotCovered(t *testing.T) {
+	_, err := runRoot(t, "solve", "--band", "1GHz..2GHz", "--touchstone", filepath.Join("..", "..", "testdata", "designs", "antenna.s1p"))
+	if err == nil || !strings.Contains(err.Error(), "1–2 GHz") || !strings.Contains(err.Error(), "1.5–3.5 GHz") {
+		t.Errorf("err = %v", err)
+	}
+}
