@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"math/cmplx"
+	"stubcraft/physical"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -71,7 +71,7 @@ func fullwaveS11Plot(c FullwaveCurves) (*plot.Plot, error) {
 	}{{c.Circuit, colCurveB, "circuit model"}, {c.Fullwave, colCurveA, "full-wave (FDTD)"}} {
 		pts := make(plotter.XYs, len(c.Freqs))
 		for i, f := range c.Freqs {
-			pts[i] = plotter.XY{X: f / 1e9, Y: math.Max(20*math.Log10(math.Max(cmplx.Abs(tr.s[i]), 1e-15)), -60)}
+			pts[i] = plotter.XY{X: f / 1e9, Y: math.Max(physical.MagDB(tr.s[i]), -60)}
 		}
 		if len(pts) < 2 {
 			continue

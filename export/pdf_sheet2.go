@@ -416,7 +416,7 @@ func (d *doc) results(x, y, w float64) {
 	r := d.rep
 	lines := []string{
 		minus(fmt.Sprintf("|S11| at f0: %s drawn, %s without the discontinuity corrections, %s before re-centring", ModelDB(r.S11DBF0), ModelDB(r.S11DBF0Uncorr), ModelDB(r.Recentring.S11DBBefore))),
-		minus(fmt.Sprintf("return loss %s, VSWR %.2f, network loss %.3f dB at f0", returnLossText(r.ReturnLossDBF0), r.VSWRF0, r.NetworkLossDBF0)),
+		minus(fmt.Sprintf("return loss %s, VSWR %.2f, network loss %.3f dB at f0", returnLossText(float64(r.ReturnLossDBF0)), r.VSWRF0, r.NetworkLossDBF0)),
 	}
 	if r.Bandwidth10DBHz > 0 {
 		lines = append(lines, minus(fmt.Sprintf("band |S11| < −10 dB: %s (%.1f MHz)", units.FormatFrequencyRange(r.Band10DBHz[0], r.Band10DBHz[1], 4), r.Bandwidth10DBHz/1e6)))

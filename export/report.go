@@ -30,9 +30,9 @@ type Report struct {
 	S11DBF0         float64             `json:"s11_db_f0"`
 	S11DBF0Uncorr   float64             `json:"s11_db_f0_uncorrected"`
 	Recentring      ReportRecentring    `json:"recentring"`
-	ReturnLossDBF0  float64             `json:"return_loss_db_f0"`
-	VSWRF0          float64             `json:"vswr_f0"`
-	NetworkLossDBF0 float64             `json:"network_loss_db_f0"`
+	ReturnLossDBF0  Number              `json:"return_loss_db_f0"`
+	VSWRF0          Number              `json:"vswr_f0"`            // null when infinite (|Γ| = 1)
+	NetworkLossDBF0 Number              `json:"network_loss_db_f0"` // null when not finite
 	Bandwidth10DBHz float64             `json:"bandwidth_10db_hz"`
 	Band10DBHz      [2]float64          `json:"band_10db_hz"`
 	Bandwidth20DBHz float64             `json:"bandwidth_20db_hz"`
@@ -95,8 +95,8 @@ type ReportLoad struct {
 	ROhm         float64 `json:"r_ohm"`
 	XOhm         float64 `json:"x_ohm"`
 	GammaMag     float64 `json:"gamma_mag"`
-	VSWR         float64 `json:"vswr"`
-	ReturnLossDB float64 `json:"return_loss_db"`
+	VSWR         Number  `json:"vswr"` // null when infinite (a reactive load)
+	ReturnLossDB Number  `json:"return_loss_db"`
 }
 
 // ReportSection is one section of the electrical solution.
@@ -237,9 +237,9 @@ func NewReport(r *synth.Result, version string) Report {
 	d, st := r.Design, r.Stackup
 	rep := Report{
 		Tool: "stubcraft", Version: version, Name: d.Name, FrequencyHz: d.Freq, Z0Ohm: d.Z0, Model: r.Model,
-		S11DBF0: synth.S11DB(r.S11F0), S11DBF0Uncorr: synth.S11DB(r.Uncorr),
-		ReturnLossDBF0: -synth.S11DB(r.S11F0), VSWRF0: physical.VSWR(r.S11F0),
-		NetworkLossDBF0: r.LossF0DB,
+		S11DBF0: physical.MagDB(r.S11F0), S11DBF0Uncorr: physical.MagDB(r.Uncorr),
+		ReturnLossDBF0: Number(-physical.MagDB(r.S11F0)), VSWRF0: Number(physical.VSWR(r.S11F0)),
+		NetworkLossDBF0: Number(r.LossF0DB),
 		Bandwidth10DBHz: r.BW10.Width(), Band10DBHz: [2]float64{r.BW10.Lo, r.BW10.Hi},
 		Bandwidth20DBHz: r.BW20.Width(), Band20DBHz: [2]float64{r.BW20.Lo, r.BW20.Hi},
 		Notes: nonNil(r.Notes), Warnings: nonNil(r.Warnings), Cautions: Cautions(),
@@ -262,7 +262,7 @@ func NewReport(r *synth.Result, version string) Report {
 	}
 	g := physical.Reflection(r.LoadF0, d.Z0)
 	rep.Load = ReportLoad{Touchstone: designRelative(d, d.Load.Touchstone), ROhm: real(r.LoadF0), XOhm: imag(r.LoadF0),
-		GammaMag: cmplx.Abs(g), VSWR: physical.VSWR(g), ReturnLossDB: physical.ReturnLossDB(g)}
+		GammaMag: cmplx.Abs(g), VSWR: Number(physical.VSWR(g)), ReturnLossDB: Number(physical.ReturnLossDB(g))}
 	for _, s := range r.Sections {
 		end := ""
 		if s.Kind == synth.ShuntStub {
@@ -289,7 +289,7 @@ func NewReport(r *synth.Result, version string) Report {
 		rep.Elements = append(rep.Elements, re)
 	}
 	rep.StubFromLoadMM = stubPositions(els)
-	rep.Recentring = ReportRecentring{S11DBBefore: synth.S11DB(r.Recentre.Before), S11DBAfter: synth.S11DB(r.Recentre.After),
+	rep.Recentring = ReportRecentring{S11DBBefore: physical.MagDB(r.Recentre.Before), S11DBAfter: physical.MagDB(r.Recentre.After),
 		ChangesMM: map[string]float64{}, Evaluations: r.Recentre.Evaluations}
 	for i, id := range r.Recentre.IDs {
 		rep.Recentring.ChangesMM[id] = r.Recentre.Changes[i] * 1e3
@@ -297,7 +297,7 @@ func NewReport(r *synth.Result, version string) Report {
 	sw := r.Sweep
 	for i, f := range sw.Freqs {
 		rep.Sweep.FreqHz = append(rep.Sweep.FreqHz, f)
-		rep.Sweep.S11DB = append(rep.Sweep.S11DB, synth.S11DB(sw.S11[i]))
+		rep.Sweep.S11DB = append(rep.Sweep.S11DB, physical.MagDB(sw.S11[i]))
 		rep.Sweep.S11Re = append(rep.Sweep.S11Re, real(sw.S11[i]))
 		rep.Sweep.S11Im = append(rep.Sweep.S11Im, imag(sw.S11[i]))
 		gl := physical.Reflection(sw.ZLoad[i], d.Z0)
@@ -307,7 +307,7 @@ func NewReport(r *synth.Result, version string) Report {
 	rep.Sensitivity = []ReportSensitivity{}
 	for _, x := range r.Sensitivity {
 		rep.Sensitivity = append(rep.Sensitivity, ReportSensitivity{ID: x.ID, Quantity: x.Quantity.String(), Step: SensitivityStep(x.Quantity),
-			BestMatchShiftMHz: x.BestMatchShift / 1e6, S11DBF0AfterStep: synth.S11DB(x.S11F0)})
+			BestMatchShiftMHz: x.BestMatchShift / 1e6, S11DBF0AfterStep: physical.MagDB(x.S11F0)})
 	}
 	if b := r.Band; b != nil {
 		rep.Band = &ReportBand{StartHz: b.Start, StopHz: b.Stop, WorstS11DB: b.WorstS11DB, LoadFit: b.Fit.String(),
@@ -369,32 +369,24 @@ func stubPositions(els []synth.Element) []float64 {
 }
 
 // WriteReport writes rep as indented JSON. Values that JSON cannot hold
-// (an infinite VSWR) are written as null by replacing them with NaN-free
-// sentinels first.
+// (an infinite VSWR) are Numbers, written as null.
 func WriteReport(w io.Writer, rep Report) error {
-	clean(&rep)
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(rep)
 }
 
-// clean replaces infinities with the largest float so the JSON encoder
-// accepts the report; a perfect match gives an infinite return loss.
-func clean(rep *Report) {
-	fix := func(v *float64) {
-		if math.IsInf(*v, 1) {
-			*v = math.MaxFloat64
-		} else if math.IsInf(*v, -1) {
-			*v = -math.MaxFloat64
-		} else if math.IsNaN(*v) {
-			*v = 0
-		}
+// Number is a report value that may be infinite or not a number; JSON
+// has no such values, so it is written as null.
+type Number float64
+
+// MarshalJSON writes n as encoding/json writes a float64, or null when n
+// is not finite.
+func (n Number) MarshalJSON() ([]byte, error) {
+	if math.IsInf(float64(n), 0) || math.IsNaN(float64(n)) {
+		return []byte("null"), nil
 	}
-	fix(&rep.VSWRF0)
-	fix(&rep.ReturnLossDBF0)
-	fix(&rep.NetworkLossDBF0)
-	fix(&rep.Load.VSWR)
-	fix(&rep.Load.ReturnLossDB)
+	return json.Marshal(float64(n))
 }
 
 func nonNil(s []string) []string {

@@ -132,13 +132,17 @@ func Reflection(z complex128, z0 float64) complex128 {
 	return (z - r) / (z + r)
 }
 
-// MagDB returns 20·log10|c|.
+// MagDB returns 20·log10|c| in dB, the one |Γ| and |S| in dB of the
+// project, floored at MinDB so that a perfect match stays finite.
 func MagDB(c complex128) float64 {
-	return 20 * math.Log10(cmplx.Abs(c))
+	return 20 * math.Log10(max(cmplx.Abs(c), 1e-15))
 }
 
+// MinDB is the floor of MagDB: |c| below 1e-15 (a perfect model match).
+const MinDB = -300
+
 // ReturnLossDB returns the return loss −20·log10|Γ| in dB, positive for a
-// passive load.
+// passive load, at most −MinDB.
 func ReturnLossDB(gamma complex128) float64 {
 	return -MagDB(gamma)
 }

@@ -214,7 +214,7 @@ func TestReflectionHelpers(t *testing.T) {
 		{"25 ohm", 25, complex(-1.0/3, 0), 20 * math.Log10(3), 2},
 		// Γ = j50/(100+j50) = (0.2+0.4j) (exact), |Γ| = 1/√5.
 		{"50+j50", complex(50, 50), complex(0.2, 0.4), 10 * math.Log10(5), (1 + 1/math.Sqrt(5)) / (1 - 1/math.Sqrt(5))},
-		{"matched", 50, 0, math.Inf(1), 1},
+		{"matched", 50, 0, -MinDB, 1}, // floored: |Γ| = 0 exactly
 		{"open", cmplx.Inf(), 1, 0, math.Inf(1)},
 		{"short", 0, -1, 0, math.Inf(1)},
 	}

@@ -374,7 +374,7 @@ func (r *Result) bandResult(load Load, topology string) error {
 	b.WorstS11DB = math.Inf(-1)
 	for i, f := range r.Sweep.Freqs {
 		if f >= b.Start && f <= b.Stop {
-			b.WorstS11DB = math.Max(b.WorstS11DB, S11DB(r.Sweep.S11[i]))
+			b.WorstS11DB = math.Max(b.WorstS11DB, physical.MagDB(r.Sweep.S11[i]))
 		}
 	}
 	fit, err := FitLoad(load, b.Start, b.Stop, bandSamples)

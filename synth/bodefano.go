@@ -5,6 +5,7 @@ import (
 	"math"
 	"math/cmplx"
 	"strconv"
+	"stubcraft/physical/units"
 )
 
 // Circuit is a two-element load model: a resistance with a capacitance or
@@ -160,7 +161,7 @@ func FitLoad(load Load, f1, f2 float64, n int) (LoadFit, error) {
 			return LoadFit{}, err
 		}
 		if cmplx.IsNaN(z) || cmplx.IsInf(z) || real(z) <= 0 {
-			return LoadFit{}, fmt.Errorf("fitting the load: %s ohm at %.6g GHz is not a passive finite load with resistance", matchZText(z), fs[i]/1e9)
+			return LoadFit{}, fmt.Errorf("fitting the load: %s ohm at %.6g GHz is not a passive finite load with resistance", units.FormatImpedance(z), fs[i]/1e9)
 		}
 		zs[i] = z
 		if math.Abs(imag(z)) > 1e-6*cmplx.Abs(z) {

@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 	"math"
-	"math/cmplx"
 	"sort"
 	"stubcraft/physical/units"
 
@@ -225,7 +224,7 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 				}
 				continue
 			}
-			c.WorstS11DB = S11DB(cr.S11F0)
+			c.WorstS11DB = physical.MagDB(cr.S11F0)
 			if cr.Band != nil {
 				c.WorstS11DB = cr.Band.WorstS11DB
 			}
@@ -625,13 +624,4 @@ func (r *Result) sweep(sim *physical.Sim, load Load) error {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("|S11| at %s is above −10 dB: the layout does not match", units.FormatFrequency(f0, 6)))
 	}
 	return nil
-}
-
-// S11DB returns 20·log10|Γ|, floored at −300 dB for a perfect match.
-func S11DB(g complex128) float64 {
-	m := cmplx.Abs(g)
-	if m < 1e-15 {
-		return -300
-	}
-	return 20 * math.Log10(m)
 }

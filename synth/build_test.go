@@ -89,15 +89,15 @@ func TestCorrectionsConsistentWithSimulation(t *testing.T) {
 				t.Fatal(err)
 			}
 			g := sim.InputReflection(d.Freq, zl, d.Z0)
-			t.Logf("%s: corrected lossless layout |S11| = %.1f dB", end, S11DB(g))
-			if db := S11DB(g); db > -100 {
+			t.Logf("%s: corrected lossless layout |S11| = %.1f dB", end, physical.MagDB(g))
+			if db := physical.MagDB(g); db > -100 {
 				t.Errorf("corrected lossless layout |S11| = %.1f dB at f0, want below -100 dB", db)
 			}
 			unc, err := physical.NewSim(ph.Uncorrected(), physical.MicrostripMaker)
 			if err != nil {
 				t.Fatal(err)
 			}
-			if db := S11DB(unc.InputReflection(d.Freq, zl, d.Z0)); db < -40 {
+			if db := physical.MagDB(unc.InputReflection(d.Freq, zl, d.Z0)); db < -40 {
 				t.Errorf("uncorrected layout |S11| = %.1f dB: the corrections should matter", db)
 			}
 		})
@@ -140,10 +140,10 @@ func TestBuildMatchesAtF0(t *testing.T) {
 	for _, end := range []string{"open", "short"} {
 		for _, st := range []string{"fr4-1.6mm", "hydrocarbon-ceramic-0.51mm", "alumina-0.635mm"} {
 			r := build(t, strings.Replace(fr4Open, "%s", end, 1), st, true)
-			if db := S11DB(r.Recentre.Before); db > -25 {
+			if db := physical.MagDB(r.Recentre.Before); db > -25 {
 				t.Errorf("%s/%s: corrected |S11| %.1f dB before re-centring, want ≤ −25", end, st, db)
 			}
-			if db := S11DB(r.S11F0); db > -40 {
+			if db := physical.MagDB(r.S11F0); db > -40 {
 				t.Errorf("%s/%s: re-centred |S11| %.1f dB", end, st, db)
 			}
 			// The re-centring is a touch-up, not the match itself.
@@ -152,8 +152,8 @@ func TestBuildMatchesAtF0(t *testing.T) {
 					t.Errorf("%s/%s: re-centring moved %s by %.3f mm", end, st, r.Recentre.IDs[k], dl*1e3)
 				}
 			}
-			if S11DB(r.Uncorr) < S11DB(r.Recentre.Before)+3 {
-				t.Errorf("%s/%s: uncorrected %.1f dB is not measurably worse than corrected %.1f dB", end, st, S11DB(r.Uncorr), S11DB(r.Recentre.Before))
+			if physical.MagDB(r.Uncorr) < physical.MagDB(r.Recentre.Before)+3 {
+				t.Errorf("%s/%s: uncorrected %.1f dB is not measurably worse than corrected %.1f dB", end, st, physical.MagDB(r.Uncorr), physical.MagDB(r.Recentre.Before))
 			}
 			if !r.BW10.OK || !(r.BW10.Lo < r.Design.Freq && r.Design.Freq < r.BW10.Hi) {
 				t.Errorf("%s/%s: −10 dB band %+v does not hold f0", end, st, r.BW10)
@@ -240,8 +240,8 @@ func TestToleranceReproducible(t *testing.T) {
 	// The nominal board is the best one can hope for only in expectation:
 	// the spread must actually move |S11| (a tolerance run that changes
 	// nothing is broken).
-	if tol.P90 <= S11DB(a.S11F0)+1 {
-		t.Errorf("p90 %.1f dB hardly differs from nominal %.1f dB", tol.P90, S11DB(a.S11F0))
+	if tol.P90 <= physical.MagDB(a.S11F0)+1 {
+		t.Errorf("p90 %.1f dB hardly differs from nominal %.1f dB", tol.P90, physical.MagDB(a.S11F0))
 	}
 }
 
@@ -314,11 +314,11 @@ func TestDoubleStubSections(t *testing.T) {
 	if g := cmplx.Abs(physical.Reflection(SectionsInput(r.Sections, d.Load.Impedance), d.Z0)); g > 1e-4 {
 		t.Fatalf("the electrical network presents |Γ| = %.2g", g)
 	}
-	if db := S11DB(r.Recentre.Before); db > -50 {
+	if db := physical.MagDB(r.Recentre.Before); db > -50 {
 		t.Errorf("lossless: corrected |S11| %.1f dB before re-centring, want below −50 dB", db)
 	}
-	if S11DB(r.Uncorr) < S11DB(r.Recentre.Before)+10 {
-		t.Errorf("lossless: uncorrected %.1f dB vs corrected %.1f dB", S11DB(r.Uncorr), S11DB(r.Recentre.Before))
+	if physical.MagDB(r.Uncorr) < physical.MagDB(r.Recentre.Before)+10 {
+		t.Errorf("lossless: uncorrected %.1f dB vs corrected %.1f dB", physical.MagDB(r.Uncorr), physical.MagDB(r.Recentre.Before))
 	}
 	var line2 Element
 	stubs := 0
@@ -343,7 +343,7 @@ func TestDoubleStubSections(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if db := S11DB(lossy.S11F0); db > -40 {
+	if db := physical.MagDB(lossy.S11F0); db > -40 {
 		t.Errorf("FR-4: re-centred |S11| %.1f dB", db)
 	}
 }

@@ -81,7 +81,7 @@ func (d Design) Validate() error {
 	if strings.TrimSpace(d.Stackup) == "" {
 		c.fail("stackup", "", "%w; name a preset or a stackup file", ErrMissingKey)
 	}
-	zText := strconv.Quote(matchZText(d.Load.Impedance))
+	zText := strconv.Quote(units.FormatImpedance(d.Load.Impedance))
 	if d.Load.Touchstone == "" {
 		z := d.Load.Impedance
 		switch {
@@ -319,7 +319,7 @@ type ElectricalOptions struct {
 func (d Design) loadNote(zl complex128) string {
 	g, _, rl := LoadReport(zl, d.Z0)
 	return fmt.Sprintf("load %s ohm at %s on %g ohm: |Γ| = %.4f, return loss %.2f dB",
-		matchZText(zl), units.FormatFrequency(d.Freq, 6), d.Z0, g, rl)
+		units.FormatImpedance(zl), units.FormatFrequency(d.Freq, 6), d.Z0, g, rl)
 }
 
 // ElectricalWith is Electrical with the layout's options.
@@ -334,7 +334,7 @@ func (d Design) ElectricalWith(zLoadAtF0 complex128, opt ElectricalOptions) ([]S
 		return secs, append(notes, more...), err
 	}
 	if cmplx.IsNaN(zLoadAtF0) || cmplx.IsInf(zLoadAtF0) || real(zLoadAtF0) < 0 {
-		return nil, nil, fmt.Errorf("%s: load %s ohm: %w", d.Source, matchZText(zLoadAtF0), ErrBadLoad)
+		return nil, nil, fmt.Errorf("%s: load %s ohm: %w", d.Source, units.FormatImpedance(zLoadAtF0), ErrBadLoad)
 	}
 	secs := append([]Section(nil), d.Sections...)
 	for i, s := range secs {
@@ -348,7 +348,7 @@ func (d Design) ElectricalWith(zLoadAtF0 complex128, opt ElectricalOptions) ([]S
 		gin, rlin = 1, 0
 	}
 	notes = append(notes, fmt.Sprintf("the given sections present %s ohm at the input: |Γ| = %.4f, return loss %.2f dB",
-		matchZText(zin), gin, rlin))
+		units.FormatImpedance(zin), gin, rlin))
 	return secs, notes, nil
 }
 

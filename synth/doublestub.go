@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/cmplx"
 	"sort"
+	"stubcraft/physical/units"
 )
 
 // DefaultStubSpacingDeg is the spacing of the two stubs of a double-stub
@@ -58,7 +59,7 @@ type ForbiddenRegionError struct {
 
 func (e *ForbiddenRegionError) Error() string {
 	return fmt.Sprintf("load %s ohm: %v: at the first stub (%.2f° from the load) its conductance is %.4g·Y0, above 1/sin²(%.1f°) = %.4g·Y0; fix: put %.2f° of line before the first stub",
-		matchZText(e.Load), ErrForbiddenRegion, e.LineDeg, e.G, e.SpacingDeg, e.GMax, e.FixLineDeg)
+		units.FormatImpedance(e.Load), ErrForbiddenRegion, e.LineDeg, e.G, e.SpacingDeg, e.GMax, e.FixLineDeg)
 }
 
 // Unwrap returns ErrForbiddenRegion.
@@ -93,12 +94,12 @@ func SolveDoubleStub(zLoad complex128, z0, lineDeg, spacingDeg float64, end Stub
 		return nil, fmt.Errorf("the stub end must be open or short, not %v", end)
 	}
 	if cmplx.IsNaN(zLoad) || cmplx.IsInf(zLoad) || real(zLoad) < 0 {
-		return nil, fmt.Errorf("load %s ohm: %w", matchZText(zLoad), ErrBadLoad)
+		return nil, fmt.Errorf("load %s ohm: %w", units.FormatImpedance(zLoad), ErrBadLoad)
 	}
 	if gm, _, _ := LoadReport(zLoad, z0); real(zLoad) == 0 || gm > 1-1e-12 {
-		return nil, fmt.Errorf("load %s ohm: %w: it is purely reactive (|Γ| = 1)", matchZText(zLoad), ErrUnmatchable)
+		return nil, fmt.Errorf("load %s ohm: %w: it is purely reactive (|Γ| = 1)", units.FormatImpedance(zLoad), ErrUnmatchable)
 	} else if gm < MatchedGamma {
-		return nil, fmt.Errorf("load %s ohm on %g ohm: %w (|Γ| = %.2g), no stub is needed", matchZText(zLoad), z0, ErrMatched, gm)
+		return nil, fmt.Errorf("load %s ohm on %g ohm: %w (|Γ| = %.2g), no stub is needed", units.FormatImpedance(zLoad), z0, ErrMatched, gm)
 	}
 	sd := math.Sin(spacingDeg * math.Pi / 180)
 	if math.Abs(sd) < 1e-6 || lineDeg < 0 {

@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"stubcraft/physical/units"
 )
 
 // StubEnd is how the far end of a shunt stub is terminated. The zero value
@@ -143,14 +144,14 @@ func SolveShuntStubZ(zLoad complex128, z0, lineZ0, stubZ0 float64, end StubEnd) 
 		return nil, fmt.Errorf("the stub end must be open or short, not %v", end)
 	}
 	if cmplx.IsNaN(zLoad) || cmplx.IsInf(zLoad) {
-		return nil, fmt.Errorf("load %s ohm: %w: not a finite value", matchZText(zLoad), ErrBadLoad)
+		return nil, fmt.Errorf("load %s ohm: %w: not a finite value", units.FormatImpedance(zLoad), ErrBadLoad)
 	}
 	if real(zLoad) < 0 {
-		return nil, fmt.Errorf("load %s ohm: %w: negative resistance (an active load)", matchZText(zLoad), ErrBadLoad)
+		return nil, fmt.Errorf("load %s ohm: %w: negative resistance (an active load)", units.FormatImpedance(zLoad), ErrBadLoad)
 	}
 	gamma, _, _ := LoadReport(zLoad, z0)
 	if real(zLoad) == 0 || gamma > 1-1e-12 {
-		return nil, fmt.Errorf("load %s ohm: %w: it is purely reactive (|Γ| = 1)", matchZText(zLoad), ErrUnmatchable)
+		return nil, fmt.Errorf("load %s ohm: %w: it is purely reactive (|Γ| = 1)", units.FormatImpedance(zLoad), ErrUnmatchable)
 	}
 	if gamma < MatchedGamma {
 		return nil, &MatchedError{Load: zLoad, Z0: z0, Gamma: gamma}
@@ -168,7 +169,7 @@ func SolveShuntStubZ(zLoad complex128, z0, lineZ0, stubZ0 float64, end StubEnd) 
 	scale := 4 * r * (g0*(r*r+x*x+1) + r*(1+g0*g0))
 	if disc < 0 {
 		if disc < -1e-12*scale {
-			return nil, fmt.Errorf("load %s ohm: %w: no point on a %g ohm line has a conductance of 1/%g S", matchZText(zLoad), ErrUnmatchable, lineZ0, z0)
+			return nil, fmt.Errorf("load %s ohm: %w: no point on a %g ohm line has a conductance of 1/%g S", units.FormatImpedance(zLoad), ErrUnmatchable, lineZ0, z0)
 		}
 		disc = 0
 	}
@@ -185,7 +186,7 @@ func SolveShuntStubZ(zLoad complex128, z0, lineZ0, stubZ0 float64, end StubEnd) 
 		// b = 0 and disc = 0: the double root t = 0 when c = 0, otherwise
 		// a·t² = −c.
 		if a == 0 {
-			return nil, fmt.Errorf("load %s ohm: %w: degenerate line condition", matchZText(zLoad), ErrUnmatchable)
+			return nil, fmt.Errorf("load %s ohm: %w: degenerate line condition", units.FormatImpedance(zLoad), ErrUnmatchable)
 		}
 		s := math.Sqrt(math.Max(0, -c/a))
 		angles = [][2]float64{{s, 1}, {-s, 1}}
@@ -235,18 +236,6 @@ func matchStubDeg(bStub, zs float64, end StubEnd) float64 {
 	}
 	// Y = j·tan(βl)/zs = j·bStub.
 	return matchNorm180(math.Atan(bStub*zs) * 180 / math.Pi)
-}
-
-// matchZText writes an impedance for an error message.
-func matchZText(z complex128) string {
-	if cmplx.IsNaN(z) || cmplx.IsInf(z) {
-		return fmt.Sprint(z)
-	}
-	sign, x := "+", imag(z)
-	if x < 0 {
-		sign, x = "-", -x
-	}
-	return strconv.FormatFloat(real(z), 'g', 6, 64) + sign + "j" + strconv.FormatFloat(x, 'g', 6, 64)
 }
 
 // matchNorm180 maps an angle in degrees into (0, 180].

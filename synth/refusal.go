@@ -23,7 +23,7 @@ type MatchedError struct {
 }
 
 func (e *MatchedError) Error() string {
-	return fmt.Sprintf("load %s ohm on %g ohm: %v (|Γ| = %.2g), no stub is needed", matchZText(e.Load), e.Z0, ErrMatched, e.Gamma)
+	return fmt.Sprintf("load %s ohm on %g ohm: %v (|Γ| = %.2g), no stub is needed", units.FormatImpedance(e.Load), e.Z0, ErrMatched, e.Gamma)
 }
 
 // Is reports whether target is ErrMatched.
@@ -108,7 +108,7 @@ func fabMinimum(ph Physical, minWidth float64) *FabMinimumError {
 // mismatch returns the refusal of r when its |S11| at f0 is above
 // MismatchLimitDB, else nil.
 func (r *Result) mismatch() *MismatchError {
-	db := S11DB(r.S11F0)
+	db := physical.MagDB(r.S11F0)
 	if db <= MismatchLimitDB {
 		return nil
 	}

@@ -89,7 +89,7 @@ func sample(b physical.Board, sub physical.Substrate, mk physical.LineMaker, zl 
 	if err != nil {
 		return 0, err
 	}
-	return S11DB(sim.InputReflection(f0, zl, z0)), nil
+	return physical.MagDB(sim.InputReflection(f0, zl, z0)), nil
 }
 
 // perturbBoard returns board i of a tolerance analysis: b on sub with εr,

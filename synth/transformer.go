@@ -7,6 +7,7 @@ import (
 	"math/cmplx"
 	"strconv"
 	"strings"
+	"stubcraft/physical/units"
 )
 
 // Response is the passband shape of a multi-section quarter-wave
@@ -239,7 +240,7 @@ type RealPoint struct {
 // load's reflection angle, or that angle less π (exact, lossless line).
 func RealPoints(zLoad complex128, zc float64) ([2]RealPoint, error) {
 	if cmplx.IsNaN(zLoad) || cmplx.IsInf(zLoad) || real(zLoad) <= 0 {
-		return [2]RealPoint{}, fmt.Errorf("load %s ohm: %w: a real point needs a finite load with positive resistance", matchZText(zLoad), ErrBadLoad)
+		return [2]RealPoint{}, fmt.Errorf("load %s ohm: %w: a real point needs a finite load with positive resistance", units.FormatImpedance(zLoad), ErrBadLoad)
 	}
 	g := (zLoad - complex(zc, 0)) / (zLoad + complex(zc, 0))
 	m := cmplx.Abs(g)
@@ -266,7 +267,7 @@ func RealPoints(zLoad complex128, zc float64) ([2]RealPoint, error) {
 // two real points; a load within 1e-9 of real (relative) is taken as real.
 func QuarterWaveMatch(zLoad complex128, z0 float64, n int, resp Response, fracBW float64) ([]Section, []string, error) {
 	if cmplx.IsNaN(zLoad) || cmplx.IsInf(zLoad) || real(zLoad) <= 0 {
-		return nil, nil, fmt.Errorf("load %s ohm: %w", matchZText(zLoad), ErrBadLoad)
+		return nil, nil, fmt.Errorf("load %s ohm: %w", units.FormatImpedance(zLoad), ErrBadLoad)
 	}
 	var secs []Section
 	var notes []string

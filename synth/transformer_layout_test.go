@@ -46,11 +46,11 @@ func TestTransformerStepsCompensated(t *testing.T) {
 	}
 	g := cmplx.Abs(sim.InputReflection(f0, zl, z0))
 	gu := cmplx.Abs(unc.InputReflection(f0, zl, z0))
-	if S11DB(complex(g, 0)) > -25 {
-		t.Errorf("compensated transformer: |S11(f0)| = %.1f dB, want below −25 dB", S11DB(complex(g, 0)))
+	if physical.MagDB(complex(g, 0)) > -25 {
+		t.Errorf("compensated transformer: |S11(f0)| = %.1f dB, want below −25 dB", physical.MagDB(complex(g, 0)))
 	}
 	if !(g < gu) {
 		t.Errorf("compensated |S11| %.4g is not below the uncompensated %.4g", g, gu)
 	}
-	t.Logf("|S11(f0)|: compensated %.1f dB, uncompensated %.1f dB", S11DB(complex(g, 0)), S11DB(complex(gu, 0)))
+	t.Logf("|S11(f0)|: compensated %.1f dB, uncompensated %.1f dB", physical.MagDB(complex(g, 0)), physical.MagDB(complex(gu, 0)))
 }

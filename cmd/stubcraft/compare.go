@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"strings"
+	"stubcraft/physical"
 	"text/tabwriter"
 
 	"github.com/spf13/cobra"
@@ -136,7 +137,7 @@ func compareOne(ctx context.Context, in synth.BuildInput, minWidth float64) comp
 	}
 	row.MeetsFab = res.CheckFabMinimum(minWidth) == nil
 	row.InsertionDB = res.LossF0DB
-	row.S11DBF0 = synth.S11DB(res.S11F0)
+	row.S11DBF0 = physical.MagDB(res.S11F0)
 	if res.Tolerance != nil {
 		p := res.Tolerance.P90
 		row.P90S11DB = &p

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"io"
 	"math"
-	"strconv"
 	"strings"
 	"text/tabwriter"
 
@@ -130,7 +129,7 @@ func runSolve(w io.Writer, o solveOptions) error {
 		return printJSON(w, solveJSON(zl, z0, g, vswr, rl, sols))
 	}
 	fmt.Fprintf(w, "load %s Ω on %g Ω: |Γ| = %.4f, VSWR = %.3f, return loss = %s\n",
-		solveZText(zl), z0, g, vswr, solveDB(rl))
+		units.FormatImpedance(zl), z0, g, vswr, solveDB(rl))
 	if matched {
 		fmt.Fprintln(w, "the load is already matched: no stub is needed")
 		return nil
@@ -155,15 +154,6 @@ func runSolve(w io.Writer, o solveOptions) error {
 	}
 	fmt.Fprintln(w, "\nlengths are electrical, at the frequency the load was measured at")
 	return nil
-}
-
-// solveZText writes an impedance as "22-j31", with up to six digits.
-func solveZText(z complex128) string {
-	sign, x := "+", imag(z)
-	if x < 0 {
-		sign, x = "-", -x
-	}
-	return strconv.FormatFloat(real(z), 'g', 6, 64) + sign + "j" + strconv.FormatFloat(x, 'g', 6, 64)
 }
 
 func solveDB(db float64) string {

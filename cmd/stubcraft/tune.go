@@ -149,7 +149,7 @@ func newTuneReport(res *synth.Result, tr *synth.TuneResult, design, measured str
 		FittedEtchUM: fit.State.Etch * 1e6, FittedEtchUMSigma: fit.Sigma.Etch * 1e6,
 		ResidualDB:           fit.ResidualDB,
 		PredictedBestMatchHz: tr.Trims.BestMatch,
-		PredictedS11DBF0:     synth.S11DB(tr.Trims.S11F0),
+		PredictedS11DBF0:     physical.MagDB(tr.Trims.S11F0),
 		Notes:                append([]string{}, tr.Trims.Notes...),
 		Trims:                []tuneTrim{},
 	}

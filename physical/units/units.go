@@ -368,14 +368,17 @@ func ParseImpedance(s string) (complex128, error) {
 	return z, nil
 }
 
-// FormatImpedance writes z as "18-j22" with the given number of decimals,
-// the form ParseImpedance reads.
-func FormatImpedance(z complex128, decimals int) string {
-	sign := "+"
-	im := imag(z)
-	if im < 0 || (im == 0 && math.Signbit(im)) {
-		sign = "-"
-		im = -im
+// FormatImpedance writes z as "18-j22", each part with up to six
+// significant digits: the form ParseImpedance reads, and the one every
+// message and table of the project uses. A value that is not finite is
+// written as Go prints it.
+func FormatImpedance(z complex128) string {
+	if cmplx.IsNaN(z) || cmplx.IsInf(z) {
+		return fmt.Sprint(z)
 	}
-	return strconv.FormatFloat(real(z), 'f', decimals, 64) + sign + "j" + strconv.FormatFloat(im, 'f', decimals, 64)
+	sign, x := "+", imag(z)
+	if x < 0 || (x == 0 && math.Signbit(x)) {
+		sign, x = "-", -x
+	}
+	return strconv.FormatFloat(real(z), 'g', 6, 64) + sign + "j" + strconv.FormatFloat(x, 'g', 6, 64)
 }

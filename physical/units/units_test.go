@@ -3,7 +3,6 @@ package units
 import (
 	"errors"
 	"math"
-	"math/cmplx"
 	"strconv"
 	"strings"
 	"testing"
@@ -283,19 +282,19 @@ func TestParseImpedanceBad(t *testing.T) {
 
 func TestFormatImpedance(t *testing.T) {
 	tests := []struct {
-		z        complex128
-		decimals int
-		want     string // the "18-j22" form of the doc comment
+		z    complex128
+		want string // the "18-j22" form of the doc comment, six significant digits
 	}{
-		{complex(18, -22), 1, "18.0-j22.0"},
-		{complex(18, 22), 0, "18+j22"},
-		{complex(50, 0), 2, "50.00+j0.00"},
-		{complex(50, math.Copysign(0, -1)), 0, "50-j0"},
-		{complex(-3.25, 1.5), 2, "-3.25+j1.50"},
+		{complex(18, -22), "18-j22"},
+		{complex(50, 0), "50+j0"},
+		{complex(50, math.Copysign(0, -1)), "50-j0"},
+		{complex(-3.25, 1.5), "-3.25+j1.5"},
+		{complex(123.456789, -987.654321), "123.457-j987.654"},
+		{complex(1e6, -1e-6), "1e+06-j1e-06"},
 	}
 	for _, tt := range tests {
-		if got := FormatImpedance(tt.z, tt.decimals); got != tt.want {
-			t.Errorf("FormatImpedance(%v, %d) = %q, want %q", tt.z, tt.decimals, got, tt.want)
+		if got := FormatImpedance(tt.z); got != tt.want {
+			t.Errorf("FormatImpedance(%v) = %q, want %q", tt.z, got, tt.want)
 		}
 	}
 }
@@ -306,19 +305,16 @@ func TestFormatImpedanceRoundTrip(t *testing.T) {
 		complex(-7.125, 0.5), complex(123.456789, -987.654321), complex(1e6, -1e-6),
 	}
 	for _, z := range zs {
-		for _, dec := range []int{0, 3, 6} {
-			s := FormatImpedance(z, dec)
-			got, err := ParseImpedance(s)
-			if err != nil {
-				t.Errorf("ParseImpedance(FormatImpedance(%v, %d) = %q): %v", z, dec, s, err)
-				continue
-			}
-			// Rounding to dec decimals moves each part by at most half a unit
-			// in the last written place (exact bound of decimal rounding).
-			tol := 0.5*math.Pow(10, -float64(dec)) + 1e-9*cmplx.Abs(z)
-			if math.Abs(real(got)-real(z)) > tol || math.Abs(imag(got)-imag(z)) > tol {
-				t.Errorf("round trip of %v with %d decimals: %q read back as %v", z, dec, s, got)
-			}
+		s := FormatImpedance(z)
+		got, err := ParseImpedance(s)
+		if err != nil {
+			t.Errorf("ParseImpedance(FormatImpedance(%v) = %q): %v", z, s, err)
+			continue
+		}
+		// Six significant digits move each part by at most half a unit in
+		// the sixth digit (exact bound of decimal rounding).
+		if math.Abs(real(got)-real(z)) > 5e-6*math.Abs(real(z)) || math.Abs(imag(got)-imag(z)) > 5e-6*math.Abs(imag(z)) {
+			t.Errorf("round trip of %v: %q read back as %v", z, s, got)
 		}
 	}
 }

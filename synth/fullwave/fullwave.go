@@ -16,6 +16,7 @@ import (
 	"math"
 	"math/cmplx"
 	"sort"
+	"stubcraft/physical"
 
 	"stubcraft/physical/fdtd"
 	"stubcraft/synth"
@@ -169,8 +170,8 @@ func Verify(ctx context.Context, res *synth.Result, o fdtd.Options) (*Report, er
 		ik = 1
 	}
 	t := (f0 - freqs[ik-1]) / (freqs[ik] - freqs[ik-1])
-	rep.S11DBF0 = db(rep.Matched[ik-1] + complex(t, 0)*(rep.Matched[ik]-rep.Matched[ik-1]))
-	rep.CircuitS11DBF0 = db(res.S11F0)
+	rep.S11DBF0 = physical.MagDB(rep.Matched[ik-1] + complex(t, 0)*(rep.Matched[ik]-rep.Matched[ik-1]))
+	rep.CircuitS11DBF0 = physical.MagDB(res.S11F0)
 	rep.BestMatchHz = bestMatch(freqs, rep.Matched)
 	rep.CircuitBestMatchHz = bestMatch(freqs, rep.CircuitMatched)
 	return rep, nil
@@ -181,8 +182,6 @@ func Verify(ctx context.Context, res *synth.Result, o fdtd.Options) (*Report, er
 func terminate(s [2][2]complex128, gl complex128) complex128 {
 	return s[0][0] + s[0][1]*s[1][0]*gl/(1-s[1][1]*gl)
 }
-
-func db(g complex128) float64 { return 20 * math.Log10(math.Max(cmplx.Abs(g), 1e-15)) }
 
 // bestMatch returns the frequency of the smallest |S11|, refined by a
 // parabola through its neighbours.

@@ -7,6 +7,7 @@ import (
 	"math"
 	"math/cmplx"
 	"sort"
+	"stubcraft/physical"
 
 	"gonum.org/v1/gonum/mat"
 )
@@ -212,7 +213,7 @@ func (m Model) Fit(ctx context.Context, meas Measurement, opt FitOptions) (FitRe
 		if err != nil {
 			return FitResult{}, err
 		}
-		d := DB(g) - DB(meas.S11[i])
+		d := physical.MagDB(g) - physical.MagDB(meas.S11[i])
 		ss += d * d
 	}
 	res.ResidualDB = math.Sqrt(ss / float64(n))

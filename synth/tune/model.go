@@ -140,9 +140,3 @@ func (r Response) mag2(freq float64) float64 {
 	}
 	return real(g)*real(g) + imag(g)*imag(g)
 }
-
-// DB returns 20·log10|g|, floored at −300 dB so that a perfect model
-// match stays finite.
-func DB(g complex128) float64 {
-	return 20 * math.Log10(max(cmplx.Abs(g), 1e-15))
-}
