@@ -105,42 +105,33 @@ func gradedLines(fixed []float64, minCell, dmax, ratio float64) []float64 {
 }
 
 // fillGap returns the lines strictly inside (a, b) so that cells grow by
-// at most ratio from sa at a and sb at b up to dmax.
+// at most ratio from sa at a and sb at b up to dmax. For n = 1, 2, … it
+// takes the largest sizes the ratio allows at each position counted from
+// both ends, c_i = min(sa·r^(i+1), sb·r^(n−i), dmax), until they cover the
+// gap, then shrinks them all by one factor to fit: a uniform shrink keeps
+// every ratio inside the gap, and the first n that covers it shrinks
+// little, so the steps to the cells outside stay near the ratio too.
 func fillGap(a, b, sa, sb, dmax, ratio float64) []float64 {
-	var left, right []float64
-	x, y, s1, s2 := a, b, sa, sb
-	for {
-		g := y - x
-		m1, m2 := math.Min(s1*ratio, dmax), math.Min(s2*ratio, dmax)
-		hi := math.Min(m1, m2)
-		lo := math.Max(s1, s2) / ratio
-		kmin := math.Ceil(g/hi - 1e-9)
-		if lo > 0 && kmin <= math.Floor(g/lo+1e-9) || g <= hi*1.5 {
-			k := int(math.Max(kmin, 1))
-			if g <= hi*1.5 && !(lo > 0 && kmin <= math.Floor(g/lo+1e-9)) {
-				k = int(math.Max(math.Round(g/(0.5*(lo+hi))), 1))
-			}
-			u := g / float64(k)
-			for i := 1; i < k; i++ {
-				left = append(left, x+float64(i)*u)
-			}
-			break
+	g := b - a
+	for n := 1; ; n++ {
+		sizes := make([]float64, n)
+		total := 0.0
+		for i := range sizes {
+			c := math.Min(sa*math.Pow(ratio, float64(i+1)), sb*math.Pow(ratio, float64(n-i)))
+			sizes[i] = math.Min(c, dmax)
+			total += sizes[i]
 		}
-		if s1 <= s2 {
-			x += m1
-			s1 = m1
-			left = append(left, x)
-		} else {
-			y -= m2
-			s2 = m2
-			right = append(right, y)
+		if total >= g*(1-1e-12) {
+			k := g / total
+			out := make([]float64, 0, n-1)
+			x := a
+			for i := 0; i < n-1; i++ {
+				x += sizes[i] * k
+				out = append(out, x)
+			}
+			return out
 		}
 	}
-	sort.Float64s(left)
-	for i := len(right) - 1; i >= 0; i-- {
-		left = append(left, right[i])
-	}
-	return left
 }
 
 // withPML returns lines with n cells added beyond each end, each the size of
