@@ -89,6 +89,9 @@ type Result struct {
 	// Sensitivity says how the best match and S11 at f0 move per step of
 	// each element's length and width and of the board's εr and etch.
 	Sensitivity []tune.Sensitivity
+	// Structures are the calibration and test structures of [panel]
+	// structures, each with its own layout; Build fills them.
+	Structures []Structure
 
 	load       Load               // the load, for the bench model
 	benchLines physical.LineMaker // line models of perturbed boards
@@ -162,6 +165,12 @@ func Build(ctx context.Context, in BuildInput) (*Result, error) {
 	}
 	r.Layout = lay
 	r.Notes = append(r.Notes, r.LayoutNotes(lay)...)
+	if r.Structures, err = r.structures(); err != nil {
+		return nil, d.KeyError("panel.structures", err)
+	}
+	for _, s := range r.Structures {
+		r.Notes = append(r.Notes, fmt.Sprintf("%s: %s", s.Layout.Name, s.Note))
+	}
 	return r, nil
 }
 

@@ -31,6 +31,7 @@ type Design struct {
 	Fab       FabSpec
 	Sweep     SweepSpec
 	Tolerance ToleranceSpec
+	Panel     PanelSpec
 
 	Source string // the file's name for messages, as given to DecodeDesign
 	Dir    string // the directory of the design file; relative paths start there
@@ -189,6 +190,13 @@ type LayoutSpec struct {
 	// longer than its design length, with ticks every TrimTickPitch on the
 	// legend layer and in the drawing, to be cut back at the bench.
 	Trim float64
+}
+
+// PanelSpec holds what is made beside the board on its panel.
+type PanelSpec struct {
+	// Structures are the calibration and test structures, each with its
+	// own outline, in StructureKinds order.
+	Structures []StructureKind
 }
 
 // FabSpec holds the board maker's limits and what the board is ordered

@@ -30,6 +30,7 @@ type designRaw struct {
 	Fab       toml.Primitive `toml:"fab"`
 	Sweep     toml.Primitive `toml:"sweep"`
 	Tolerance toml.Primitive `toml:"tolerance"`
+	Panel     toml.Primitive `toml:"panel"`
 }
 
 // designTables are the tables of designRaw, decoded once their kind has
@@ -42,6 +43,11 @@ type designTables struct {
 	Fab       *designRawFab
 	Sweep     *designRawSweep
 	Tolerance *designRawTolerance
+	Panel     *designRawPanel
+}
+
+type designRawPanel struct {
+	Structures any `toml:"structures"`
 }
 
 type designRawLoad struct {
@@ -147,6 +153,7 @@ func designSchema() tomlx.Schema {
 		"fab":       tomlx.Keys(designRawFab{}),
 		"sweep":     tomlx.Keys(designRawSweep{}),
 		"tolerance": tomlx.Keys(designRawTolerance{}),
+		"panel":     tomlx.Keys(designRawPanel{}),
 	}
 }
 
@@ -166,6 +173,7 @@ func designDecodeTables(f *tomlx.File, raw *designRaw, t *designTables) error {
 		fab       designRawFab
 		sweep     designRawSweep
 		tolerance designRawTolerance
+		panel     designRawPanel
 	)
 	for _, err := range []error{
 		table("load", raw.Load, &load, func() { t.Load = &load }),
@@ -174,6 +182,7 @@ func designDecodeTables(f *tomlx.File, raw *designRaw, t *designTables) error {
 		table("fab", raw.Fab, &fab, func() { t.Fab = &fab }),
 		table("sweep", raw.Sweep, &sweep, func() { t.Sweep = &sweep }),
 		table("tolerance", raw.Tolerance, &tolerance, func() { t.Tolerance = &tolerance }),
+		table("panel", raw.Panel, &panel, func() { t.Panel = &panel }),
 	} {
 		if err != nil {
 			return err
@@ -306,6 +315,9 @@ func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) De
 		designRead(dd, "tolerance.thickness", t.Thickness, designPercent, &d.Tolerance.Thickness, "")
 		designRead(dd, "tolerance.width", t.Width, designLength, &d.Tolerance.Width, "")
 		designRead(dd, "tolerance.copper", t.Copper, designPercent, &d.Tolerance.Copper, "")
+	}
+	if p := tb.Panel; p != nil {
+		designRead(dd, "panel.structures", p.Structures, designStructures, &d.Panel.Structures, "")
 	}
 	return d
 }
@@ -526,6 +538,37 @@ func designBoardSize(v any) ([2]float64, error) {
 			return [2]float64{}, err
 		}
 		out[i] = m
+	}
+	return out, nil
+}
+
+// designStructures reads ["thru", "line", "reflect", "coupon"]: each at
+// most once, kept in the order StructureKinds gives.
+func designStructures(v any) ([]StructureKind, error) {
+	a, ok := v.([]any)
+	if !ok {
+		return nil, errors.New(`want a list, for example ["thru", "line", "reflect", "coupon"]`)
+	}
+	seen := map[StructureKind]bool{}
+	for _, e := range a {
+		s, ok := e.(string)
+		if !ok {
+			return nil, fmt.Errorf("%v is not a structure name; the structures are \"thru\", \"line\", \"reflect\", \"coupon\"", e)
+		}
+		k, err := ParseStructureKind(s)
+		if err != nil {
+			return nil, err
+		}
+		if seen[k] {
+			return nil, fmt.Errorf("%q is listed twice", s)
+		}
+		seen[k] = true
+	}
+	var out []StructureKind
+	for _, k := range StructureKinds() {
+		if seen[k] {
+			out = append(out, k)
+		}
 	}
 	return out, nil
 }
