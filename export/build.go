@@ -58,6 +58,7 @@ func Files(res *synth.Result, opt FileOptions) []Artefact {
 	files = append(files,
 		Artefact{JobFileName(base), func(w io.Writer) error { return WriteGerberJob(w, lay, meta, JobStackFor(res)) }},
 	)
+	files = append(files, StructureFiles(res, opt)...)
 	notes := NewFabNotes(res, rep, lay)
 	files = append(files, Artefact{FabNotesFileName, func(w io.Writer) error { return WriteFabNotes(w, notes) }})
 	// The fab archive: the Gerbers, the drill and job files and the notes.
@@ -135,4 +136,23 @@ func InputTouchstone(res *synth.Result) *physical.Touchstone {
 		t.S = append(t.S, []complex128{res.Sweep.S11[i]})
 	}
 	return t
+}
+
+// StructureFiles lists the files of the build's calibration and test
+// structures: each has its own outline and so its own Gerber layers, drill
+// file when it has holes, and job file, named after it (NAME-cal-KIND).
+func StructureFiles(res *synth.Result, opt FileOptions) []Artefact {
+	var files []Artefact
+	for _, s := range res.Structures {
+		lay := s.Layout
+		meta := Meta{ProjectName: lay.Name, Version: opt.Version, Created: opt.Created}
+		for _, layer := range LayersOf(lay) {
+			files = append(files, Artefact{layer.FileName(lay.Name), func(w io.Writer) error { return WriteGerber(w, lay, layer, meta) }})
+		}
+		if len(lay.Vias) > 0 {
+			files = append(files, Artefact{ExcellonFileName(lay.Name), func(w io.Writer) error { return WriteExcellon(w, lay, meta) }})
+		}
+		files = append(files, Artefact{JobFileName(lay.Name), func(w io.Writer) error { return WriteGerberJob(w, lay, meta, JobStackFor(res)) }})
+	}
+	return files
 }

@@ -41,6 +41,7 @@ type Report struct {
 	Tolerance       *ReportTolerance    `json:"tolerance,omitempty"`
 	Band            *ReportBand         `json:"band,omitempty"`
 	Sensitivity     []ReportSensitivity `json:"sensitivity"`
+	Structures      []ReportStructure   `json:"structures,omitempty"`
 	Notes           []string            `json:"notes"`
 	Warnings        []string            `json:"warnings"`
 	Cautions        []string            `json:"cautions"`
@@ -163,6 +164,22 @@ type ReportSensitivity struct {
 	BestMatchShiftMHz float64 `json:"best_match_shift_mhz_per_step"`
 	// S11DBF0AfterStep is |S11| at f0 after one step, to first order.
 	S11DBF0AfterStep float64 `json:"s11_db_f0_after_step"`
+}
+
+// ReportStructure is one calibration or test structure on the panel.
+type ReportStructure struct {
+	Name     string     `json:"name"` // the prefix of its files
+	Kind     string     `json:"kind"` // thru, line, reflect or coupon
+	WidthMM  float64    `json:"width_mm"`
+	LengthMM float64    `json:"length_mm"` // copper between the port edges (reflect: each half)
+	BoardMM  [2]float64 `json:"board_mm"`  // its outline, width and height
+	// LineExtraMM, LineDegF0 and UsableHz describe a TRL line standard:
+	// its length beyond the thru, its phase at f0 and the band where that
+	// phase stays within 20°–160°.
+	LineExtraMM *float64    `json:"line_extra_mm,omitempty"`
+	LineDegF0   *float64    `json:"line_deg_f0,omitempty"`
+	UsableHz    *[2]float64 `json:"usable_band_hz,omitempty"`
+	Note        string      `json:"note"`
 }
 
 // SensitivityStep says a quantity's step in words, with its unit.
@@ -303,6 +320,16 @@ func NewReport(r *synth.Result, version string) Report {
 		gl := physical.Reflection(sw.ZLoad[i], d.Z0)
 		rep.Sweep.LoadRe = append(rep.Sweep.LoadRe, real(gl))
 		rep.Sweep.LoadIm = append(rep.Sweep.LoadIm, imag(gl))
+	}
+	for _, s := range r.Structures {
+		lo, hi := s.Layout.Board.Bounds()
+		rs := ReportStructure{Name: s.Layout.Name, Kind: s.Kind.String(), WidthMM: s.Width * 1e3, LengthMM: s.Length * 1e3,
+			BoardMM: [2]float64{float64(hi.X-lo.X) * 1e-6, float64(hi.Y-lo.Y) * 1e-6}, Note: s.Note}
+		if t := s.TRL; t != nil {
+			extra, deg, band := t.Extra*1e3, t.DegF0, [2]float64{t.Lo, t.Hi}
+			rs.LineExtraMM, rs.LineDegF0, rs.UsableHz = &extra, &deg, &band
+		}
+		rep.Structures = append(rep.Structures, rs)
 	}
 	rep.Sensitivity = []ReportSensitivity{}
 	for _, x := range r.Sensitivity {
