@@ -6,6 +6,7 @@ import (
 	"io"
 	"math"
 	"strconv"
+	"strings"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
@@ -165,9 +166,43 @@ func s11Plot(rep Report) (*plot.Plot, error) {
 	for _, q := range pts {
 		ymin = math.Min(ymin, q.Y)
 	}
+	names := []string{"|S11|", "−10 dB", "f0 " + formatFreq(rep.FrequencyHz)}
+	lines := []plotter.XYs{pts, {{X: lo, Y: -10}, {X: hi, Y: -10}}}
+	if b := rep.Band; b != nil {
+		// The band as a bracket down to its goal (or to the worst |S11|
+		// reached in it when no goal was given).
+		level := b.WorstS11DB
+		if b.GoalDB != nil {
+			level = *b.GoalDB
+		}
+		level = math.Max(level, -60)
+		ymin = math.Min(ymin, level)
+		x1, x2 := b.StartHz/per, b.StopHz/per
+		bracket := plotter.XYs{{X: x1, Y: 0}, {X: x1, Y: level}, {X: x2, Y: level}, {X: x2, Y: 0}}
+		bl, err := plotter.NewLine(bracket)
+		if err != nil {
+			return nil, err
+		}
+		bl.Color = colour(colLimit)
+		bl.Width = vg.Points(1)
+		p.Add(bl)
+		name := fmt.Sprintf("band %s, worst %s dB", units.FormatFrequencyRange(b.StartHz, b.StopHz, 6), minusSign(b.WorstS11DB))
+		if b.GoalDB != nil {
+			name = fmt.Sprintf("band %s, goal %s dB", units.FormatFrequencyRange(b.StartHz, b.StopHz, 6), minusSign(*b.GoalDB))
+		}
+		p.Legend.Add(name, bl)
+		names = append(names, name)
+		lines = append(lines, bracket)
+	}
 	p.X.Min, p.X.Max, p.Y.Min = lo, hi, ymin
-	placeLegend(p, []string{"|S11|", "−10 dB", "f0 " + formatFreq(rep.FrequencyHz)}, []plotter.XYs{pts, {{X: lo, Y: -10}, {X: hi, Y: -10}}}, nil)
+	placeLegend(p, names, lines, nil)
 	return p, nil
+}
+
+// minusSign writes v to one decimal with a typographic minus, as the
+// plot's other labels.
+func minusSign(v float64) string {
+	return strings.Replace(fmt.Sprintf("%.1f", v), "-", "−", 1)
 }
 
 // smithPlot is the Smith chart with the load and input trajectories.
