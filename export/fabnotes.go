@@ -156,6 +156,21 @@ func NewFabNotes(res *synth.Result, rep Report, lay geom.Layout) FabNotes {
 		n.Files = append(n.Files, [2]string{ExcellonFileName(lay.Name), "Excellon, " + DrillPTH.FileFunctionOf(layers)})
 	}
 	n.Files = append(n.Files, [2]string{JobFileName(lay.Name), "Gerber job file"})
+	if len(res.Structures) > 0 {
+		var names []string
+		for _, s := range res.Structures {
+			names = append(names, s.Layout.Name)
+			for _, ly := range LayersOf(s.Layout) {
+				n.Files = append(n.Files, [2]string{ly.FileName(s.Layout.Name), ly.FileFunctionOf(layers)})
+			}
+			if len(s.Layout.Vias) > 0 {
+				n.Files = append(n.Files, [2]string{ExcellonFileName(s.Layout.Name), "Excellon, " + DrillPTH.FileFunctionOf(layers)})
+			}
+			n.Files = append(n.Files, [2]string{JobFileName(s.Layout.Name), "Gerber job file of " + s.Layout.Name})
+		}
+		n.Rules = append(n.Rules, fmt.Sprintf("Test structures: make %s on the same panel and material as the board, each routed on its own outline, same widths, copper, finish and mask; they are for measuring this board and must come from the same lot.",
+			strings.Join(names, ", ")))
+	}
 	return n
 }
 
