@@ -4,6 +4,7 @@ import (
 	"math"
 
 	"github.com/jung-kurt/gofpdf"
+	"gonum.org/v1/plot/plotter"
 )
 
 // chart is an x–y plot area on paper with linear axes.
@@ -84,13 +85,23 @@ func (d *doc) polyline(c chart, xs, ys []float64, col rgb, width float64) {
 	if len(xs) < 2 {
 		return
 	}
+	n := min(len(xs), len(ys))
+	pts := make(plotter.XYs, n)
+	increasing := true
+	for i := range pts {
+		pts[i] = plotter.XY{X: xs[i], Y: ys[i]}
+		increasing = increasing && (i == 0 || xs[i] > xs[i-1])
+	}
+	if increasing {
+		pts = thinEnvelope(pts) // a long sweep, drawn at page resolution
+	}
 	f.ClipRect(c.x, c.y, c.w, c.h, false)
 	setDraw(f, col)
 	f.SetLineWidth(width)
 	f.SetLineJoinStyle("round")
-	f.MoveTo(c.X(xs[0]), c.Y(ys[0]))
-	for i := 1; i < len(xs) && i < len(ys); i++ {
-		f.LineTo(c.X(xs[i]), c.Y(ys[i]))
+	f.MoveTo(c.X(pts[0].X), c.Y(pts[0].Y))
+	for _, q := range pts[1:] {
+		f.LineTo(c.X(q.X), c.Y(q.Y))
 	}
 	f.DrawPath("D")
 	f.ClipEnd()

@@ -5,6 +5,8 @@ import (
 	"math"
 	"strings"
 
+	"gonum.org/v1/plot/plotter"
+
 	"stubcraft/physical/units"
 )
 
@@ -307,9 +309,14 @@ func (d *doc) smith(x, y, w, h float64) {
 		}
 		setDraw(f, col)
 		f.SetLineWidth(0.45)
-		f.MoveTo(P(complex(re[0], im[0])))
-		for i := 1; i < len(re); i++ {
-			f.LineTo(P(complex(re[i], im[i])))
+		pts := make(plotter.XYs, len(re))
+		for i := range re {
+			pts[i] = plotter.XY{X: re[i], Y: im[i]}
+		}
+		pts = thinPath(pts, 1e-3) // a long sweep, drawn at page resolution
+		f.MoveTo(P(complex(pts[0].X, pts[0].Y)))
+		for _, q := range pts[1:] {
+			f.LineTo(P(complex(q.X, q.Y)))
 		}
 		f.DrawPath("D")
 		setFill(f, col)

@@ -132,6 +132,7 @@ func s11Plot(rep Report) (*plot.Plot, error) {
 	if len(pts) < 2 {
 		return p, nil
 	}
+	pts = thinEnvelope(pts)
 	l, err := plotter.NewLine(pts)
 	if err != nil {
 		return nil, err
@@ -255,7 +256,8 @@ func smithPlot(rep Report) (*plot.Plot, error) {
 		for i := range tr.re {
 			xy[i] = plotter.XY{X: tr.re[i], Y: tr.im[i]}
 		}
-		l, err := plotter.NewLine(xy)
+		// 1e-3 of the unit circle is about 0.06 mm on the page.
+		l, err := plotter.NewLine(thinPath(xy, 1e-3))
 		if err != nil {
 			return nil, err
 		}

@@ -9,6 +9,8 @@ import (
 	"math/cmplx"
 	"slices"
 	"testing"
+
+	"gonum.org/v1/plot/plotter"
 )
 
 func TestWritePlots(t *testing.T) {
@@ -145,5 +147,61 @@ func TestNiceStep(t *testing.T) {
 	}
 	if got := ticks(-40, 0, 10); !slices.Equal(got, []float64{-40, -30, -20, -10, 0}) {
 		t.Errorf("ticks(-40, 0, 10) = %v", got)
+	}
+}
+
+func TestThinEnvelope(t *testing.T) {
+	// A long curve keeps its extremes exactly, its end points and its
+	// order, within maxPlotPoints+2 points; a short one is unchanged.
+	n := 100001
+	pts := make(plotter.XYs, n)
+	for i := range pts {
+		x := float64(i) / float64(n-1)
+		pts[i] = plotter.XY{X: x, Y: math.Sin(40*x) + 0.001*math.Sin(9000*x)}
+	}
+	pts[54321].Y = -5 // a narrow notch
+	got := thinEnvelope(pts)
+	if len(got) > maxPlotPoints+2 || got[0] != pts[0] || got[len(got)-1] != pts[n-1] {
+		t.Fatalf("%d points, first %v, last %v", len(got), got[0], got[len(got)-1])
+	}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for i, q := range got {
+		if i > 0 && !(q.X > got[i-1].X) {
+			t.Fatalf("point %d out of order", i)
+		}
+		lo, hi = math.Min(lo, q.Y), math.Max(hi, q.Y)
+	}
+	wlo, whi := math.Inf(1), math.Inf(-1)
+	for _, q := range pts {
+		wlo, whi = math.Min(wlo, q.Y), math.Max(whi, q.Y)
+	}
+	if lo != wlo || hi != whi {
+		t.Errorf("range [%g, %g], want [%g, %g]", lo, hi, wlo, whi)
+	}
+	short := pts[:maxPlotPoints]
+	if got := thinEnvelope(short); len(got) != len(short) {
+		t.Errorf("a curve of %d points was thinned to %d", len(short), len(got))
+	}
+}
+
+func TestThinPath(t *testing.T) {
+	// A circle drawn with 100,000 points keeps points no further apart than
+	// the tolerance allows (a chord of the kept polygon stays within tol
+	// of the original points) and both ends.
+	n := 100000
+	pts := make(plotter.XYs, n)
+	for i := range pts {
+		a := 2 * math.Pi * float64(i) / float64(n-1)
+		pts[i] = plotter.XY{X: math.Cos(a), Y: math.Sin(a)}
+	}
+	got := thinPath(pts, 1e-3)
+	if len(got) >= n/10 || got[0] != pts[0] || got[len(got)-1] != pts[n-1] {
+		t.Fatalf("%d points, ends %v %v", len(got), got[0], got[len(got)-1])
+	}
+	for i := 1; i+1 < len(got); i++ {
+		d := math.Hypot(got[i].X-got[i-1].X, got[i].Y-got[i-1].Y)
+		if d > 2e-3 {
+			t.Errorf("kept points %d and %d are %g apart", i-1, i, d)
+		}
 	}
 }

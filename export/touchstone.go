@@ -31,26 +31,30 @@ func WriteTouchstone(w io.Writer, t *physical.Touchstone, comments []string) err
 	}
 	fmt.Fprintf(bw, "# Hz S RI R %s\n", touchNum(t.Z0))
 	n := t.Ports
+	// One record at a time into line, with strconv.AppendFloat: no string
+	// per number.
+	var line []byte
 	for k, f := range t.Freqs {
 		s := t.S[k]
-		bw.WriteString(strconv.FormatFloat(f, 'f', -1, 64)) // plain Hz, shortest exact
+		line = strconv.AppendFloat(line[:0], f, 'f', -1, 64) // plain Hz, shortest exact
 		switch n {
 		case 1:
-			touchPairs(bw, s[0])
+			line = touchPairs(line, s[0])
 		case 2:
-			touchPairs(bw, s[0], s[2], s[1], s[3])
+			line = touchPairs(line, s[0], s[2], s[1], s[3])
 		default:
 			for i := 0; i < n; i++ {
 				row := s[i*n : (i+1)*n]
 				for j := 0; j < n; j += 4 {
 					if i > 0 || j > 0 {
-						bw.WriteString("\n ")
+						line = append(line, "\n "...)
 					}
-					touchPairs(bw, row[j:min(j+4, n)]...)
+					line = touchPairs(line, row[j:min(j+4, n)]...)
 				}
 			}
 		}
-		bw.WriteString("\n")
+		line = append(line, '\n')
+		bw.Write(line)
 	}
 	if err := bw.Flush(); err != nil {
 		return fmt.Errorf("touchstone: %w", err)
@@ -88,11 +92,16 @@ func checkTouchstone(t *physical.Touchstone) error {
 	return nil
 }
 
-// touchPairs writes " re im" for each value.
-func touchPairs(bw *bufio.Writer, vs ...complex128) {
+// touchPairs appends " re im" for each value, each number in the shortest
+// form that parses back to it.
+func touchPairs(line []byte, vs ...complex128) []byte {
 	for _, v := range vs {
-		bw.WriteString(" " + touchNum(real(v)) + " " + touchNum(imag(v)))
+		line = append(line, ' ')
+		line = strconv.AppendFloat(line, real(v), 'g', -1, 64)
+		line = append(line, ' ')
+		line = strconv.AppendFloat(line, imag(v), 'g', -1, 64)
 	}
+	return line
 }
 
 // touchNum formats v in the shortest form that parses back to v.

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"slices"
 )
 
 // LineMaker makes the line model of a strip of the given width on sub.
@@ -188,20 +189,84 @@ type junction struct {
 // ABCD returns the chain matrix of the network from the source port
 // (port 1) to the load port (port 2) at freq.
 func (s *Sim) ABCD(freq float64) ABCD {
-	b := s.board
-	n := len(b.Through)
+	n := len(s.board.Through)
 	params := make([]LineParams, n)
 	for i, m := range s.through {
 		params[i] = m.At(freq)
 	}
-	// Tee at the boundary after Through[i], if any.
+	stubs := make([]LineParams, len(s.stubs))
+	for k, m := range s.stubs {
+		stubs[k] = m.At(freq)
+	}
+	return s.abcd(freq, params, stubs, make([]*junction, n))
+}
+
+// lineSweeper is a line model that evaluates many frequencies at once,
+// each exactly as At would (MicrostripModel.Sweep).
+type lineSweeper interface {
+	Sweep(freqs []float64, dst []LineParams) []LineParams
+}
+
+// sweepBlock is the number of frequencies whose line properties ABCDSweep
+// holds at once: enough for the batched line sweep, little memory.
+const sweepBlock = 1024
+
+// ABCDSweep appends the chain matrix at each of freqs to dst and returns
+// the extended slice; element len(dst)+i equals ABCD(freqs[i]) bit for
+// bit. Each line's properties are evaluated a block of frequencies at a
+// time, with the model's batched sweep where it has one.
+func (s *Sim) ABCDSweep(freqs []float64, dst []ABCD) []ABCD {
+	n := len(s.board.Through)
+	through := make([][]LineParams, len(s.through))
+	stubs := make([][]LineParams, len(s.stubs))
+	params := make([]LineParams, n)
+	stubAt := make([]LineParams, len(s.stubs))
 	juncs := make([]*junction, n)
+	eval := func(m LineModel, block []float64, buf []LineParams) []LineParams {
+		if sw, ok := m.(lineSweeper); ok {
+			return sw.Sweep(block, buf[:0])
+		}
+		buf = buf[:0]
+		for _, f := range block {
+			buf = append(buf, m.At(f))
+		}
+		return buf
+	}
+	dst = slices.Grow(dst, len(freqs))
+	for lo := 0; lo < len(freqs); lo += sweepBlock {
+		block := freqs[lo:min(lo+sweepBlock, len(freqs))]
+		for i, m := range s.through {
+			through[i] = eval(m, block, through[i])
+		}
+		for k, m := range s.stubs {
+			stubs[k] = eval(m, block, stubs[k])
+		}
+		for j, f := range block {
+			for i := range params {
+				params[i] = through[i][j]
+			}
+			for k := range stubAt {
+				stubAt[k] = stubs[k][j]
+			}
+			clear(juncs)
+			dst = append(dst, s.abcd(f, params, stubAt, juncs))
+		}
+	}
+	return dst
+}
+
+// abcd is ABCD at freq with the through lines' properties params and the
+// stubs' stubs; juncs is scratch space of len(params), all nil.
+func (s *Sim) abcd(freq float64, params, stubs []LineParams, juncs []*junction) ABCD {
+	b := s.board
+	n := len(b.Through)
+	// Tee at the boundary after Through[i], if any.
 	for i := 0; i < n; i++ {
 		k := s.stubAt[i]
 		if k < 0 {
 			continue
 		}
-		juncs[i] = s.junction(k, params[i], freq)
+		juncs[i] = s.junction(k, params[i], stubs[k], freq)
 	}
 	m := Identity()
 	for i := n - 1; i >= 0; i-- {
@@ -223,10 +288,10 @@ func (s *Sim) ABCD(freq float64) ABCD {
 	return m
 }
 
-// junction evaluates stub k, hung on a through line with properties tp.
-func (s *Sim) junction(k int, tp LineParams, freq float64) *junction {
+// junction evaluates stub k, whose line has properties sp, hung on a
+// through line with properties tp.
+func (s *Sim) junction(k int, tp, sp LineParams, freq float64) *junction {
 	st := s.board.Stubs[k]
-	sp := s.stubs[k].At(freq)
 	// The stub is drawn from the edge of the wider through arm.
 	throughW := max(s.board.Through[st.At].Width, s.board.Through[st.At+1].Width)
 	tee := Tee{ThroughZ0: tp.Z0, ThroughEpsEff: tp.EpsEff, StubZ0: sp.Z0, StubEpsEff: sp.EpsEff,

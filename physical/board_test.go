@@ -75,3 +75,45 @@ func TestSimRelength(t *testing.T) {
 		t.Error("wrong counts accepted")
 	}
 }
+
+// atOnly hides a model's batched sweep, so that ABCDSweep takes its
+// one-frequency path.
+type atOnly struct{ LineModel }
+
+func TestABCDSweepEqualsABCD(t *testing.T) {
+	// Exact: the batched sweep computes the same chain matrix as ABCD at
+	// each frequency, bit for bit, through and past a block boundary.
+	sub := Substrate{Er: 4.4, Height: 1.6 * mm, CopperThickness: 35 * um, LossTangent: 0.02, Roughness: 1 * um}
+	b := Board{Sub: sub, Via: Via{Drill: 0.3 * mm, Pad: 0.6 * mm},
+		Through: []Trace{{Width: 3 * mm, Length: 10 * mm}, {Width: 3 * mm, Length: 4 * mm}, {Width: 1.5 * mm, Length: 6 * mm}, {Width: 3 * mm, Length: 5 * mm}},
+		Stubs:   []Stub{{At: 0, Width: 2 * mm, Length: 8 * mm}, {At: 2, Width: 1 * mm, Length: 5 * mm, Short: true}}}
+	freqs := make([]float64, sweepBlock+37)
+	for i := range freqs {
+		freqs[i] = 1*GHz + 3*GHz*float64(i)/float64(len(freqs)-1)
+	}
+	for _, mk := range []struct {
+		name string
+		mk   LineMaker
+	}{
+		{"batched", MicrostripMaker},
+		{"one frequency at a time", func(w float64, sub Substrate) (LineModel, error) {
+			m, err := MicrostripMaker(w, sub)
+			return atOnly{m}, err
+		}},
+	} {
+		sim, err := NewSim(b, mk.mk)
+		if err != nil {
+			t.Fatal(err)
+		}
+		head := []ABCD{Identity()}
+		got := sim.ABCDSweep(freqs, head)
+		if len(got) != len(freqs)+1 || got[0] != Identity() {
+			t.Fatalf("%s: %d matrices, want %d after the existing one", mk.name, len(got), len(freqs)+1)
+		}
+		for i, f := range freqs {
+			if want := sim.ABCD(f); got[i+1] != want {
+				t.Fatalf("%s: at %g Hz ABCDSweep %v, ABCD %v", mk.name, f, got[i+1], want)
+			}
+		}
+	}
+}

@@ -581,7 +581,6 @@ func (r *Result) sweep(sim *physical.Sim, load Load) error {
 	if n < 2 {
 		n = 2
 	}
-	s := Sweep{}
 	z0 := r.Design.Z0
 	freqs := make([]float64, 0, n+2)
 	for i := 0; i < n; i++ {
@@ -598,18 +597,23 @@ func (r *Result) sweep(sim *physical.Sim, load Load) error {
 			freqs = append(freqs[:k], append([]float64{e}, freqs[k:]...)...)
 		}
 	}
-	for _, f := range freqs {
+	n = len(freqs)
+	s := Sweep{Freqs: freqs, ZLoad: make([]complex128, n), Zin: make([]complex128, n),
+		S11: make([]complex128, n), Network: make([][2][2]complex128, n)}
+	// The board's chain matrices a block of frequencies at a time, each
+	// line evaluated with its batched sweep.
+	abcd := sim.ABCDSweep(freqs, nil)
+	for i, f := range freqs {
 		zl, err := load.Impedance(f)
 		if err != nil {
 			return r.Design.KeyError(loadKey(r.Design), fmt.Errorf("the load at %.6g GHz, in the sweep: %w", f/1e9, err))
 		}
-		a := sim.ABCD(f)
+		a := abcd[i]
 		zin := a.InputImpedance(zl)
-		s.Freqs = append(s.Freqs, f)
-		s.ZLoad = append(s.ZLoad, zl)
-		s.Zin = append(s.Zin, zin)
-		s.S11 = append(s.S11, physical.Reflection(zin, z0))
-		s.Network = append(s.Network, a.S(z0))
+		s.ZLoad[i] = zl
+		s.Zin[i] = zin
+		s.S11[i] = physical.Reflection(zin, z0)
+		s.Network[i] = a.S(z0)
 	}
 	r.Sweep = s
 	f0 := r.Design.Freq
