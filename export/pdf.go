@@ -74,7 +74,7 @@ func WritePDF(w io.Writer, rep Report, lay geom.Layout, opt DrawingOptions) erro
 	if err != nil {
 		return fmt.Errorf("drawing: %w", err)
 	}
-	plan := planBoard(b, pg, fit)
+	plan := planBoard(b, pg, fit, headlineHeight(rep))
 	// The first pass counts the sheets for "sheet n of m"; the second
 	// writes them.
 	d, err := renderPDF(rep, b, plan, pg, opt, 0)

@@ -197,6 +197,7 @@ type boardPlan struct {
 	nx, ny      int     // tiles across and down
 	ext         extents // paper room around the board at this scale
 	area        rectMM  // the drawing area of a sheet
+	reserve     float64 // height of the headline strip under the area
 }
 
 // rectMM is a paper rectangle: left, top, width, height.
@@ -292,11 +293,13 @@ func (b boardModel) extentsAt(s float64) extents {
 }
 
 // planBoard chooses the scale (and tiles) for sheet 1 on paper pg.
-func planBoard(b boardModel, pg paper, fit string) boardPlan {
+// reserve is the paper height kept under the drawing area for the
+// headline figures and the verdict.
+func planBoard(b boardModel, pg paper, fit string, reserve float64) boardPlan {
 	m := pageMargin
 	x, y := m+3, m+headerH+3
-	area := rectMM{x, y, pg.w - 2*x, pg.h - m - titleBlockH - 3 - y - scaleStripH}
-	p := boardPlan{scale: 1, ratio: "1:1", area: area, nx: 1, ny: 1, ext: b.extentsAt(1)}
+	area := rectMM{x, y, pg.w - 2*x, pg.h - m - titleBlockH - 3 - y - scaleStripH - reserve}
+	p := boardPlan{scale: 1, ratio: "1:1", area: area, nx: 1, ny: 1, ext: b.extentsAt(1), reserve: reserve}
 	if cw, ch := p.canvas(b); cw <= area.w && ch <= area.h {
 		for _, k := range enlargementScales() {
 			q := boardPlan{scale: k.s, ext: b.extentsAt(k.s)}

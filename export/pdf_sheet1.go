@@ -158,7 +158,8 @@ func (d *doc) tileMap(p boardPlan, ci, cj int) {
 func (d *doc) scaleStrip(p boardPlan, extra string) {
 	f := d.pdf
 	a := p.area
-	y := a.y + a.h + 4
+	d.headlineStrip(a.x, a.y+a.h+1, a.w)
+	y := a.y + a.h + p.reserve + 4
 	x := a.x + 2
 	s := p.scale
 	const seg = 10.0 // mm of board per bar segment

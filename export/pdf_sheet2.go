@@ -422,7 +422,8 @@ func (d *doc) results(x, y, w float64) {
 	f := d.pdf
 	r := d.rep
 	lines := []string{
-		minus(fmt.Sprintf("|S11| at f0: %s drawn, %s without the discontinuity corrections, %s before re-centring", ModelDB(r.S11DBF0), ModelDB(r.S11DBF0Uncorr), ModelDB(r.Recentring.S11DBBefore))),
+		Headline(r),
+		minus(fmt.Sprintf("model |S11| at f0: %s drawn, %s without the discontinuity corrections, %s before re-centring", ModelDB(r.S11DBF0), ModelDB(r.S11DBF0Uncorr), ModelDB(r.Recentring.S11DBBefore))),
 		minus(fmt.Sprintf("return loss %s, VSWR %.2f, network loss %.3f dB at f0", returnLossText(float64(r.ReturnLossDBF0)), r.VSWRF0, r.NetworkLossDBF0)),
 	}
 	if r.Bandwidth10DBHz > 0 {

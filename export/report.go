@@ -22,6 +22,7 @@ type Report struct {
 	FrequencyHz     float64             `json:"frequency_hz"`
 	Z0Ohm           float64             `json:"z0_ohm"`
 	Model           string              `json:"line_model"`
+	Summary         ReportSummary       `json:"summary"`
 	Stackup         ReportStackup       `json:"stackup"`
 	Load            ReportLoad          `json:"load"`
 	Electrical      []ReportSection     `json:"electrical"`
@@ -212,15 +213,6 @@ type ReportTolerance struct {
 	SamplesS11DB []float64 `json:"samples_s11_db"`
 }
 
-// ModelDB prints a simulated |S11| in dB; below −100 dB the digits say
-// nothing a network analyser could see, so it says "below −100 dB".
-func ModelDB(db float64) string {
-	if db < -100 {
-		return "below −100 dB"
-	}
-	return fmt.Sprintf("%.1f dB", db)
-}
-
 // returnLossText prints a simulated return loss, "above 100 dB" past it.
 func returnLossText(rl float64) string {
 	if rl > 100 {
@@ -357,6 +349,7 @@ func NewReport(r *synth.Result, version string) Report {
 			ThicknessRel: t.Spec.Thickness, WidthUM: t.Spec.Width * 1e6, CopperRel: t.Spec.Copper,
 			P50S11DB: t.P50, P90S11DB: t.P90, Yield: t.Yield, YieldBelowDB: synth.YieldThresholdDB, SamplesS11DB: t.S11DB}
 	}
+	summarize(&rep)
 	return rep
 }
 

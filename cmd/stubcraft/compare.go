@@ -24,8 +24,9 @@ type compareRow struct {
 	CopperLengthMM float64   `json:"copper_length_mm"`
 	CopperAreaMM2  float64   `json:"copper_area_mm2"`
 	InsertionDB    float64   `json:"network_loss_db_f0"`
-	S11DBF0        float64   `json:"s11_db_f0"`
+	P50S11DB       *float64  `json:"p50_s11_db,omitempty"`
 	P90S11DB       *float64  `json:"p90_s11_db,omitempty"`
+	S11DBF0        float64   `json:"s11_db_f0"`
 	MinWidthMM     float64   `json:"narrowest_mm"`
 	MeetsFab       bool      `json:"meets_fab_minimum"`
 	Error          string    `json:"error,omitempty"`
@@ -139,15 +140,16 @@ func compareOne(ctx context.Context, in synth.BuildInput, minWidth float64) comp
 	row.InsertionDB = res.LossF0DB
 	row.S11DBF0 = physical.MagDB(res.S11F0)
 	if res.Tolerance != nil {
-		p := res.Tolerance.P90
-		row.P90S11DB = &p
+		p50, p90 := res.Tolerance.P50, res.Tolerance.P90
+		row.P50S11DB, row.P90S11DB = &p50, &p90
 	}
 	return row
 }
 
 func printCompare(w io.Writer, rows []compareRow, minWidth float64) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
-	fmt.Fprintf(tw, "stackup\twidths (mm)\tcopper length (mm)\tcopper area (mm²)\tloss at f0 (dB)\t|S11| f0 (dB)\tp90 |S11| (dB)\tnarrowest (mm)\t≥ %.3f mm\n", minWidth*1e3)
+	// As-built figures lead; the model's nominal |S11| follows, floored.
+	fmt.Fprintf(tw, "stackup	median |S11| f0 (dB)	p90 |S11| f0 (dB)	model |S11| f0 (dB)	widths (mm)	copper length (mm)	copper area (mm²)	loss at f0 (dB)	narrowest (mm)	≥ %.3f mm\n", minWidth*1e3)
 	for _, r := range rows {
 		if r.Error != "" {
 			fmt.Fprintf(tw, "%s\tfailed: %s\n", r.Stackup, r.Error)
@@ -157,7 +159,10 @@ func printCompare(w io.Writer, rows []compareRow, minWidth float64) error {
 		for _, v := range r.WidthsMM {
 			ws = append(ws, fmt.Sprintf("%.3f", v))
 		}
-		p90 := "-"
+		p50, p90 := "-", "-"
+		if r.P50S11DB != nil {
+			p50 = fmt.Sprintf("%.1f", *r.P50S11DB)
+		}
 		if r.P90S11DB != nil {
 			p90 = fmt.Sprintf("%.1f", *r.P90S11DB)
 		}
@@ -165,8 +170,8 @@ func printCompare(w io.Writer, rows []compareRow, minWidth float64) error {
 		if !r.MeetsFab {
 			ok = "NO"
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%.2f\t%.2f\t%.3f\t%s\t%s\t%.3f\t%s\n", r.Stackup, strings.Join(ws, ", "), r.CopperLengthMM,
-			r.CopperAreaMM2, r.InsertionDB, strings.TrimSuffix(export.ModelDB(r.S11DBF0), " dB"), p90, r.MinWidthMM, ok)
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.2f\t%.2f\t%.3f\t%.3f\t%s\n", r.Stackup, p50, p90, strings.TrimSuffix(export.ModelDB(r.S11DBF0), " dB"),
+			strings.Join(ws, ", "), r.CopperLengthMM, r.CopperAreaMM2, r.InsertionDB, r.MinWidthMM, ok)
 	}
 	return tw.Flush()
 }

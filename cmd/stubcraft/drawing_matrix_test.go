@@ -5,6 +5,7 @@ import (
 	"compress/zlib"
 	"encoding/json"
 	"encoding/xml"
+	"fmt"
 	"io"
 	"math"
 	"os"
@@ -43,6 +44,7 @@ func drawingMatrix() []struct {
 		{"bent-stub", []string{filepath.Join(td, "designs", "compact-bent-stub.toml")}},
 		{"coplanar", []string{filepath.Join(td, "designs", "gcpw-probe.toml")}},
 		{"double-stub", []string{filepath.Join(td, "designs", "double-stub-sections.toml")}},
+		{"mismatch", []string{filepath.Join(td, "designs", "sensor-antenna-sections.toml")}},
 	}
 }
 
@@ -410,6 +412,14 @@ func checkSheet1Names(t *testing.T, dir string) {
 		Stackup struct {
 			Name string `json:"name"`
 		} `json:"stackup"`
+		Summary struct {
+			Verdict  string   `json:"verdict"`
+			Warnings []string `json:"verdict_warnings"`
+		} `json:"summary"`
+		Tolerance *struct {
+			P50 float64 `json:"p50_s11_db"`
+			P90 float64 `json:"p90_s11_db"`
+		} `json:"tolerance"`
 	}
 	if err := json.Unmarshal(data, &rep); err != nil {
 		t.Fatal(err)
@@ -430,6 +440,20 @@ func checkSheet1Names(t *testing.T, dir string) {
 		if name == "" || !strings.Contains(text, name) {
 			t.Errorf("sheet 1 does not name %q whole", name)
 		}
+	}
+	// The as-built figures (tolerance median and 90th percentile, to
+	// 0.1 dB with a true minus) and the verdict lead sheet 1; a verdict
+	// other than a match is there in words.
+	if rep.Tolerance == nil {
+		t.Fatal("no tolerance analysis in the matrix build")
+	}
+	for _, v := range []float64{rep.Tolerance.P50, rep.Tolerance.P90} {
+		if s := strings.ReplaceAll(fmt.Sprintf("%.1f dB", v), "-", "−"); !strings.Contains(text, s) {
+			t.Errorf("sheet 1 lacks the as-built figure %s", s)
+		}
+	}
+	if !strings.Contains(text, "verdict: "+rep.Summary.Verdict) {
+		t.Errorf("sheet 1 lacks the verdict %q", rep.Summary.Verdict)
 	}
 }
 
