@@ -37,8 +37,8 @@ func TestFabZip(t *testing.T) {
 			want = append(want, n)
 		}
 	}
-	if len(z.File) != len(want) || len(want) != 8 {
-		t.Errorf("%d entries, want the %d fab files (6 Gerber and drill, job, notes)", len(z.File), len(want))
+	if len(z.File) != len(want) || len(want) != 9 {
+		t.Errorf("%d entries, want the %d fab files (7 Gerber and drill, job, notes)", len(z.File), len(want))
 	}
 	for _, f := range z.File {
 		r, err := f.Open()

@@ -21,10 +21,13 @@ const (
 	Profile                        // the board outline
 	SoldermaskTop                  // the top solder-mask openings
 	DrillPTH                       // the plated through holes, as a Gerber drill layer
+	LegendTop                      // the top legend (silkscreen)
 )
 
 // Layers lists every Layer in the order a job file lists them.
-func Layers() []Layer { return []Layer{CopperTop, CopperBottom, SoldermaskTop, Profile, DrillPTH} }
+func Layers() []Layer {
+	return []Layer{CopperTop, CopperBottom, SoldermaskTop, LegendTop, Profile, DrillPTH}
+}
 
 // Has reports whether the layout puts anything on the layer: a file is
 // written only for a layer with content (an empty drill or mask Gerber
@@ -42,6 +45,8 @@ func (ly Layer) Has(l geom.Layout) bool {
 		return len(l.MaskOpenings) > 0
 	case DrillPTH:
 		return len(l.Vias) > 0
+	case LegendTop:
+		return len(l.Legend) > 0
 	}
 	return false
 }
@@ -71,6 +76,8 @@ func (ly Layer) String() string {
 		return "mask-top"
 	case DrillPTH:
 		return "drill-plated"
+	case LegendTop:
+		return "legend-top"
 	}
 	return "Layer(" + strconv.Itoa(int(ly)) + ")"
 }
@@ -102,6 +109,8 @@ func (ly Layer) FileFunctionOf(layers int) string {
 		return "Soldermask,Top"
 	case DrillPTH:
 		return "Plated,1," + strconv.Itoa(layers) + ",PTH"
+	case LegendTop:
+		return "Legend,Top"
 	}
 	return ""
 }
@@ -172,6 +181,18 @@ func WriteGerber(w io.Writer, l geom.Layout, layer Layer, meta Meta) error {
 		}
 	case DrillPTH:
 		g.drills(l.Vias)
+	case LegendTop:
+		g.line("%ADD10C," + geom.FormatMM(geom.LegendLine) + "*%")
+		g.line("D10*")
+		for _, s := range l.Legend {
+			if len(s) < 2 {
+				continue
+			}
+			g.line(xy(s[0]) + "D02*")
+			for _, p := range s[1:] {
+				g.line(xy(p) + "D01*")
+			}
+		}
 	}
 	g.line("M02*")
 	if g.err != nil {

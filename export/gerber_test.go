@@ -282,7 +282,7 @@ func TestDeterministic(t *testing.T) {
 		"excellon": func(b *bytes.Buffer, l geom.Layout) error { return WriteExcellon(b, l, refMeta()) },
 		"job":      func(b *bytes.Buffer, l geom.Layout) error { return WriteGerberJob(b, l, refMeta(), refStack()) },
 	}
-	for _, ly := range Layers() {
+	for _, ly := range LayersOf(build(t, refSpec())) {
 		writers[ly.String()] = func(b *bytes.Buffer, l geom.Layout) error { return WriteGerber(b, l, ly, refMeta()) }
 	}
 	for name, w := range writers {

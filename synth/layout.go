@@ -34,6 +34,8 @@ func (r *Result) GeomSpec() geom.Spec {
 		Name:          d.Name,
 		Margin:        d.Layout.Margin,
 		EdgeClearance: d.Layout.EdgeClearance,
+		LegendTitle:   d.Name,
+		LegendNote:    fmt.Sprintf("F0 %.4gGHZ", d.Freq/1e9),
 		MaxBoard:      d.Layout.MaxBoard,
 		Height:        r.Stackup.Dielectric.Thickness,
 		Er:            r.Stackup.Dielectric.Er,

@@ -2,6 +2,7 @@ package geom
 
 import (
 	"fmt"
+	"strings"
 	"math"
 )
 
@@ -226,7 +227,63 @@ func Build(s Spec) (Layout, error) {
 		ko = Nanometres(KeepOutHeights * s.Height)
 	}
 	l.KeepOut = grownUnion(keep, ko, board)
+	if s.LegendTitle != "" {
+		l.addLegend(s.LegendTitle, s.LegendNote, Nanometres(s.EdgeClearance))
+	}
 	return l, nil
+}
+
+// addLegend places the title (and the note after it, or on a line below
+// when the two do not fit on one) along the top edge of the board, or the
+// bottom when they do not fit there, and the port names with the signal
+// arrow along the other long edge, each where it fits off the pads and
+// mask openings (AddLegend); an item that fits nowhere is left out.
+func (l *Layout) addLegend(title, note string, edge int64) {
+	lo, hi := l.Board.Bounds()
+	h := int64(LegendHeight)
+	pad := edge + LegendLine
+	x0 := lo.X + pad + LegendLine
+	room := (hi.X - x0 - pad - LegendLine) / (6 * (h / 6)) // characters per line
+	fit := func(s string) string {
+		if r := []rune(s); room >= 0 && int64(len(r)) > room {
+			return string(r[:room])
+		}
+		return s
+	}
+	var lines []string
+	if one := title + " " + note; note == "" || int64(len([]rune(one))) <= room {
+		lines = []string{strings.TrimSpace(one)}
+	} else {
+		lines = []string{fit(title), fit(note)}
+	}
+	lead := h * 16 / 10
+	place := func(topLine int64, down bool) bool {
+		var ss []Stroke
+		for i, ln := range lines {
+			y := topLine - int64(i)*lead
+			if !down {
+				y = topLine + int64(len(lines)-1-i)*lead
+			}
+			ss = append(ss, LegendText(ln, Point{x0, y}, h)...)
+		}
+		return l.AddLegend(ss, edge)
+	}
+	bottomY := lo.Y + pad
+	if !place(hi.Y-pad-h, true) {
+		if place(bottomY, false) {
+			bottomY = hi.Y - pad - h
+		}
+	}
+	// J2 at the load port (left), J1 at the source port (right), the
+	// arrow from J1 toward J2: the signal's way from the source.
+	xr := hi.X - pad - LegendLine - LegendTextWidth("J1", h)
+	l.AddLegend(LegendText("J2", Point{x0, bottomY}, h), edge)
+	l.AddLegend(LegendText("J1", Point{xr, bottomY}, h), edge)
+	a := Point{xr - h, bottomY + h/2}
+	b := Point{x0 + LegendTextWidth("J2", h) + h, bottomY + h/2}
+	if a.X-b.X > 2*h {
+		l.AddLegend(LegendArrow(a, b, h/2), edge)
+	}
 }
 
 // segNM is one through-line segment in nanometres, relative to the line's

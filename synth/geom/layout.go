@@ -11,7 +11,10 @@ type Layout struct {
 	Ground       Polygon // bottom copper plane
 	MaskOpenings []Polygon
 	KeepOut      []Polygon // where no other copper may go on the top layer
-	Marks        Marks
+	// Legend is the top silkscreen ink: strokes of a LegendLine pen, off
+	// pads and mask openings (see AddLegend).
+	Legend []Stroke
+	Marks  Marks
 }
 
 // Net is the merged top copper of one net: a single simple polygon without

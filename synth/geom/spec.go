@@ -20,6 +20,15 @@ type Spec struct {
 	// line (and its port pads) reaches the board edge at the two ports,
 	// for an edge-launch connector. 0: no pull-back.
 	EdgeClearance float64
+	// LegendTitle, when not empty, puts a legend on the board (top
+	// silkscreen): this title (the board name and f0) along one long
+	// edge, the port names J2 (load, x = 0) and J1 (source) and a signal
+	// arrow from J1 toward J2 along the other, wherever they fit off the
+	// pads and mask openings; what does not fit is left out.
+	LegendTitle string
+	// LegendNote is a second legend item (f0) set after the title, or on
+	// a line of its own below it when the two do not fit on one.
+	LegendNote string
 	// MaxBoard is an optional board size limit (x, y); 0 means unlimited.
 	// A stub whose straight copper would make the board taller than
 	// MaxBoard[1] is laid out as a mitred L (see Bend); the board is never
