@@ -2,8 +2,8 @@ package geom
 
 import (
 	"fmt"
-	"strings"
 	"math"
+	"strings"
 )
 
 // NetRF is the name of the matching network's copper net; NetGround is the
