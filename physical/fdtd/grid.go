@@ -151,13 +151,16 @@ func newGrid(s Structure, p MeshParams, edge float64) (*Grid, error) {
 	g.X = withPML(gradedLines(xfix, d, dmaxX, p.Grading), p.PMLCells, true, true)
 	g.Y = withPML(gradedLines(yfix, d, dmaxX, p.Grading), p.PMLCells, true, true)
 
-	// z: uniform substrate cells, then graded air up to the absorbing layer.
-	dz := h / float64(p.SubstrateCells)
+	// z: uniform substrate cells no taller than the edge cell (a strip
+	// narrower than the substrate is thick needs its field resolved in z as
+	// finely as across its width), then graded air up to the absorbing layer.
+	nsub := max(p.SubstrateCells, int(math.Ceil(h/d-1e-9)))
+	dz := h / float64(nsub)
 	z := []float64{0}
-	for i := 1; i <= p.SubstrateCells; i++ {
-		z = append(z, float64(i)*h/float64(p.SubstrateCells))
+	for i := 1; i <= nsub; i++ {
+		z = append(z, float64(i)*h/float64(nsub))
 	}
-	g.KH = p.SubstrateCells
+	g.KH = nsub
 	top := h + math.Max(6*h, 3*wport)
 	for s := dz; z[len(z)-1] < top; {
 		s = math.Min(s*p.Grading, dmaxAir)
