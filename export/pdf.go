@@ -127,6 +127,7 @@ func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOp
 	d := &doc{pdf: f, pg: pg, rep: rep, opt: opt, total: total}
 	d.boardSheets(b, plan)
 	d.dataSheets(b)
+	d.structuresSheet()
 	if opt.FabNotes != nil {
 		d.fabNotesSheet(*opt.FabNotes)
 	}

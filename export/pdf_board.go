@@ -22,6 +22,16 @@ type boardModel struct {
 	stubs   []stubMM
 	centreY float64
 	ports   [2]ptMM
+	trims   []trimMM
+}
+
+// trimMM is the row of trim ticks of a stub drawn with a trim allowance:
+// tick k at at[k], running across the stub (dir is the stub's direction
+// toward its drawn end, a unit vector), tick 0 at the design length.
+type trimMM struct {
+	at     []ptMM
+	dir    ptMM
+	across float64
 }
 
 type ptMM struct{ x, y float64 }
@@ -117,6 +127,15 @@ func newBoardModel(lay geom.Layout) (boardModel, error) {
 	for _, bd := range lay.Marks.Bends {
 		bends[bd.StubID] = bd
 	}
+	designEnd := map[string]geom.Trim{}
+	for _, tr := range lay.Marks.Trims {
+		tm := trimMM{dir: ptMM{float64(tr.Dir.X), float64(tr.Dir.Y)}, across: nmToMM(tr.Across)}
+		for k := 0; k <= tr.Ticks; k++ {
+			tm.at = append(tm.at, ptOf(tr.Tick(k)))
+		}
+		b.trims = append(b.trims, tm)
+		designEnd[tr.StubID] = tr
+	}
 	for _, e := range lay.Marks.Elements {
 		r := e.Rect
 		switch e.Kind {
@@ -135,6 +154,11 @@ func newBoardModel(lay geom.Layout) (boardModel, error) {
 			if bd, ok := bends[e.ID]; ok {
 				b.stubs = append(b.stubs, bentStub(s, bd, lay.Vias, b.vias))
 				continue
+			}
+			if tr, ok := designEnd[e.ID]; ok {
+				// Dimension the design length, to tick 0; the
+				// allowance beyond it carries the trim ticks.
+				s.tip = nmToMM(tr.DesignEnd.Y)
 			}
 			s.end = s.tip
 			for i, v := range lay.Vias {

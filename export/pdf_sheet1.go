@@ -293,6 +293,7 @@ func (d *doc) drawBoard(b boardModel, v view, measured bool, bounds rect, option
 		f.Line(v.X(via.c.x)-0.8, v.Y(via.c.y), v.X(via.c.x)+0.8, v.Y(via.c.y))
 		f.Line(v.X(via.c.x), v.Y(via.c.y)-0.8, v.X(via.c.x), v.Y(via.c.y)+0.8)
 	}
+	d.trimTicks(b, v)
 	d.centreLines(k, b, v)
 	d.portLabels(k, b, v)
 	d.boardDims(k, b, v)
@@ -510,4 +511,26 @@ func padOf(s stubMM) float64 {
 		return 0
 	}
 	return s.via.pad
+}
+
+// trimTicks draws the trim ticks of the stubs drawn with a trim allowance:
+// a line across the stub at every tick, tick 0 (the design length) longer
+// and heavier, so that the bench can cut back to a tick.
+func (d *doc) trimTicks(b boardModel, v view) {
+	f := d.pdf
+	setDraw(f, colInk)
+	for _, t := range b.trims {
+		for k, p := range t.at {
+			half := 0.5*t.across + 0.6
+			f.SetLineWidth(0.12)
+			if k == 0 {
+				half += 0.8
+				f.SetLineWidth(0.3)
+			}
+			// across the stub: perpendicular to its direction
+			ax, ay := -t.dir.y*half, t.dir.x*half
+			f.Line(v.X(p.x-ax), v.Y(p.y-ay), v.X(p.x+ax), v.Y(p.y+ay))
+		}
+	}
+	f.SetLineWidth(0.12)
 }

@@ -456,6 +456,7 @@ func (d *doc) notes(x, y, w float64) {
 		items []string
 	}
 	blocks := []block{
+		{"Sensitivity at the bench (what one step moves)", colInk, sensitivityLines(d.rep.Sensitivity)},
 		{"RF safety", colWarn, Cautions()},
 		{"Notes", colInk, d.rep.Notes},
 		{"Warnings", colWarn, d.rep.Warnings},
@@ -516,4 +517,15 @@ func histBins(xs []float64, n int) histBinsT {
 		h.counts[min(max(k, 0), n-1)]++
 	}
 	return h
+}
+
+// sensitivityLines words the sensitivity table for the drawing, one line
+// per element and quantity.
+func sensitivityLines(sens []ReportSensitivity) []string {
+	var out []string
+	for _, s := range sens {
+		out = append(out, minus(fmt.Sprintf("%s, %s: best match %+.2f MHz; |S11| at f0 becomes %s",
+			s.ID, s.Step, s.BestMatchShiftMHz, ModelDB(s.S11DBF0AfterStep))))
+	}
+	return out
 }
