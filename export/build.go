@@ -23,8 +23,8 @@ type Artefact struct {
 type FileOptions struct {
 	Version string    // the tool version written into every file
 	Created time.Time // the creation date written into every file (SOURCE_DATE_EPOCH for reproducible output)
-	Page    string    // the drawing's paper, see DrawingOptions
-	Fit     string    // a board larger than the page, see DrawingOptions
+	Page    PageSize  // the drawing's paper, see DrawingOptions
+	Fit     Fit       // a board larger than the page, see DrawingOptions
 }
 
 // Files lists every file of a built design (the result of synth.Build,

@@ -7,6 +7,7 @@ import (
 	"math"
 	"sort"
 	"strings"
+	"stubcraft/stackups"
 
 	"stubcraft/synth"
 	"stubcraft/synth/geom"
@@ -102,7 +103,7 @@ func NewFabNotes(res *synth.Result, rep Report, lay geom.Layout) FabNotes {
 	if st.LayerPair() {
 		ref = "L2 inner ground plane"
 	}
-	if st.Line == "gcpw" {
+	if st.Line == stackups.GCPW {
 		ref += fmt.Sprintf(" and the coplanar ground on L1 at %s mm gap", mmText(geom.Nanometres(st.Gap)))
 	}
 	for _, e := range rep.Elements {

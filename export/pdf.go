@@ -14,15 +14,59 @@ import (
 	"stubcraft/synth/geom"
 )
 
+// PageSize is the paper of the drawing, portrait.
+type PageSize string
+
+// Page sizes.
+const (
+	A4     PageSize = "a4"
+	Letter PageSize = "letter"
+)
+
+// String returns the name ParsePageSize reads.
+func (p PageSize) String() string { return string(p) }
+
+// ParsePageSize reads "a4" or "letter" (case ignored).
+func ParsePageSize(s string) (PageSize, error) {
+	switch p := PageSize(strings.ToLower(s)); p {
+	case A4, Letter:
+		return p, nil
+	}
+	return "", fmt.Errorf("page %q: use a4 or letter", s)
+}
+
+// Fit says what happens to a board that does not fit the page at 1:1.
+type Fit string
+
+// Fits.
+const (
+	// FitScale draws the board at a stated smaller scale, marked NOT TO
+	// SCALE 1:1.
+	FitScale Fit = "scale"
+	// FitTile draws it at 1:1 across several pages with overlap and glue
+	// marks.
+	FitTile Fit = "tile"
+)
+
+// String returns the name ParseFit reads.
+func (f Fit) String() string { return string(f) }
+
+// ParseFit reads "scale" or "tile" (case ignored).
+func ParseFit(s string) (Fit, error) {
+	switch f := Fit(strings.ToLower(s)); f {
+	case FitScale, FitTile:
+		return f, nil
+	}
+	return "", fmt.Errorf("fit %q: use scale or tile", s)
+}
+
 // DrawingOptions are the choices of the PDF drawing.
 type DrawingOptions struct {
-	// Page is the paper: "a4" (the default) or "letter", portrait.
-	Page string
-	// Fit says what happens to a board that does not fit the page at 1:1:
-	// "scale" (the default) draws it at a stated smaller scale, marked
-	// NOT TO SCALE 1:1; "tile" draws it at 1:1 across several pages with
-	// overlap and glue marks.
-	Fit string
+	// Page is the paper; "" is A4.
+	Page PageSize
+	// Fit says what happens to a board that does not fit the page at 1:1;
+	// "" is FitScale.
+	Fit Fit
 	// Created dates the drawing: the title block and the PDF's creation
 	// and modification dates. The caller takes it from SOURCE_DATE_EPOCH
 	// for reproducible output; the zero time is written as 1970-01-01.
@@ -40,15 +84,15 @@ type paper struct {
 	w, h float64
 }
 
-// paperOf returns the paper named by s.
-func paperOf(s string) (paper, error) {
-	switch strings.ToLower(s) {
-	case "", "a4":
+// paperOf returns the paper of p.
+func paperOf(p PageSize) (paper, error) {
+	switch p {
+	case "", A4:
 		return paper{"A4", 210, 297}, nil
-	case "letter":
+	case Letter:
 		return paper{"Letter", 215.9, 279.4}, nil
 	}
-	return paper{}, fmt.Errorf("drawing: page %q: want a4 or letter", s)
+	return paper{}, fmt.Errorf("drawing: page %q: want a4 or letter", p)
 }
 
 // WritePDF writes the dimensioned drawing of lay: sheet 1 (or sheets 1 to
@@ -63,11 +107,11 @@ func WritePDF(w io.Writer, rep Report, lay geom.Layout, opt DrawingOptions) erro
 	if err != nil {
 		return err
 	}
-	fit := strings.ToLower(opt.Fit)
+	fit := opt.Fit
 	if fit == "" {
-		fit = "scale"
+		fit = FitScale
 	}
-	if fit != "scale" && fit != "tile" {
+	if fit != FitScale && fit != FitTile {
 		return fmt.Errorf("drawing: fit %q: want scale or tile", opt.Fit)
 	}
 	b, err := newBoardModel(lay)

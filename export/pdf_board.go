@@ -319,7 +319,7 @@ func (b boardModel) extentsAt(s float64) extents {
 // planBoard chooses the scale (and tiles) for sheet 1 on paper pg.
 // reserve is the paper height kept under the drawing area for the
 // headline figures and the verdict.
-func planBoard(b boardModel, pg paper, fit string, reserve float64) boardPlan {
+func planBoard(b boardModel, pg paper, fit Fit, reserve float64) boardPlan {
 	m := pageMargin
 	x, y := m+3, m+headerH+3
 	area := rectMM{x, y, pg.w - 2*x, pg.h - m - titleBlockH - 3 - y - scaleStripH - reserve}
@@ -334,7 +334,7 @@ func planBoard(b boardModel, pg paper, fit string, reserve float64) boardPlan {
 		}
 		return p
 	}
-	if fit == "tile" {
+	if fit == FitTile {
 		p.tiled = true
 		cw, ch := p.canvas(b)
 		p.nx = tiles(cw, area.w)

@@ -108,7 +108,7 @@ func fixtureReport(ds drawingSpec) Report {
 
 // fixtureOptions are the drawing options of the tests.
 func fixtureOptions(page, fit string) DrawingOptions {
-	return DrawingOptions{Page: page, Fit: fit, Created: time.Date(2024, 5, 17, 8, 30, 0, 0, time.UTC), Version: "0.0.0-test"}
+	return DrawingOptions{Page: PageSize(page), Fit: Fit(fit), Created: time.Date(2024, 5, 17, 8, 30, 0, 0, time.UTC), Version: "0.0.0-test"}
 }
 
 // openStub is the default fixture: an open stub 9.876 mm long, 2.985 mm

@@ -7,6 +7,7 @@ import (
 	"math"
 	"math/cmplx"
 	"path/filepath"
+	"stubcraft/stackups"
 
 	"stubcraft/physical"
 	"stubcraft/synth"
@@ -253,19 +254,19 @@ func NewReport(r *synth.Result, version string) Report {
 		Bandwidth20DBHz: r.BW20.Width(), Band20DBHz: [2]float64{r.BW20.Lo, r.BW20.Hi},
 		Notes: nonNil(r.Notes), Warnings: nonNil(r.Warnings), Cautions: Cautions(),
 	}
-	rep.Stackup = ReportStackup{Name: st.Name, Line: st.Line, Er: st.Dielectric.Er, ErFrequencyHz: st.Dielectric.ErFrequency,
+	rep.Stackup = ReportStackup{Name: st.Name, Line: st.Line.String(), Er: st.Dielectric.Er, ErFrequencyHz: st.Dielectric.ErFrequency,
 		LossTangent: st.Dielectric.LossTangent, ThicknessMM: st.Dielectric.Thickness * 1e3,
 		CopperThicknessUM: st.Copper.Thickness * 1e6, RoughnessUM: st.Copper.Roughness * 1e6,
 		ConductivitySPerM: st.Copper.Conductivity}
 	rep.Stackup.ErF0, rep.Stackup.LossTangentF0 = r.Physical.Board.Sub.Er, r.Physical.Board.Sub.LossTangent
 	if rep.Stackup.Line == "" {
-		rep.Stackup.Line = "microstrip"
+		rep.Stackup.Line = stackups.Microstrip.String()
 	}
 	if st.Mask != nil {
 		t, e := st.Mask.Thickness*1e6, st.Mask.Er
 		rep.Stackup.MaskThicknessUM, rep.Stackup.MaskEr = &t, &e
 	}
-	if st.Line == "gcpw" {
+	if st.Line == stackups.GCPW {
 		g := st.Gap * 1e3
 		rep.Stackup.GapMM = &g
 	}

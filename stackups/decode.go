@@ -127,9 +127,11 @@ func (d *decoder) stackup(raw *rawFile) (Stackup, error) {
 	if s.Description, err = d.text("description", raw.Description, false); err != nil {
 		return Stackup{}, err
 	}
-	if s.Line, err = d.text("line", raw.Line, false); err != nil {
+	line, err := d.text("line", raw.Line, false)
+	if err != nil {
 		return Stackup{}, err
 	}
+	s.Line = LineKind(line) // checked by Validate
 	if raw.Line == nil {
 		s.Line = Microstrip
 	}

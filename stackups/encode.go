@@ -25,7 +25,7 @@ func Encode(w io.Writer, s Stackup) error {
 	if s.Description != "" {
 		kv("description", tomlx.Quote(s.Description))
 	}
-	kv("line", tomlx.Quote(s.Line))
+	kv("line", tomlx.Quote(s.Line.String()))
 	if s.Line == GCPW {
 		kv("gap", tomlx.Quote(formatLength(s.Gap)))
 	}

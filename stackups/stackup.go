@@ -1,19 +1,39 @@
 package stackups
 
-import "stubcraft/physical"
+import (
+	"strings"
+
+	"stubcraft/physical"
+)
+
+// LineKind is the kind of line a stackup carries.
+type LineKind string
 
 // Line kinds a stackup can carry.
 const (
-	Microstrip = "microstrip" // strip over a ground plane
-	GCPW       = "gcpw"       // grounded coplanar waveguide: side grounds at Gap, ground plane below
+	Microstrip LineKind = "microstrip" // strip over a ground plane
+	GCPW       LineKind = "gcpw"       // grounded coplanar waveguide: side grounds at Gap, ground plane below
 )
+
+// String returns the name a stackup file uses.
+func (k LineKind) String() string { return string(k) }
+
+// ParseLineKind reads "microstrip" or "gcpw" (case and surrounding space
+// ignored).
+func ParseLineKind(s string) (LineKind, error) {
+	k := LineKind(strings.ToLower(strings.TrimSpace(s)))
+	if err := checkLine(k); err != nil {
+		return "", err
+	}
+	return k, nil
+}
 
 // Stackup is one signal layer's cross-section as read from a stackup file.
 // Lengths are in metres, frequencies in hertz, conductivity in S/m.
 type Stackup struct {
-	Name        string  // short identifier, the preset name for a preset
-	Description string  // free text, may be empty
-	Line        string  // Microstrip or GCPW
+	Name        string // short identifier, the preset name for a preset
+	Description string // free text, may be empty
+	Line        LineKind
 	Gap         float64 // GCPW only: strip-to-side-ground gap, m; 0 for microstrip
 	Dielectric  Dielectric
 	Copper      Copper

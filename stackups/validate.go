@@ -60,7 +60,7 @@ func (s Stackup) checks() []check {
 	cs := []check{
 		{"name", textValue(s.Name), checkName(s.Name)},
 		{"description", textValue(s.Description), checkText("a description", s.Description)},
-		{"line", textValue(s.Line), checkLine(s.Line)},
+		{"line", textValue(s.Line.String()), checkLine(s.Line)},
 		checkGap(s.Line, s.Gap),
 		{"dielectric.er", numValue(d.Er), between("relative permittivity", d.Er, 1, maxEr, tomlx.Number)},
 		{"dielectric.er_frequency", freqValue(d.ErFrequency), checkErFrequency(d.ErFrequency)},
@@ -119,14 +119,14 @@ func checkText(what, s string) error {
 	return nil
 }
 
-func checkLine(line string) error {
+func checkLine(line LineKind) error {
 	if line != Microstrip && line != GCPW {
 		return fmt.Errorf("line must be %q or %q", Microstrip, GCPW)
 	}
 	return nil
 }
 
-func checkGap(line string, gap float64) check {
+func checkGap(line LineKind, gap float64) check {
 	c := check{key: "gap", value: lenValue(gap)}
 	switch {
 	case line == GCPW && gap == 0:

@@ -353,7 +353,7 @@ func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
 			break
 		}
 	}
-	if in.Stackup.Line == "gcpw" {
+	if in.Stackup.Line == stackups.GCPW {
 		r.Warnings = append(r.Warnings, "grounded coplanar lines: the T-junction, open-end and via models are microstrip models and only approximate the coplanar discontinuities; measure before trusting the last dB")
 	}
 

@@ -177,9 +177,9 @@ type Section struct {
 // LayoutSpec says how the copper is to be drawn.
 type LayoutSpec struct {
 	FeedLength float64    // feed line at each port, m
-	StubSide   string     // "up" or "down": the side of the through line the stub goes
+	StubSide   StubSide   // StubUp or StubDown: the side of the through line the stub goes
 	Margin     float64    // board margin around the copper, m
-	Mask       string     // MaskAuto (the default: follow the stackup), MaskOpen (a solder-mask window over the RF copper) or MaskCover (mask over it, the port pads open); see MaskRule
+	Mask       MaskMode   // MaskAuto (the default: follow the stackup), MaskOpen (a solder-mask window over the RF copper) or MaskCover (mask over it, the port pads open); see MaskRule
 	MaxBoard   [2]float64 // largest board, width and height, m; zero: no limit
 	ViaDrill   float64    // drill of the via of a shorted stub, m
 	ViaPad     float64    // pad around that via, m
@@ -268,7 +268,7 @@ const DefaultEdgeClearance = 0.3e-3
 
 // DefaultLayout returns the layout used when a design file has none.
 func DefaultLayout() LayoutSpec {
-	return LayoutSpec{FeedLength: 5e-3, StubSide: "up", Margin: 5e-3, Mask: MaskAuto, ViaDrill: 0.3e-3, ViaPad: 0.6e-3,
+	return LayoutSpec{FeedLength: 5e-3, StubSide: StubUp, Margin: 5e-3, Mask: MaskAuto, ViaDrill: 0.3e-3, ViaPad: 0.6e-3,
 		EdgeClearance: DefaultEdgeClearance}
 }
 

@@ -273,9 +273,9 @@ func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) De
 	d.Layout = DefaultLayout()
 	if l := tb.Layout; l != nil {
 		designRead(dd, "layout.feed_length", l.FeedLength, designLength, &d.Layout.FeedLength, "")
-		designRead(dd, "layout.stub_side", l.StubSide, designString, &d.Layout.StubSide, "")
+		designRead(dd, "layout.stub_side", l.StubSide, designWord[StubSide], &d.Layout.StubSide, "")
 		designRead(dd, "layout.margin", l.Margin, designLength, &d.Layout.Margin, "")
-		designRead(dd, "layout.mask", l.Mask, designString, &d.Layout.Mask, "")
+		designRead(dd, "layout.mask", l.Mask, designWord[MaskMode], &d.Layout.Mask, "")
 		designRead(dd, "layout.max_board", l.MaxBoard, designBoardSize, &d.Layout.MaxBoard, "")
 		designRead(dd, "layout.via_drill", l.ViaDrill, designLength, &d.Layout.ViaDrill, "")
 		designRead(dd, "layout.via_pad", l.ViaPad, designLength, &d.Layout.ViaPad, "")
@@ -457,6 +457,13 @@ func designInt(v any) (int, error) {
 		return 0, errors.New("out of range")
 	}
 	return int(n), nil
+}
+
+// designWord reads a string naming one of a set of options; Validate
+// checks it is one of them.
+func designWord[T ~string](v any) (T, error) {
+	s, err := designString(v)
+	return T(s), err
 }
 
 func designStubEnd(v any) (StubEnd, error) {

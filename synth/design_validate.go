@@ -218,8 +218,8 @@ func (c *designCheck) checkLayout(l LayoutSpec) {
 	if !(l.FeedLength > 0 && l.FeedLength <= MaxFeedLength) {
 		c.failErr("layout.feed_length", designMM(l.FeedLength), rangeError("the feed length must be more than 0 mm and at most %s, for example feed_length = \"5mm\"", formatMM(MaxFeedLength)))
 	}
-	if l.StubSide != "up" && l.StubSide != "down" {
-		c.fail("layout.stub_side", strconv.Quote(l.StubSide), "use up or down")
+	if _, err := ParseStubSide(l.StubSide.String()); err != nil {
+		c.failErr("layout.stub_side", strconv.Quote(l.StubSide.String()), err)
 	}
 	if !(l.Margin >= 0 && l.Margin <= MaxMargin) {
 		c.failErr("layout.margin", designMM(l.Margin), rangeError("the margin must be from 0 mm to %s, for example margin = \"5mm\"", formatMM(MaxMargin)))
@@ -232,8 +232,8 @@ func (c *designCheck) checkLayout(l LayoutSpec) {
 	} else if l.Margin < l.EdgeClearance {
 		c.fail("layout.margin", designMM(l.Margin), "the margin must be at least the edge clearance %s", designMM(l.EdgeClearance))
 	}
-	if l.Mask != MaskAuto && l.Mask != MaskOpen && l.Mask != MaskCover {
-		c.fail("layout.mask", strconv.Quote(l.Mask), "use auto (follow the stackup's [mask]), open (a window over the RF copper) or cover")
+	if _, err := ParseMaskMode(l.Mask.String()); err != nil {
+		c.failErr("layout.mask", strconv.Quote(l.Mask.String()), err)
 	}
 	if l.MaxBoard != [2]float64{} {
 		for i, v := range l.MaxBoard {

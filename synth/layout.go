@@ -3,6 +3,7 @@ package synth
 import (
 	"fmt"
 	"math"
+	"stubcraft/stackups"
 
 	"stubcraft/synth/geom"
 	"stubcraft/synth/tune"
@@ -27,7 +28,7 @@ const MaskExpansion = 50e-6
 func (r *Result) GeomSpec() geom.Spec {
 	d := r.Design
 	side := 1
-	if d.Layout.StubSide == "down" {
+	if d.Layout.StubSide == StubDown {
 		side = -1
 	}
 	s := geom.Spec{
@@ -39,7 +40,7 @@ func (r *Result) GeomSpec() geom.Spec {
 		MaxBoard:      d.Layout.MaxBoard,
 		Height:        r.Stackup.Dielectric.Thickness,
 		Er:            r.Stackup.Dielectric.Er,
-		Mask:          d.Layout.Mask,
+		Mask:          d.Layout.Mask.String(),
 		MaskExpansion: MaskExpansion,
 	}
 	var portWidth float64
@@ -61,7 +62,7 @@ func (r *Result) GeomSpec() geom.Spec {
 		}
 		s.Segments = append(s.Segments, geom.Segment{ID: e.ID, Width: e.Width, Length: e.DrawnLength})
 	}
-	if r.Stackup.Line == "gcpw" {
+	if r.Stackup.Line == stackups.GCPW {
 		// A coplanar ground pour at the stackup's gap, stitched at a
 		// twentieth of the guided wavelength or 2 mm, whichever is less.
 		s.CoplanarGap = r.Stackup.Gap

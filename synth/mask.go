@@ -1,20 +1,59 @@
 package synth
 
 import (
+	"errors"
+
 	"stubcraft/stackups"
 )
+
+// MaskMode is what the solder mask does over the RF copper ([layout] mask).
+type MaskMode string
 
 // Layout mask choices ([layout] mask).
 const (
 	// MaskAuto follows the stackup: a stackup with [mask] covers the line
 	// (the cross-section it is sized in), one without leaves it open.
-	MaskAuto = "auto"
+	MaskAuto MaskMode = "auto"
 	// MaskOpen draws a solder-mask window over the RF copper.
-	MaskOpen = "open"
+	MaskOpen MaskMode = "open"
 	// MaskCover covers the RF copper with mask; only the port pads are
 	// open.
-	MaskCover = "cover"
+	MaskCover MaskMode = "cover"
 )
+
+// String returns the word a design file uses.
+func (m MaskMode) String() string { return string(m) }
+
+// ParseMaskMode reads "auto", "open" or "cover".
+func ParseMaskMode(s string) (MaskMode, error) {
+	switch m := MaskMode(s); m {
+	case MaskAuto, MaskOpen, MaskCover:
+		return m, nil
+	}
+	return "", errors.New("use auto (follow the stackup's [mask]), open (a window over the RF copper) or cover")
+}
+
+// StubSide is the side of the through line the stubs go ([layout]
+// stub_side).
+type StubSide string
+
+// Stub sides.
+const (
+	StubUp   StubSide = "up"
+	StubDown StubSide = "down"
+)
+
+// String returns the word a design file uses.
+func (s StubSide) String() string { return string(s) }
+
+// ParseStubSide reads "up" or "down".
+func ParseStubSide(s string) (StubSide, error) {
+	switch v := StubSide(s); v {
+	case StubUp, StubDown:
+		return v, nil
+	}
+	return "", errors.New("use up or down")
+}
 
 // MaskRule settles the design's mask against the stackup so that the
 // line is sized for the cross-section that is drawn. It resolves

@@ -25,7 +25,7 @@ func NewSolverCacheDir(dir string) *SolverCache { return fieldsolve.NewCacheDir(
 // UsesFieldSolver reports whether lines on st need the field solver: the
 // closed forms know neither solder mask nor grounded coplanar lines.
 func UsesFieldSolver(st stackups.Stackup) bool {
-	return st.Mask != nil || st.Line == "gcpw"
+	return st.Mask != nil || st.Line == stackups.GCPW
 }
 
 // LineMakerFor returns the line model for strips on st: the closed-form

@@ -2,22 +2,24 @@ package main
 
 import (
 	"fmt"
-	"strings"
+
+	"stubcraft/export"
 )
 
 // pageSpec is how the drawing is printed.
 type pageSpec struct {
-	Size string // "a4" or "letter"
-	Fit  string // "scale" or "tile", for a board larger than the page at 1:1
+	Size export.PageSize
+	Fit  export.Fit // for a board larger than the page at 1:1
 }
 
 func parsePage(size, fit string) (pageSpec, error) {
-	p := pageSpec{Size: strings.ToLower(size), Fit: strings.ToLower(fit)}
-	if p.Size != "a4" && p.Size != "letter" {
-		return pageSpec{}, fmt.Errorf("--page %q: use a4 or letter", size)
+	var p pageSpec
+	var err error
+	if p.Size, err = export.ParsePageSize(size); err != nil {
+		return pageSpec{}, fmt.Errorf("--%w", err)
 	}
-	if p.Fit != "scale" && p.Fit != "tile" {
-		return pageSpec{}, fmt.Errorf("--fit %q: use scale or tile", fit)
+	if p.Fit, err = export.ParseFit(fit); err != nil {
+		return pageSpec{}, fmt.Errorf("--%w", err)
 	}
 	return p, nil
 }

@@ -36,7 +36,7 @@ ready to be copied and edited.`,
 				for _, s := range presets {
 					r := row{Name: s.Name, Er: s.Dielectric.Er, LossTangent: s.Dielectric.LossTangent,
 						ThicknessMM: s.Dielectric.Thickness * 1e3, CopperUM: s.Copper.Thickness * 1e6,
-						Line: s.Line, Description: s.Description}
+						Line: s.Line.String(), Description: s.Description}
 					if s.Mask != nil {
 						r.MaskUM = s.Mask.Thickness * 1e6
 					}
