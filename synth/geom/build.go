@@ -230,7 +230,41 @@ func Build(s Spec) (Layout, error) {
 	if s.LegendTitle != "" {
 		l.addLegend(s.LegendTitle, s.LegendNote, Nanometres(s.EdgeClearance))
 	}
+	l.addTrimTicks(Nanometres(s.MaskExpansion), Nanometres(s.EdgeClearance))
 	return l, nil
+}
+
+// Trim tick strokes on the legend, nm: beside the stub on both sides, off
+// its mask opening; tick 0 (the design length) longer than the others.
+const (
+	trimTickLen  = 800_000
+	trimTick0Len = 1_600_000
+)
+
+// addTrimTicks prints the trim ticks of Marks.Trims on the legend: at each
+// tick a short stroke on each side of the stub, clear of its copper and
+// mask opening, so that the bench can cut back to a tick under a loupe.
+// A tick that does not fit (another opening, the board edge) is left out.
+func (l *Layout) addTrimTicks(maskGrowth, edge int64) {
+	gap := maskGrowth + LegendClearance + LegendLine
+	for _, t := range l.Marks.Trims {
+		px, py := -t.Dir.Y, t.Dir.X // across the stub
+		for k := 0; k <= t.Ticks; k++ {
+			p := t.Tick(k)
+			n := int64(trimTickLen)
+			if k == 0 {
+				n = trimTick0Len
+			}
+			for _, side := range []int64{1, -1} {
+				a := t.Across/2 + gap
+				s := Stroke{
+					{p.X + side*px*a, p.Y + side*py*a},
+					{p.X + side*px*(a+n), p.Y + side*py*(a+n)},
+				}
+				l.AddLegend([]Stroke{s}, edge)
+			}
+		}
+	}
 }
 
 // addLegend places the title (and the note after it, or on a line below

@@ -45,3 +45,40 @@ func TestTrimAllowance(t *testing.T) {
 		t.Error("a shorted stub with a trim allowance was accepted")
 	}
 }
+
+// The legend carries a stroke on each side of the stub at every trim tick,
+// clear of the stub's copper (off the mask opening by AddLegend's rule).
+func TestTrimTicksOnLegend(t *testing.T) {
+	l, err := Build(Spec{
+		Name:     "trim",
+		Segments: []Segment{{"a", 2e-3, 10e-3}, {"b", 2e-3, 10e-3}},
+		Stubs:    []Stub{{ID: "s", At: 0, Width: 1e-3, Length: 6e-3, Side: 1, TrimAllowance: 1e-3}},
+		Margin:   4e-3,
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	tr := l.Marks.Trims[0]
+	for k := 0; k <= tr.Ticks; k++ {
+		p := tr.Tick(k)
+		sides := 0
+		for _, s := range l.Legend {
+			if len(s) == 2 && s[0].Y == p.Y && s[1].Y == p.Y {
+				if d := min(abs64(s[0].X-p.X), abs64(s[1].X-p.X)); d <= tr.Across/2 {
+					t.Errorf("tick %d: stroke %v reaches the stub's copper", k, s)
+				}
+				sides++
+			}
+		}
+		if sides != 2 {
+			t.Errorf("tick %d at y = %d nm: %d legend strokes, want one each side", k, p.Y, sides)
+		}
+	}
+}
+
+func abs64(v int64) int64 {
+	if v < 0 {
+		return -v
+	}
+	return v
+}
