@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"gonum.org/v1/plot/plotter"
+	"gonum.org/v1/plot/vg"
 )
 
 func TestWritePlots(t *testing.T) {
@@ -204,4 +205,74 @@ func TestThinPath(t *testing.T) {
 			t.Errorf("kept points %d and %d are %g apart", i-1, i, d)
 		}
 	}
+}
+
+func TestPlotPNGPixelsAsGonumWrites(t *testing.T) {
+	// The faster PNG encoding changes only the compression: the decoded
+	// pixels equal those of gonum/plot's own PNG writer (png.Encode at the
+	// default level) for the same plot.
+	rep := fixtureReport(openStub())
+	var got bytes.Buffer
+	if err := WritePlot(&got, rep, PlotS11, PNG); err != nil {
+		t.Fatal(err)
+	}
+	pl, err := s11Plot(rep)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wt, err := pl.WriterTo(16*vg.Centimeter, 10*vg.Centimeter, "png")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var want bytes.Buffer
+	if _, err := wt.WriteTo(&want); err != nil {
+		t.Fatal(err)
+	}
+	a, err := png.Decode(&got)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := png.Decode(&want)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a.Bounds() != b.Bounds() {
+		t.Fatalf("bounds %v, gonum's %v", a.Bounds(), b.Bounds())
+	}
+	for y := a.Bounds().Min.Y; y < a.Bounds().Max.Y; y++ {
+		for x := a.Bounds().Min.X; x < a.Bounds().Max.X; x++ {
+			if a.At(x, y) != b.At(x, y) {
+				t.Fatalf("pixel (%d, %d): %v, gonum's %v", x, y, a.At(x, y), b.At(x, y))
+			}
+		}
+	}
+}
+
+// BenchmarkPlotPNG renders the |S11| plot as PNG with gonum/plot's own
+// writer (png.Encode, default compression) and with WritePlot (the same
+// canvas at png.BestSpeed), a pair to compare in one run.
+func BenchmarkPlotPNG(b *testing.B) {
+	rep := fixtureReport(openStub())
+	b.Run("gonum-default", func(b *testing.B) {
+		for b.Loop() {
+			pl, err := s11Plot(rep)
+			if err != nil {
+				b.Fatal(err)
+			}
+			wt, err := pl.WriterTo(16*vg.Centimeter, 10*vg.Centimeter, "png")
+			if err != nil {
+				b.Fatal(err)
+			}
+			if _, err := wt.WriteTo(io.Discard); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("WritePlot", func(b *testing.B) {
+		for b.Loop() {
+			if err := WritePlot(io.Discard, rep, PlotS11, PNG); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
 }
