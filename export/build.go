@@ -64,6 +64,7 @@ func Files(res *synth.Result, opt FileOptions) []Artefact {
 	// The fab archive: the Gerbers, the drill and job files and the notes.
 	fab := append([]Artefact(nil), files[fabFrom:]...)
 	files = append(files, Artefact{FabZipFileName(base), func(w io.Writer) error { return WriteFabZip(w, fab, opt.Created) }})
+	files = append(files, Artefact{DXFFileName(base), func(w io.Writer) error { return WriteDXF(w, lay) }})
 	dopt := DrawingOptions{Page: opt.Page, Fit: opt.Fit, Created: opt.Created, Version: opt.Version, FabNotes: &notes}
 	files = append(files,
 		Artefact{"drawing.pdf", func(w io.Writer) error { return WritePDF(w, rep, lay, dopt) }},
