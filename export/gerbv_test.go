@@ -238,3 +238,18 @@ func TestGerbvExcellon(t *testing.T) {
 		t.Errorf("hole at (%.3f, %.3f) mm, want (%.3f, %.3f) mm", x, y, float64(v.X)*1e-6, float64(v.Y)*1e-6)
 	}
 }
+
+// TestGerbvLegend: gerbv reads the legend file without any message other
+// than its unknown-attribute notices, and draws ink.
+func TestGerbvLegend(t *testing.T) {
+	s := refSpec()
+	s.EdgeClearance, s.LegendTitle, s.LegendNote = 0.3e-3, "ref", "F0 2.45GHZ"
+	l := build(t, s)
+	if len(l.Legend) == 0 {
+		t.Fatal("no legend on the reference board")
+	}
+	files := gerberFiles(t, l)
+	if n, _, _ := lit(render(t, files, LegendTop.FileName(l.Name)), 0); n == 0 {
+		t.Error("gerbv drew no legend ink")
+	}
+}
