@@ -284,11 +284,20 @@ func (d *doc) smith(x, y, w, h float64) {
 	}
 	f.Line(cx-R, cy, cx+R, cy)
 	f.ClipEnd()
+	// The grid values are fixed text the f0 labels keep clear of.
+	k := &ink{f: f, pl: newPlacer(pdfWidth(f), rect{x, y, x + w, y + h})}
+	em := 4.8 * 25.4 / 72
+	fixed := func(s string, bx, by float64) {
+		f.Text(bx, by, s)
+		k.pl.reserve(rect{bx, by - ascentEm*em, bx + f.GetStringWidth(s), by + descentEm*em})
+	}
 	f.SetFont(fontSans, "", 4.8)
 	setText(f, colMuted)
 	for _, v := range smithValues() {
 		px, py := P(gammaOf(complex(v, 0)))
-		f.Text(px+0.4, py-0.5, trimFloat(v))
+		fixed(trimFloat(v), px+0.4, py-0.5)
+		f.SetFont(fontSans, "", 4.8)
+		setText(f, colMuted)
 		for _, s := range []float64{1, -1} {
 			gx, gy := P(gammaOf(complex(0, s*v)))
 			t := trimFloat(s*v) + "j"
@@ -298,7 +307,7 @@ func (d *doc) smith(x, y, w, h float64) {
 			dx := (gx - cx) / R * 2.4
 			dy := (gy - cy) / R * 2.4
 			tw := f.GetStringWidth(t)
-			f.Text(gx+dx-tw/2, gy+dy+0.8, t)
+			fixed(t, gx+dx-tw/2, gy+dy+0.8)
 		}
 	}
 	sw := d.rep.Sweep
@@ -323,13 +332,17 @@ func (d *doc) smith(x, y, w, h float64) {
 		if i0 >= 0 && i0 < len(re) {
 			px, py := P(complex(re[i0], im[i0]))
 			f.Circle(px, py, 0.9, "F")
-			label(f, name, px+1.6, py-1.6, "L", noteFontPt, col)
+			k.group()
+			k.text(labelReq{lines: []string{name}, pt: noteFontPt, col: col, anchor: ptMM{px, py},
+				spots: []spot{{x: px + 1.6, y: py - 1.6, align: 'L'}, {x: px + 1.6, y: py + 1.9, align: 'L'},
+					{x: px - 1.6, y: py - 1.6, align: 'R'}, {x: px - 1.6, y: py + 1.9, align: 'R'}}})
 		}
 		px, py := P(complex(re[0], im[0]))
 		f.Rect(px-0.5, py-0.5, 1, 1, "F")
 	}
 	trace(sw.LoadRe, sw.LoadIm, colCurveB, "load at f0")
 	trace(sw.S11Re, sw.S11Im, colCurveA, "input at f0")
+	k.flush()
 	ly := cy + R + 3.5
 	f.SetFont(fontSans, "", 5.5)
 	legend := []struct {

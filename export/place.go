@@ -198,6 +198,9 @@ func (p *placer) line(kind, owner int, x1, y1, x2, y2 float64) {
 	p.add(newObstacle(kind, owner, false, ptMM{x1, y1}, ptMM{x2, y2}))
 }
 
+// reserve marks r as taken by fixed text.
+func (p *placer) reserve(r rect) { p.texts = append(p.texts, r) }
+
 // boxAt is the extent of the label's text at spot s.
 func (p *placer) boxAt(l labelReq, s spot) rect {
 	em := l.pt * 25.4 / 72

@@ -45,6 +45,8 @@ func drawingMatrix() []struct {
 		{"coplanar", []string{filepath.Join(td, "designs", "gcpw-probe.toml")}},
 		{"double-stub", []string{filepath.Join(td, "designs", "double-stub-sections.toml")}},
 		{"mismatch", []string{filepath.Join(td, "designs", "sensor-antenna-sections.toml")}},
+		{"band-double-stub", []string{filepath.Join(td, "designs", "band-double-stub.toml")}},
+		{"band-quarter-wave", []string{filepath.Join(td, "designs", "band-quarter-wave.toml")}},
 	}
 }
 
