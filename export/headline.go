@@ -3,6 +3,8 @@ package export
 import (
 	"fmt"
 	"strings"
+
+	"stubcraft/physical/units"
 )
 
 // ModelFloorDB is the |S11| below which a simulated figure is printed as
@@ -39,9 +41,12 @@ type ReportSummary struct {
 	AsBuiltP50S11DB *float64 `json:"as_built_median_s11_db_f0,omitempty"`
 	AsBuiltP90S11DB *float64 `json:"as_built_p90_s11_db_f0,omitempty"`
 	ModelS11DBF0    float64  `json:"model_s11_db_f0_floored"`
-	ModelFloorDB    float64  `json:"model_floor_db"`
-	Verdict         string   `json:"verdict"`
-	VerdictWarnings []string `json:"verdict_warnings"`
+	// ModelWorstBandDB is the model's worst |S11| across [match] band
+	// (nominal board), when the design gives a band.
+	ModelWorstBandDB *float64 `json:"model_worst_s11_db_band,omitempty"`
+	ModelFloorDB     float64  `json:"model_floor_db"`
+	Verdict          string   `json:"verdict"`
+	VerdictWarnings  []string `json:"verdict_warnings"`
 }
 
 // verdictLossDB is the network loss at f0 from which the verdict says the
@@ -58,6 +63,10 @@ func summarize(rep *Report) {
 	if t := rep.Tolerance; t != nil && t.Samples > 0 {
 		p50, p90 := t.P50S11DB, t.P90S11DB
 		s.AsBuiltBoards, s.AsBuiltP50S11DB, s.AsBuiltP90S11DB = t.Samples, &p50, &p90
+	}
+	if b := rep.Band; b != nil {
+		v := b.WorstS11DB
+		s.ModelWorstBandDB = &v
 	}
 	switch {
 	case rep.S11DBF0 > -10:
@@ -84,6 +93,9 @@ func summarize(rep *Report) {
 func Headline(rep Report) string {
 	s := rep.Summary
 	model := "model (nominal board): |S11| at f0 " + ModelDB(rep.S11DBF0)
+	if b := rep.Band; b != nil && s.ModelWorstBandDB != nil {
+		model += ", worst in " + units.FormatFrequencyRange(b.StartHz, b.StopHz, 4) + " " + ModelDB(*s.ModelWorstBandDB)
+	}
 	if s.AsBuiltP50S11DB == nil {
 		return "as built: not predicted (no tolerance analysis); " + model
 	}
