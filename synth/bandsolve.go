@@ -69,7 +69,7 @@ func SolveBand(load Load, z0, f1, f2 float64, topology string, end StubEnd, sect
 		mc := m
 		mc.Sections = c.Sections
 		if c.Pick > 0 {
-			mc.Pick = fmt.Sprint(c.Pick)
+			mc.Pick = Pick(c.Pick)
 		}
 		secs, _, err := d.matchSections(mc, c.Topology, c.End, zl, ElectricalOptions{})
 		if err != nil {

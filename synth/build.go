@@ -307,7 +307,7 @@ func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
 		m := d.Match.Resolved()
 		m.Sections = c.Sections
 		if c.Pick > 0 {
-			m.Pick = fmt.Sprint(c.Pick)
+			m.Pick = Pick(c.Pick)
 		}
 		var opt ElectricalOptions
 		if c.Topology == TopologyDoubleStub {

@@ -54,7 +54,7 @@ type LoadSpec struct {
 type MatchSpec struct {
 	Topology string  // one of Topologies
 	End      StubEnd // stub termination
-	Pick     string  // "shortest", "1" or "2", as read by Pick
+	Pick     Pick    // which solution of the solve
 	StubZ0   float64 // stub impedance, ohm (default: the design z0)
 	LineZ0   float64 // series line impedance, ohm (default: the design z0)
 
@@ -102,7 +102,7 @@ const (
 // give them: open stubs, the shortest solution, lines and stubs of z0, a
 // two-section Chebyshev transformer, stubs 3λ/8 apart, the worst case.
 func DefaultMatch(z0 float64) MatchSpec {
-	return MatchSpec{Pick: "shortest", StubZ0: z0, LineZ0: z0, Response: Chebyshev, Sections: 2,
+	return MatchSpec{Pick: PickShortest, StubZ0: z0, LineZ0: z0, Response: Chebyshev, Sections: 2,
 		SpacingDeg: DefaultStubSpacingDeg, Objective: ObjectiveWorst}
 }
 

@@ -483,14 +483,14 @@ func designSectionKind(v any) (SectionKind, error) {
 }
 
 // designPick reads "shortest", "1", "2", 1 or 2.
-func designPick(v any) (string, error) {
+func designPick(v any) (Pick, error) {
 	switch x := v.(type) {
 	case int64:
-		return strconv.FormatInt(x, 10), nil
+		return ParsePick(strconv.FormatInt(x, 10))
 	case string:
-		return strings.ToLower(strings.TrimSpace(x)), nil
+		return ParsePick(x)
 	}
-	return "", errors.New(`want "shortest", 1 or 2`)
+	return 0, errors.New(`want "shortest", 1 or 2`)
 }
 
 // designBand reads ["2.4GHz", "2.4835GHz"].

@@ -69,7 +69,7 @@ func TestDecodeDesignFull(t *testing.T) {
 	if d.Name != "sensor-antenna-match" || d.Stackup != "fr4-1.6mm" || d.StackupRef() != "fr4-1.6mm" {
 		t.Errorf("name %q, stackup %q (%q)", d.Name, d.Stackup, d.StackupRef())
 	}
-	if d.Match.Topology != "shunt-stub" || d.Match.End != Open || d.Match.Pick != "shortest" || d.Sections != nil {
+	if d.Match.Topology != "shunt-stub" || d.Match.End != Open || d.Match.Pick != PickShortest || d.Sections != nil {
 		t.Errorf("match %+v, sections %v", d.Match, d.Sections)
 	}
 	if d.Layout.StubSide != "down" || d.Layout.Mask != "cover" || d.Load.Touchstone != "" {
@@ -90,7 +90,7 @@ func TestDecodeDesignDefaults(t *testing.T) {
 	if !designNear(d.Sweep.Start, 640.5e6) || !designNear(d.Sweep.Stop, 1189.5e6) || d.Sweep.Points != 401 {
 		t.Errorf("sweep %+v", d.Sweep)
 	}
-	if d.Match.Pick != "2" || d.Match.End != Short || d.Match.StubZ0 != 50 || d.Match.LineZ0 != 50 {
+	if d.Match.Pick != 2 || d.Match.End != Short || d.Match.StubZ0 != 50 || d.Match.LineZ0 != 50 {
 		t.Errorf("match %+v", d.Match)
 	}
 }
@@ -342,7 +342,7 @@ func TestValidateBuiltDesign(t *testing.T) {
 	good := Design{
 		Name: "code", Freq: 2.45e9, Z0: 50, Stackup: "fr4-1.6mm",
 		Load:   LoadSpec{Impedance: complex(22, -31)},
-		Match:  &MatchSpec{Topology: "shunt-stub", End: Short, Pick: "1", StubZ0: 50, LineZ0: 50},
+		Match:  &MatchSpec{Topology: "shunt-stub", End: Short, Pick: 1, StubZ0: 50, LineZ0: 50},
 		Layout: DefaultLayout(), Fab: DefaultFab(), Sweep: DefaultSweep(2.45e9), Tolerance: DefaultTolerance(),
 	}
 	if err := good.Validate(); err != nil {

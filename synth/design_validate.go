@@ -180,8 +180,8 @@ func (c *designCheck) checkMatch(m MatchSpec) {
 	if m.End != Open && m.End != Short {
 		c.fail("match.stub", "", "the stub end must be open or short")
 	}
-	if _, err := Pick([]StubSolution{{}, {}}, m.Pick); err != nil {
-		c.failErr("match.pick", strconv.Quote(m.Pick), err)
+	if _, err := PickSolution([]StubSolution{{}, {}}, m.Pick); err != nil {
+		c.failErr("match.pick", strconv.Quote(m.Pick.String()), err)
 	}
 	c.checkZ0("match.stub_z0", m.StubZ0, "stub impedance")
 	c.checkZ0("match.line_z0", m.LineZ0, "line impedance")
@@ -361,7 +361,7 @@ func (d Design) matchSections(m MatchSpec, topology string, end StubEnd, zl comp
 		if err != nil {
 			return nil, nil, fmt.Errorf("%s: %w", d.Source, err)
 		}
-		s, err := Pick(sols, m.Pick)
+		s, err := PickSolution(sols, m.Pick)
 		if err != nil {
 			return nil, nil, fmt.Errorf("%s: match.pick: %w", d.Source, err)
 		}
@@ -391,7 +391,7 @@ func (d Design) matchSections(m MatchSpec, topology string, end StubEnd, zl comp
 			return nil, nil, fmt.Errorf("%s: %w", d.Source, err)
 		}
 		s := sols[0]
-		if p, perr := strconv.Atoi(m.Pick); perr == nil && p >= 1 && p <= len(sols) {
+		if p := int(m.Pick); p >= 1 && p <= len(sols) {
 			s = sols[p-1]
 		}
 		notes = append(notes, fmt.Sprintf("double-stub match: %.2f° of %g ohm line, %s stub %.2f°, %.2f° spacing, %s stub %.2f° (of %d solutions)",

@@ -250,15 +250,41 @@ func matchNorm180(deg float64) float64 {
 	return v
 }
 
-// Pick chooses one of solutions: "shortest" (the least total electrical
-// length, line plus stub; the first on a tie), or "1" or "2" (the solution
-// at that place in the list, counted from 1).
-func Pick(solutions []StubSolution, pick string) (StubSolution, error) {
+// Pick says which solution of a solve to take: PickShortest, or Pick(n)
+// for the n-th solution of the list, counted from 1.
+type Pick int
+
+// PickShortest takes the solution with the least total electrical length
+// (line plus stub; the first on a tie).
+const PickShortest Pick = 0
+
+// String returns the pick as a design file writes it: "shortest", "1", "2".
+func (p Pick) String() string {
+	if p == PickShortest {
+		return "shortest"
+	}
+	return strconv.Itoa(int(p))
+}
+
+// ParsePick reads "shortest" or a solution number from 1.
+func ParsePick(s string) (Pick, error) {
+	t := strings.ToLower(strings.TrimSpace(s))
+	if t == "shortest" {
+		return PickShortest, nil
+	}
+	n, err := strconv.Atoi(t)
+	if err != nil || n < 1 {
+		return 0, fmt.Errorf("unknown pick %q (use shortest, 1 or 2)", s)
+	}
+	return Pick(n), nil
+}
+
+// PickSolution chooses one of solutions as p says.
+func PickSolution(solutions []StubSolution, p Pick) (StubSolution, error) {
 	if len(solutions) == 0 {
 		return StubSolution{}, errors.New("there is no solution to pick from")
 	}
-	p := strings.ToLower(strings.TrimSpace(pick))
-	if p == "shortest" {
+	if p == PickShortest {
 		best := 0
 		for i, s := range solutions {
 			if s.TotalDeg() < solutions[best].TotalDeg() {
@@ -267,12 +293,9 @@ func Pick(solutions []StubSolution, pick string) (StubSolution, error) {
 		}
 		return solutions[best], nil
 	}
-	n, err := strconv.Atoi(p)
-	if err != nil {
-		return StubSolution{}, fmt.Errorf("unknown pick %q (use shortest, 1 or 2)", pick)
-	}
+	n := int(p)
 	if n < 1 || n > len(solutions) {
-		return StubSolution{}, fmt.Errorf("pick %q: there are %d solutions", pick, len(solutions))
+		return StubSolution{}, fmt.Errorf("pick %q: there are %d solutions", p, len(solutions))
 	}
 	return solutions[n-1], nil
 }

@@ -259,7 +259,11 @@ func TestPick(t *testing.T) {
 		{sols[:1], "2", 0},
 	}
 	for _, c := range cases {
-		s, err := Pick(c.sols, c.pick)
+		p, err := ParsePick(c.pick)
+		var s StubSolution
+		if err == nil {
+			s, err = PickSolution(c.sols, p)
+		}
 		if c.wantDeg == 0 {
 			if err == nil {
 				t.Errorf("Pick(%q) = %+v, want an error", c.pick, s)

@@ -135,7 +135,7 @@ func runSolve(w io.Writer, o solveOptions) error {
 		return nil
 	}
 	fmt.Fprintf(w, "single shunt stub, %s end; line %g Ω, stub %g Ω\n\n", end, lineZ0, stubZ0)
-	shortest, _ := synth.Pick(sols, "shortest")
+	shortest, _ := synth.PickSolution(sols, synth.PickShortest)
 	var table strings.Builder
 	tw := tabwriter.NewWriter(&table, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "solution\tload→stub (λ)\tload→stub (°)\tstub (λ)\tstub (°)\tline+stub (°)\t\t")
