@@ -64,11 +64,23 @@ func WidthWith(mk LineMaker, sub physical.Substrate, z0, freq float64) (WidthRes
 	if !(sub.Height > 0) {
 		return WidthResult{}, fmt.Errorf("width synthesis: dielectric height must be positive, got %g m", sub.Height)
 	}
-	if r, ok, err := widthMapped(mk, sub, z0, freq); ok || err != nil {
+	r, ok, err := widthMapped(mk, sub, z0, freq)
+	if !ok && err == nil {
+		r, err = widthBracketed(mk, sub, z0, freq)
+	}
+	if err != nil {
 		return r, err
 	}
-	return widthBracketed(mk, sub, z0, freq)
+	if ms, closed := r.Model.(*physical.MicrostripModel); closed && ms.ThinStrip() {
+		return WidthResult{}, fmt.Errorf("%w: the %g Ω line would be %.3g µm wide on %.3g µm copper, narrower than thick, where the Hammerstad-Jensen thickness correction does not hold; use a lower impedance, thinner copper, or a stackup with [mask] so that the field solver sizes the strip",
+			ErrThinStrip, z0, r.Width*1e6, sub.CopperThickness*1e6)
+	}
+	return r, nil
 }
+
+// ErrThinStrip is wrapped by the refusal to size with the closed forms a
+// strip narrower than its copper is thick.
+var ErrThinStrip = errors.New("strip narrower than its copper is thick")
 
 // widthBracketed is WidthWith's bracketing search: from the Hammerstad
 // start width, out to a bracket in ln(width), closed by Brent's method.

@@ -90,6 +90,9 @@ func TestWidthRoundTrip(t *testing.T) {
 			for _, f := range []float64{0, 1 * GHz, 10 * GHz} {
 				name := fmt.Sprintf("εr %g h %g mm %g Ω %g GHz", sub.Er, sub.Height/mm, z0, f/GHz)
 				r, err := Width(sub, z0, f)
+				if errors.Is(err, ErrThinStrip) && sub.Er == 10.2 && z0 >= 100 {
+					continue // narrower than thick: refused (TestThinStrip)
+				}
 				if err != nil {
 					t.Errorf("%s: %v", name, err)
 					continue
