@@ -232,7 +232,8 @@ func TestMicrostripWarnings(t *testing.T) {
 		{"in range", 3 * mm, fr4, 2.45 * GHz, nil},
 		{"static only, narrow", 0.08 * mm, fr4, 0, nil},
 		{"narrow for KJ", 0.08 * mm, fr4, 1 * GHz, []string{"W/h = 0.05 is below 0.1, the Kirschning-Jansen dispersion range"}},
-		{"too narrow for HJ", 0.01 * mm, fr4, 0, []string{"Hammerstad-Jensen static range"}},
+		{"too narrow for HJ", 0.01 * mm, fr4, 0, []string{"Hammerstad-Jensen static range", "narrower than thick"}},
+		{"narrower than thick", 0.03 * mm, fr4, 0, []string{"30 µm wide on 35 µm copper, narrower than thick"}}, // outside the thickness correction (Hammerstad-Jensen 1980)
 		{"wide for KJ Z0", 32 * mm, fr4, 1 * GHz, []string{"W/h = 20 is above 10, the Kirschning-Jansen impedance-dispersion range"}},
 		{"high εr", 0.5 * mm, Substrate{Er: 25, Height: 0.5 * mm}, 1 * GHz, []string{"εr = 25 is above 20"}},
 		{"high f·h", 3 * mm, fr4, 12 * GHz, []string{"f·h = 19.2 GHz·mm is above 15"}},
