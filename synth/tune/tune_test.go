@@ -300,3 +300,37 @@ func TestFitRefusesForeignAndShortMeasurements(t *testing.T) {
 		t.Errorf("a measurement below f0: got %v, want a CoverageError naming the file", err)
 	}
 }
+
+// With FitLoad the fit also recovers a load that is not what was
+// measured: a load impedance 12 % higher, on a board with εr +3 % and
+// 10 µm of over-etch, with 0.2 dB of noise on |S11|; each fitted value
+// carries an uncertainty (zero only for noise-free data).
+func TestFitRecoversLoadScale(t *testing.T) {
+	m, lo, hi := buildModel(t, openStubDesign)
+	truth := tune.State{ErRatio: 1.03, Etch: 10e-6, LoadScale: 1.12}
+	r, err := m.Simulate(truth)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rng := rand.New(rand.NewPCG(3, 4))
+	meas := tune.Measurement{Source: "load-scaled.s1p"}
+	for i := 0; i <= 150; i++ {
+		f := lo + (hi-lo)*float64(i)/150
+		g, err := r.S11(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		noise := complex(math.Pow(10, 0.2*(2*rng.Float64()-1)/20), 0)
+		meas.Freqs, meas.S11 = append(meas.Freqs, f), append(meas.S11, g*noise)
+	}
+	fit, err := m.Fit(context.Background(), meas, tune.FitOptions{FitLoad: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(fit.State.LoadScale-truth.LoadScale) > 0.02 || math.Abs(fit.State.ErRatio-truth.ErRatio) > 0.01 || math.Abs(fit.State.Etch-truth.Etch) > 5e-6 {
+		t.Errorf("fitted %+v, truth %+v", fit.State, truth)
+	}
+	if !(fit.Sigma.LoadScale > 0 && fit.Sigma.ErRatio > 0 && fit.Sigma.Etch > 0) {
+		t.Errorf("no uncertainty for the load scale: %+v", fit.Sigma)
+	}
+}
