@@ -208,6 +208,9 @@ func ParseCopperThickness(s string) (float64, error) {
 			if errors.Is(ne.Err, ErrUnit) && caseHint(u, lengthName) == "" {
 				ne.Err = fmt.Errorf("%w %q (use mm, um, mil or oz)", ErrUnit, u)
 			}
+			if errors.Is(ne.Err, ErrNoUnit) {
+				ne.Err = fmt.Errorf("%w (for example %gum, or a weight such as 1oz)", ErrNoUnit, v)
+			}
 		}
 		return 0, err
 	}

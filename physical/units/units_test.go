@@ -318,3 +318,12 @@ func TestFormatImpedanceRoundTrip(t *testing.T) {
 		}
 	}
 }
+
+// A copper thickness without a unit suggests a thickness in micrometres or
+// a weight, never millimetres (35 mm of copper is not a board).
+func TestCopperThicknessNoUnitHint(t *testing.T) {
+	_, err := ParseCopperThickness("35")
+	if err == nil || !strings.Contains(err.Error(), "35um") || !strings.Contains(err.Error(), "1oz") || strings.Contains(err.Error(), "35mm") {
+		t.Errorf("ParseCopperThickness(%q): %v", "35", err)
+	}
+}
