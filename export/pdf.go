@@ -121,11 +121,13 @@ func WritePDF(w io.Writer, rep Report, lay geom.Layout, opt DrawingOptions) erro
 	plan := planBoard(b, pg, fit, headlineHeight(rep))
 	// The first pass counts the sheets for "sheet n of m"; the second
 	// writes them.
-	d, err := renderPDF(rep, b, plan, pg, opt, 0)
+	// It also finds the notes sheet the fab notes share, if any, so the
+	// second pass can title it.
+	d, err := renderPDF(rep, b, plan, pg, opt, 0, 0)
 	if err != nil {
 		return err
 	}
-	d, err = renderPDF(rep, b, plan, pg, opt, d.pdf.PageNo())
+	d, err = renderPDF(rep, b, plan, pg, opt, d.pdf.PageNo(), d.sharedPage)
 	if err != nil {
 		return err
 	}
@@ -144,11 +146,22 @@ type doc struct {
 	rep   Report
 	opt   DrawingOptions
 	total int // sheets in the drawing, 0 while counting
+	// titleShared is the sheet the first pass found the notes and the
+	// fab notes share (0: none); its title names both.
+	titleShared int
+	// notesPage is the notes continuation sheet the notes ended on (0:
+	// they ended on the data sheet) and notesEnd the y below them, mm.
+	notesPage int
+	notesEnd  float64
+	// sharedPage is the sheet the fab notes were put on below the notes
+	// (0: none).
+	sharedPage int
 }
 
 // renderPDF draws every sheet; total is the sheet count for the title
-// blocks (0 on the counting pass).
-func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOptions, total int) (*doc, error) {
+// blocks (0 on the counting pass) and shared the sheet the notes and the
+// fab notes share (0 for none or unknown).
+func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOptions, total, shared int) (*doc, error) {
 	f := gofpdf.New("P", "mm", pg.name, "")
 	f.SetCatalogSort(true)
 	f.SetCompression(true)
@@ -168,7 +181,7 @@ func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOp
 		// subsets, which would change the next drawing of the process.
 		f.AddUTF8FontFromBytes(ff.family, ff.style, bytes.Clone(ff.ttf))
 	}
-	d := &doc{pdf: f, pg: pg, rep: rep, opt: opt, total: total}
+	d := &doc{pdf: f, pg: pg, rep: rep, opt: opt, total: total, titleShared: shared}
 	d.boardSheets(b, plan)
 	d.dataSheets(b)
 	d.structuresSheet()

@@ -2,44 +2,76 @@ package export
 
 import (
 	"fmt"
+	"math"
 	"strings"
 )
 
-// fabNotesSheet draws the fab notes on a sheet of their own: the facts,
-// the controlled-impedance table, the drill table, the rules and the
-// files, as WriteFabNotes prints them.
+// fabNotesSheet draws the fab notes: below the notes on the last notes
+// continuation sheet when they fit in its free space, otherwise on a sheet
+// of their own. They hold the facts, the controlled-impedance table, the
+// drill table, the rules and the files, as WriteFabNotes prints them.
 func (d *doc) fabNotesSheet(n FabNotes) {
-	f := d.pdf
-	d.newSheet("Fabrication notes", n.Board)
 	x, y, w, h := d.contentBox()
 	bottom := y + h
+	if d.notesPage != 0 && d.notesPage == d.pdf.PageNo() {
+		const gap = 8.0
+		if need := d.fabNotes(n, x, 0, w, math.Inf(1), false); d.notesEnd+gap+need <= bottom {
+			d.sharedPage = d.pdf.PageNo()
+			f := d.pdf
+			y = d.notesEnd + gap - 3
+			setDraw(f, colAccent)
+			f.SetLineWidth(0.3)
+			f.Line(x, y, x+w, y)
+			f.SetFont(fontSans, "B", 10)
+			setText(f, colInk)
+			f.Text(x, y+5, "Fabrication notes")
+			d.fabNotes(n, x, y+6, w, bottom, true)
+			return
+		}
+	}
+	d.newSheet("Fabrication notes", n.Board)
+	d.fabNotes(n, x, y, w, bottom, true)
+}
+
+// fabNotes lays the fab notes out from y down to bottom, continuing on
+// further sheets, and returns the height they take. With draw false it
+// only measures: nothing is written and no sheet is added.
+func (d *doc) fabNotes(n FabNotes, x, y, w, bottom float64, draw bool) float64 {
+	f := d.pdf
+	y0, pages := y, 0
 	const lh = 3.4
+	text := func(tx, ty float64, s string) {
+		if draw {
+			f.Text(tx, ty, s)
+		}
+	}
 	next := func(dy float64) {
 		y += dy
 		if y > bottom-lh {
 			d.newSheet("Fabrication notes (continued)", n.Board)
 			_, y, _, _ = d.contentBox()
+			pages++
 		}
 	}
 	head := func(s string) {
 		next(2)
 		f.SetFont(fontSans, "B", 8.5)
 		setText(f, colAccent)
-		f.Text(x, y+3, s)
+		text(x, y+3, s)
 		next(5)
 		f.SetFont(fontSans, "", 7.5)
 		setText(f, colInk)
 	}
 	para := func(indent float64, s string) {
 		for _, line := range f.SplitText(s, w-indent) {
-			f.Text(x+indent, y+3, line)
+			text(x+indent, y+3, line)
 			next(lh)
 		}
 	}
 	head("Board")
 	for _, fa := range n.Facts {
 		f.SetFont(fontSans, "B", 7.5)
-		f.Text(x, y+3, fa[0])
+		text(x, y+3, fa[0])
 		f.SetFont(fontSans, "", 7.5)
 		para(32, fa[1])
 	}
@@ -47,7 +79,7 @@ func (d *doc) fabNotesSheet(n FabNotes) {
 	cols := []float64{0, 20, 38, 52, 72, 140}
 	row := func(cells ...string) {
 		for i, c := range cells {
-			f.Text(x+cols[i], y+3, c)
+			text(x+cols[i], y+3, c)
 		}
 		next(lh)
 	}
@@ -78,12 +110,16 @@ func (d *doc) fabNotesSheet(n FabNotes) {
 	}
 	head("Files")
 	for _, fl := range n.Files {
-		f.Text(x, y+3, clip(f.GetStringWidth, fl[0], w))
+		text(x, y+3, clip(f.GetStringWidth, fl[0], w))
 		if f.GetStringWidth(fl[0]) > 70 {
 			next(lh) // a long name: its function on the next line
 		}
 		para(72, fl[1])
 	}
+	if pages > 0 {
+		return math.Inf(1) // spread over sheets: no single height
+	}
+	return y - y0
 }
 
 // clip shortens s with an ellipsis to fit width w (mm) as measured by

@@ -474,12 +474,20 @@ func (d *doc) notes(x, y, w float64) {
 		{"Notes", colInk, d.rep.Notes},
 		{"Warnings", colWarn, d.rep.Warnings},
 	}
+	more := func() {
+		title := "Notes (continued)"
+		if d.pdf.PageNo()+1 == d.titleShared {
+			title = "Notes (continued) and fabrication notes"
+		}
+		d.newSheet(title, d.rep.Name)
+		d.notesPage = d.pdf.PageNo()
+	}
 	for _, b := range blocks {
 		if len(b.items) == 0 {
 			continue
 		}
 		if y+8 > bottom {
-			d.newSheet("Notes (continued)", d.rep.Name)
+			more()
 			_, y, _, _ = d.contentBox()
 		}
 		f.SetFont(fontSans, "B", 7.5)
@@ -490,7 +498,7 @@ func (d *doc) notes(x, y, w float64) {
 		for _, it := range b.items {
 			lines := f.SplitText(it, w-4)
 			if y+float64(len(lines))*lh > bottom {
-				d.newSheet("Notes (continued)", d.rep.Name)
+				more()
 				_, y, _, _ = d.contentBox()
 				f.SetFont(fontSans, "", 6.5)
 			}
@@ -503,6 +511,7 @@ func (d *doc) notes(x, y, w float64) {
 		}
 		y += 2
 	}
+	d.notesEnd = y
 }
 
 // histBinsT is a histogram: counts of equal bins from lo, each width wide.
