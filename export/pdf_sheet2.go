@@ -228,6 +228,21 @@ func (d *doc) s11Chart(x, y, w, h float64) {
 	d.frame(c, "Input match |S11| across the band", func(v float64) string { return minus(trimFloat(v)) })
 	dashed(f, c.x, c.Y(-10), c.x+w, c.Y(-10), colLimit)
 	label(f, "−10 dB", c.x+w-1, c.Y(-10)-1.8, "R", noteFontPt, colLimit)
+	if b := d.rep.Band; b != nil {
+		// The design band: its edges, and the goal across it.
+		b0, b1 := math.Max(lo, b.StartHz/1e9), math.Min(hi, b.StopHz/1e9)
+		if b1 > b0 {
+			dashed(f, c.X(b0), y, c.X(b0), y+h, colLimit)
+			dashed(f, c.X(b1), y, c.X(b1), y+h, colLimit)
+			label(f, "band", c.X(b0)-0.8, y+h-1.5, "R", noteFontPt, colLimit)
+			if g := b.GoalDB; g != nil && *g > ylo && *g < 0 {
+				f.SetLineWidth(0.35)
+				setDraw(f, colLimit)
+				f.Line(c.X(b0), c.Y(*g), c.X(b1), c.Y(*g))
+				label(f, minus(fmt.Sprintf("goal %g dB", *g)), c.X(b0)-0.8, c.Y(*g)+1, "R", noteFontPt, colLimit)
+			}
+		}
+	}
 	f0 := d.rep.FrequencyHz / 1e9
 	if f0 >= lo && f0 <= hi {
 		dashed(f, c.X(f0), y, c.X(f0), y+h, colCurveB)
