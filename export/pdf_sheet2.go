@@ -561,8 +561,14 @@ func histBins(xs []float64, n int) histBinsT {
 func sensitivityLines(sens []ReportSensitivity) []string {
 	var out []string
 	for _, s := range sens {
-		out = append(out, minus(fmt.Sprintf("%s, %s: best match %+.2f MHz; |S11| at f0 becomes %s",
-			s.ID, s.Step, s.BestMatchShiftMHz, ModelDB(s.S11DBF0AfterStep))))
+		move := ""
+		switch {
+		case s.WorstInBandDB != nil:
+			move = fmt.Sprintf("worst |S11| in the band becomes %.2f dB; ", *s.WorstInBandDB)
+		case s.BestMatchShiftMHz != nil:
+			move = fmt.Sprintf("best match %+.2f MHz; ", *s.BestMatchShiftMHz)
+		}
+		out = append(out, minus(fmt.Sprintf("%s, %s: %s|S11| at f0 becomes %s", s.ID, s.Step, move, ModelDB(s.S11DBF0AfterStep))))
 	}
 	return out
 }

@@ -162,8 +162,12 @@ type ReportSensitivity struct {
 	Quantity string `json:"quantity"`
 	// Step is the perturbation in words with its unit, e.g. "+0.1 mm".
 	Step string `json:"step"`
-	// BestMatchShiftMHz is the move of the best-match frequency per step.
-	BestMatchShiftMHz float64 `json:"best_match_shift_mhz_per_step"`
+	// BestMatchShiftMHz is the move of the best-match frequency per step;
+	// null for a band match, whose flat response has no best match.
+	BestMatchShiftMHz *float64 `json:"best_match_shift_mhz_per_step"`
+	// WorstInBandDB is, for a band match, the worst |S11| across the band
+	// after one step.
+	WorstInBandDB *float64 `json:"worst_s11_db_in_band_after_step,omitempty"`
 	// S11DBF0AfterStep is |S11| at f0 after one step, to first order.
 	S11DBF0AfterStep float64 `json:"s11_db_f0_after_step"`
 }
@@ -326,8 +330,16 @@ func NewReport(r *synth.Result, version string) Report {
 	}
 	rep.Sensitivity = []ReportSensitivity{}
 	for _, x := range r.Sensitivity {
-		rep.Sensitivity = append(rep.Sensitivity, ReportSensitivity{ID: x.ID, Quantity: x.Quantity.String(), Step: SensitivityStep(x.Quantity),
-			BestMatchShiftMHz: x.BestMatchShift / 1e6, S11DBF0AfterStep: physical.MagDB(x.S11F0)})
+		rs := ReportSensitivity{ID: x.ID, Quantity: x.Quantity.String(), Step: SensitivityStep(x.Quantity),
+			S11DBF0AfterStep: physical.MagDB(x.S11F0)}
+		if math.IsNaN(x.BestMatchShift) {
+			w := physical.MagDB(complex(x.WorstInBand, 0))
+			rs.WorstInBandDB = &w
+		} else {
+			mhz := x.BestMatchShift / 1e6
+			rs.BestMatchShiftMHz = &mhz
+		}
+		rep.Sensitivity = append(rep.Sensitivity, rs)
 	}
 	if b := r.Band; b != nil {
 		rep.Band = &ReportBand{StartHz: b.Start, StopHz: b.Stop, WorstS11DB: b.WorstS11DB, LoadFit: b.Fit.String(),

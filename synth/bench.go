@@ -38,6 +38,9 @@ func (r *Result) designModel() tune.Model {
 		Z0:    r.Design.Z0,
 		F0:    r.Design.Freq,
 	}
+	if r.Band != nil {
+		m.Band = [2]float64{r.Band.Start, r.Band.Stop}
+	}
 	for _, e := range r.Physical.Elements {
 		if e.Role == RoleStub {
 			m.StubIDs = append(m.StubIDs, e.ID)

@@ -121,7 +121,7 @@ func (r *Result) TrimNote(t geom.Trim) string {
 // match, MHz (from the length sensitivity, scaled to the tick pitch).
 func (r *Result) TickShift(id string) (float64, bool) {
 	for _, s := range r.Sensitivity {
-		if s.ID == id && s.Quantity == tune.Length {
+		if s.ID == id && s.Quantity == tune.Length && !math.IsNaN(s.BestMatchShift) {
 			return -s.BestMatchShift / 1e6 * float64(geom.TrimTickPitch) * 1e-9 / tune.LengthStep, true
 		}
 	}

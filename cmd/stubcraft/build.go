@@ -204,9 +204,20 @@ func printSensitivity(w io.Writer, sens []export.ReportSensitivity) error {
 	}
 	fmt.Fprintln(w, "\nsensitivity (per step; for the bench):")
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
-	fmt.Fprintln(tw, "element\tstep\tbest match (MHz)\t|S11| at f0 after (dB)\t")
+	if sens[0].WorstInBandDB != nil {
+		fmt.Fprintln(tw, "element\tstep\tworst in band after (dB)\t|S11| at f0 after (dB)\t")
+	} else {
+		fmt.Fprintln(tw, "element\tstep\tbest match (MHz)\t|S11| at f0 after (dB)\t")
+	}
 	for _, s := range sens {
-		fmt.Fprintf(tw, "%s\t%s\t%+.2f\t%s\t\n", s.ID, s.Step, s.BestMatchShiftMHz, export.ModelDB(s.S11DBF0AfterStep))
+		move := "-"
+		switch {
+		case s.WorstInBandDB != nil:
+			move = fmt.Sprintf("%.2f", *s.WorstInBandDB)
+		case s.BestMatchShiftMHz != nil:
+			move = fmt.Sprintf("%+.2f", *s.BestMatchShiftMHz)
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t\n", s.ID, s.Step, move, export.ModelDB(s.S11DBF0AfterStep))
 	}
 	return tw.Flush()
 }

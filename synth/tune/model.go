@@ -20,6 +20,11 @@ type Model struct {
 	Load func(freq float64) (complex128, error)
 	Z0   float64 // reference impedance, ohm
 	F0   float64 // design frequency, Hz
+	// Band, when set (Hz, start and stop), makes the design a band match:
+	// its sensitivities state the worst |S11| in the band after a step
+	// instead of a best-match frequency, which a flat broadband response
+	// does not have.
+	Band [2]float64
 	// ThroughIDs and StubIDs name Board.Through and Board.Stubs in order,
 	// for reports (the IDs of the build's elements).
 	ThroughIDs, StubIDs []string

@@ -3,6 +3,8 @@ package tune
 import (
 	"context"
 	"fmt"
+	"math"
+	"math/cmplx"
 
 	"stubcraft/physical"
 )
@@ -58,6 +60,27 @@ type Sensitivity struct {
 	// S11F0 is the predicted S11 at f0 after one step, to first order:
 	// S11(f0) + step·dS11/dp.
 	S11F0 complex128
+	// WorstInBand is, for a band match, the largest |S11| across the band
+	// after one whole step (simulated at BandPoints frequencies); then
+	// BestMatchShift is NaN.
+	WorstInBand float64
+}
+
+// BandPoints is the number of frequencies, band edges included, at which
+// the worst |S11| in a band is taken.
+const BandPoints = 61
+
+// worstInBand returns the largest |S11| of r across band.
+func (r Response) worstInBand(band [2]float64) (float64, error) {
+	worst := 0.0
+	for i := 0; i < BandPoints; i++ {
+		g, err := r.S11(band[0] + (band[1]-band[0])*float64(i)/(BandPoints-1))
+		if err != nil {
+			return 0, err
+		}
+		worst = max(worst, cmplx.Abs(g))
+	}
+	return worst, nil
 }
 
 // Sensitivities returns, for every element, how the best-match frequency
@@ -69,8 +92,11 @@ func (m Model) Sensitivities(ctx context.Context, lo, hi float64) ([]Sensitivity
 	if err != nil {
 		return nil, err
 	}
-	if _, _, err := base.BestMatch(lo, hi); err != nil {
-		return nil, fmt.Errorf("sensitivities: the drawn board: %w", err)
+	banded := m.Band[1] > m.Band[0]
+	if !banded {
+		if _, _, err := base.BestMatch(lo, hi); err != nil {
+			return nil, fmt.Errorf("sensitivities: the drawn board: %w", err)
+		}
 	}
 	s0, err := base.S11(m.F0)
 	if err != nil {
@@ -114,13 +140,25 @@ func (m Model) Sensitivities(ctx context.Context, lo, hi float64) ([]Sensitivity
 		if err != nil {
 			return nil, fmt.Errorf("sensitivity of %s to %s: %w", p.id, p.q, err)
 		}
-		fu, _, err := up.BestMatch(lo, hi)
-		if err != nil {
-			return nil, fmt.Errorf("sensitivity of %s to %s: %w", p.id, p.q, err)
-		}
-		fd, _, err := down.BestMatch(lo, hi)
-		if err != nil {
-			return nil, fmt.Errorf("sensitivity of %s to %s: %w", p.id, p.q, err)
+		shift, worst := math.NaN(), 0.0
+		if banded {
+			full, err := p.sim(step)
+			if err != nil {
+				return nil, fmt.Errorf("sensitivity of %s to %s: %w", p.id, p.q, err)
+			}
+			if worst, err = full.worstInBand(m.Band); err != nil {
+				return nil, fmt.Errorf("sensitivity of %s to %s: %w", p.id, p.q, err)
+			}
+		} else {
+			fu, _, err := up.BestMatch(lo, hi)
+			if err != nil {
+				return nil, fmt.Errorf("sensitivity of %s to %s: %w", p.id, p.q, err)
+			}
+			fd, _, err := down.BestMatch(lo, hi)
+			if err != nil {
+				return nil, fmt.Errorf("sensitivity of %s to %s: %w", p.id, p.q, err)
+			}
+			shift = (fu - fd) * step / (2 * h)
 		}
 		su, err := up.S11(m.F0)
 		if err != nil {
@@ -134,8 +172,9 @@ func (m Model) Sensitivities(ctx context.Context, lo, hi float64) ([]Sensitivity
 		out = append(out, Sensitivity{
 			ID:             p.id,
 			Quantity:       p.q,
-			BestMatchShift: (fu - fd) * scale,
+			BestMatchShift: shift,
 			S11F0:          s0 + (su-sd)*complex(scale, 0),
+			WorstInBand:    worst,
 		})
 	}
 	return out, nil

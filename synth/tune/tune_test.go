@@ -334,3 +334,38 @@ func TestFitRecoversLoadScale(t *testing.T) {
 		t.Errorf("no uncertainty for the load scale: %+v", fit.Sigma)
 	}
 }
+
+// For a band match the sensitivities state the worst |S11| across the band
+// after one whole step; an independent dense scan (801 points) of the
+// stepped board agrees within 0.05 dB, and no best-match shift is given.
+func TestBandSensitivities(t *testing.T) {
+	m, lo, hi := buildModel(t, openStubDesign)
+	m.Band = [2]float64{2.4e9, 2.5e9}
+	sens, err := m.Sensitivities(context.Background(), lo, hi)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, s := range sens {
+		if !math.IsNaN(s.BestMatchShift) {
+			t.Errorf("%s %s: best-match shift %g given for a band match", s.ID, s.Quantity, s.BestMatchShift)
+		}
+		if s.Quantity != tune.Er {
+			continue
+		}
+		b := m.Board
+		b.Sub.Er *= 1 + tune.ErStep
+		sim, err := physical.NewSim(b, m.Lines)
+		if err != nil {
+			t.Fatal(err)
+		}
+		worst := 0.0
+		for i := 0; i <= 800; i++ {
+			f := m.Band[0] + (m.Band[1]-m.Band[0])*float64(i)/800
+			zl, _ := m.Load(f)
+			worst = math.Max(worst, cmplx.Abs(sim.InputReflection(f, zl, m.Z0)))
+		}
+		if d := 20 * math.Log10(s.WorstInBand/worst); math.Abs(d) > 0.05 {
+			t.Errorf("worst in band after +1 %% εr: %.3f dB, dense scan %.3f dB", 20*math.Log10(s.WorstInBand), 20*math.Log10(worst))
+		}
+	}
+}
