@@ -95,20 +95,7 @@ func fullwaveSmithPlot(c FullwaveCurves) (*plot.Plot, error) {
 	p.Title.Text = fmt.Sprintf("%s: Smith chart, Z0 = %.4g Ω", c.Name, c.Z0)
 	p.HideAxes()
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = -1.1, 1.1, -1.1, 1.1
-	add := func(run []ptMM, col rgb, w float64) error {
-		xy := make(plotter.XYs, len(run))
-		for i, q := range run {
-			xy[i] = plotter.XY{X: q.x, Y: q.y}
-		}
-		l, err := plotter.NewLine(xy)
-		if err != nil {
-			return err
-		}
-		l.Color = colour(col)
-		l.Width = vg.Points(w)
-		p.Add(l)
-		return nil
-	}
+	add := func(run []ptMM, col rgb, w float64) error { return addRun(p, run, col, w) }
 	for _, run := range smithGrid(180) {
 		if err := add(run, colGrid, 0.6); err != nil {
 			return nil, err

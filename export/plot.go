@@ -228,20 +228,7 @@ func smithPlot(rep Report) (*plot.Plot, error) {
 	// Room under the disc for the legend, the same on x to keep it round.
 	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = -1.3, 1.3, -1.5, 1.1
 	p.Legend.Top, p.Legend.Left = false, true
-	add := func(run []ptMM, c rgb, w float64) error {
-		xy := make(plotter.XYs, len(run))
-		for i, q := range run {
-			xy[i] = plotter.XY{X: q.x, Y: q.y}
-		}
-		l, err := plotter.NewLine(xy)
-		if err != nil {
-			return err
-		}
-		l.Color = colour(c)
-		l.Width = vg.Points(w)
-		p.Add(l)
-		return nil
-	}
+	add := func(run []ptMM, c rgb, w float64) error { return addRun(p, run, c, w) }
 	for _, run := range smithGrid(180) {
 		if err := add(run, colGrid, 0.6); err != nil {
 			return nil, err
@@ -386,4 +373,21 @@ func arcRuns(c circle, n int) [][]ptMM {
 		runs = append(runs, cur)
 	}
 	return runs
+}
+
+// addRun draws a polyline of chart points (a Smith-chart grid line or
+// trace) on p in colour c, w points wide.
+func addRun(p *plot.Plot, run []ptMM, c rgb, w float64) error {
+	xy := make(plotter.XYs, len(run))
+	for i, q := range run {
+		xy[i] = plotter.XY{X: q.x, Y: q.y}
+	}
+	l, err := plotter.NewLine(xy)
+	if err != nil {
+		return err
+	}
+	l.Color = colour(c)
+	l.Width = vg.Points(w)
+	p.Add(l)
+	return nil
 }

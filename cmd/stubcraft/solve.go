@@ -149,9 +149,7 @@ func runSolve(w io.Writer, o solveOptions) error {
 	if err := tw.Flush(); err != nil {
 		return err
 	}
-	for _, ln := range strings.Split(strings.TrimRight(table.String(), "\n"), "\n") {
-		fmt.Fprintln(w, strings.TrimRight(ln, " "))
-	}
+	writeTrimmedLines(w, table.String())
 	fmt.Fprintln(w, "\nlengths are electrical, at the frequency the load was measured at")
 	return nil
 }
@@ -211,4 +209,12 @@ func solveJSON(zl complex128, z0, g, vswr, rl float64, sols []synth.StubSolution
 		})
 	}
 	return r
+}
+
+// writeTrimmedLines writes text line by line without the trailing blanks
+// a right-aligned tabwriter leaves.
+func writeTrimmedLines(w io.Writer, text string) {
+	for _, ln := range strings.Split(strings.TrimRight(text, "\n"), "\n") {
+		fmt.Fprintln(w, strings.TrimRight(ln, " "))
+	}
 }

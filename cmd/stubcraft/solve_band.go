@@ -117,9 +117,7 @@ func runSolveBand(w io.Writer, o solveOptions, b solveBandOptions) error {
 	if err := tw.Flush(); err != nil {
 		return err
 	}
-	for _, ln := range strings.Split(strings.TrimRight(table.String(), "\n"), "\n") {
-		fmt.Fprintln(w, strings.TrimRight(ln, " "))
-	}
+	writeTrimmedLines(w, table.String())
 	fmt.Fprintln(w, "\nideal lossless lines, lengths optimised for the worst |S11| at 41 points across the band; build a design to see the board")
 	return nil
 }
