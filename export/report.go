@@ -289,7 +289,7 @@ func NewReport(r *synth.Result, version string) Report {
 		re := ReportElement{ID: e.ID, Role: string(e.Role), Feed: e.Role == synth.RoleFeed, Z0Ohm: e.Z0, Z0F0Ohm: e.Params.Z0, EpsEffF0: e.Params.EpsEff,
 			WidthMM: e.Width * 1e3, ElectricalDeg: e.ElectricalDeg, LineLengthMM: e.LineLength * 1e3,
 			OpenEndMM: e.OpenEnd * 1e3, TeeMM: e.Tee * 1e3, StepMM: e.Step * 1e3, ViaMM: e.Via * 1e3, RecentreMM: e.Recentre * 1e3, TrimMM: e.Trim * 1e3,
-			DrawnLengthMM: e.DrawnLength * 1e3}
+			DrawnLengthMM: e.Drawn() * 1e3}
 		if re.Feed {
 			re.Role = string(synth.RoleLine)
 		}
@@ -388,7 +388,7 @@ func stubPositions(els []synth.Element) []float64 {
 	x := 0.0
 	for _, e := range els {
 		if e.Role != synth.RoleStub {
-			x += e.DrawnLength
+			x += e.Drawn()
 			cum = append(cum, x)
 		}
 	}

@@ -115,14 +115,14 @@ func (p Physical) Footprint() float64 {
 	length, wide, stub := 0.0, 0.0, 0.0
 	for _, e := range p.Elements {
 		if e.Role == RoleStub {
-			l := e.DrawnLength
+			l := e.Drawn()
 			if e.End == Short {
 				l += p.Board.Via.Pad / 2
 			}
 			stub = math.Max(stub, l)
 			continue
 		}
-		length += e.DrawnLength
+		length += e.Drawn()
 		wide = math.Max(wide, e.Width)
 	}
 	return length * (wide + stub)
@@ -170,7 +170,7 @@ func (r *Result) bandOptimise(ctx context.Context, mk, tmk physical.LineMaker, l
 	start := make([]float64, len(ph.Elements))
 	startW := make([]float64, len(ph.Elements))
 	for i, e := range ph.Elements {
-		start[i], startW[i] = e.DrawnLength, e.Width
+		start[i], startW[i] = e.Drawn(), e.Width
 	}
 	lg := ph.Elements[lenIdx[0]].Params.GuidedWavelength()
 	minLen := ph.minLengths()
@@ -321,8 +321,7 @@ func (r *Result) bandOptimise(ctx context.Context, mk, tmk physical.LineMaker, l
 	}
 	for k, i := range lenIdx {
 		e := &ph.Elements[i]
-		e.DrawnLength = start[i] + bestX[k]*lg
-		e.Recentre = e.DrawnLength - start[i]
+		e.Recentre = bestX[k] * lg
 		r.Recentre.IDs = append(r.Recentre.IDs, e.ID)
 		r.Recentre.Changes = append(r.Recentre.Changes, e.Recentre)
 	}

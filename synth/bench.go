@@ -132,7 +132,6 @@ func (r *Result) Trimmed(trims []tune.Trim) (*Result, error) {
 	for i := range q.Physical.Elements {
 		if e := &q.Physical.Elements[i]; e.Role == RoleStub && e.End == Open {
 			e.Trim += allowance
-			e.DrawnLength += allowance
 		}
 	}
 	for _, t := range trims {
@@ -143,11 +142,10 @@ func (r *Result) Trimmed(trims []tune.Trim) (*Result, error) {
 				continue
 			}
 			found = true
-			if e.DrawnLength-t.Cut <= 0 {
-				return nil, fmt.Errorf("trim of %s: cutting %.3f mm leaves nothing of its %.3f mm", t.ID, t.Cut*1e3, e.DrawnLength*1e3)
+			if e.Drawn()-t.Cut <= 0 {
+				return nil, fmt.Errorf("trim of %s: cutting %.3f mm leaves nothing of its %.3f mm", t.ID, t.Cut*1e3, e.Drawn()*1e3)
 			}
 			e.Trim -= t.Cut
-			e.DrawnLength -= t.Cut
 			q.Notes = append(q.Notes, fmt.Sprintf("%s cut by %.3f mm from its etched end at the bench (trim_mm is the change from the design length)", t.ID, t.Cut*1e3))
 		}
 		if !found {

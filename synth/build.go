@@ -442,7 +442,7 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 	}
 	start := make([]float64, len(idx))
 	for k, i := range idx {
-		start[k] = ph.Elements[i].DrawnLength
+		start[k] = ph.Elements[i].Drawn()
 	}
 	// The lengths are optimised in units of a guided wavelength so the
 	// simplex is well scaled.
@@ -463,7 +463,7 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 		through := ph.ThroughIndex()
 		if k := len(through) - 1; k >= 0 && ph.Elements[through[k]].Role == RoleFeed {
 			feed := ph.Elements[through[k]]
-			l := feed.DrawnLength
+			l := feed.Drawn()
 			for _, st := range ph.Elements {
 				if st.Role == RoleStub && st.At == k-1 {
 					arm := ph.Elements[through[k-1]]
@@ -483,7 +483,7 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 		var through, stubs []float64
 		k := 0
 		for i, e := range ph.Elements {
-			l := e.DrawnLength
+			l := e.Drawn()
 			if k < len(idx) && idx[k] == i {
 				l = start[k] + x[k]*lg
 				if l < minLen[i] || math.Abs(x[k]) > MaxRecentre {
@@ -539,7 +539,6 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 		e := &ph.Elements[i]
 		dl := res.X[k] * lg
 		e.Recentre = dl
-		e.DrawnLength = start[k] + dl
 		r.Recentre.IDs = append(r.Recentre.IDs, e.ID)
 		r.Recentre.Changes = append(r.Recentre.Changes, dl)
 	}

@@ -104,19 +104,29 @@ func TestCorrectionsConsistentWithSimulation(t *testing.T) {
 	}
 }
 
-// Every element's drawn length is its electrical line length plus the
-// listed corrections (the report's own identity, which the PDF and the
-// fab check rely on).
+// The board that is simulated carries, for every element, its line length
+// plus the listed corrections (the report's own identity, which the PDF and
+// the fab check rely on), after the re-centring changed them.
 func TestDrawnLengthIdentity(t *testing.T) {
 	for _, end := range []string{"open", "short"} {
 		r := build(t, strings.Replace(fr4Open, "%s", end, 1), "fr4-1.6mm", true)
+		b := r.Physical.Board
+		nt, ns := 0, 0
 		for _, e := range r.Physical.Elements {
-			sum := e.LineLength + e.OpenEnd + e.Tee + e.Via + e.Recentre
-			if math.Abs(sum-e.DrawnLength) > 1e-12 {
-				t.Errorf("%s %s: drawn %.6g m, parts sum to %.6g m", end, e.ID, e.DrawnLength, sum)
+			sum := e.LineLength + e.OpenEnd + e.Tee + e.Via + e.Step + e.Recentre + e.Trim
+			var board float64
+			if e.Role == RoleStub {
+				board = b.Stubs[ns].Length
+				ns++
+			} else {
+				board = b.Through[nt].Length
+				nt++
 			}
-			if e.DrawnLength <= 0 {
-				t.Errorf("%s %s: drawn length %.3g m", end, e.ID, e.DrawnLength)
+			if math.Abs(sum-board) > 1e-12 {
+				t.Errorf("%s %s: drawn on the board %.6g m, parts sum to %.6g m", end, e.ID, board, sum)
+			}
+			if e.Drawn() <= 0 {
+				t.Errorf("%s %s: drawn length %.3g m", end, e.ID, e.Drawn())
 			}
 		}
 		switch end {
@@ -208,8 +218,8 @@ func TestNegativeLengthMovesHalfWave(t *testing.T) {
 	}
 	// The 5 mm feed is longer than 10°; the rest of the line is negative
 	// until half a wavelength is added.
-	if want := 10 - feed.ElectricalDeg + 180; math.Abs(line.ElectricalDeg-want) > 1e-9 || line.DrawnLength <= 0 {
-		t.Errorf("line1: %.4f°, drawn %.3g m; want %.4f°", line.ElectricalDeg, line.DrawnLength, want)
+	if want := 10 - feed.ElectricalDeg + 180; math.Abs(line.ElectricalDeg-want) > 1e-9 || line.Drawn() <= 0 {
+		t.Errorf("line1: %.4f°, drawn %.3g m; want %.4f°", line.ElectricalDeg, line.Drawn(), want)
 	}
 	if !strings.Contains(strings.Join(r.Notes, "\n"), "next solution") {
 		t.Errorf("no note about the move in %q", r.Notes)
@@ -370,8 +380,8 @@ func TestFirstLineBorrowsFromFeed(t *testing.T) {
 	if math.Abs(feed.ElectricalDeg+line.ElectricalDeg-28) > 1e-9 {
 		t.Errorf("feed %.4f° + line %.4f° ≠ 28°", feed.ElectricalDeg, line.ElectricalDeg)
 	}
-	if feed.DrawnLength >= 5e-3 || line.DrawnLength-line.Recentre < stub.Width/2-1e-12 {
-		t.Errorf("feed %.4g m, line %.4g m, stub width %.4g m", feed.DrawnLength, line.DrawnLength, stub.Width)
+	if feed.Drawn() >= 5e-3 || line.Drawn()-line.Recentre < stub.Width/2-1e-12 {
+		t.Errorf("feed %.4g m, line %.4g m, stub width %.4g m", feed.Drawn(), line.Drawn(), stub.Width)
 	}
 	if !strings.Contains(strings.Join(r.Notes, "\n"), "taken from the load-side feed") {
 		t.Errorf("no note in %q", r.Notes)

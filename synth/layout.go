@@ -46,7 +46,7 @@ func (r *Result) GeomSpec() geom.Spec {
 	var portWidth float64
 	for _, e := range r.Physical.Elements {
 		if e.Role == RoleStub {
-			st := geom.Stub{ID: e.ID, At: e.At, Width: e.Width, Length: e.DrawnLength, Side: side}
+			st := geom.Stub{ID: e.ID, At: e.At, Width: e.Width, Length: e.Drawn(), Side: side}
 			if e.End == Open {
 				st.TrimAllowance = d.Layout.Trim
 			}
@@ -60,7 +60,7 @@ func (r *Result) GeomSpec() geom.Spec {
 		if portWidth == 0 {
 			portWidth = e.Width
 		}
-		s.Segments = append(s.Segments, geom.Segment{ID: e.ID, Width: e.Width, Length: e.DrawnLength})
+		s.Segments = append(s.Segments, geom.Segment{ID: e.ID, Width: e.Width, Length: e.Drawn()})
 	}
 	if r.Stackup.Line == stackups.GCPW {
 		// A coplanar ground pour at the stackup's gap, stitched at a

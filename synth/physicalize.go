@@ -19,9 +19,9 @@ const (
 )
 
 // Element is one line of the physical network, with what was done to its
-// length. Lengths are metres; the corrections are signed changes, so
-//
-//	DrawnLength = LineLength + OpenEnd + Tee + Via + Step + Recentre + Trim.
+// length. Lengths are metres; the corrections are signed changes, and the
+// copper drawn is their sum (Drawn), never stored, so every change of length
+// is a change of one named part.
 //
 // A through element's drawn length runs along the centre line between its
 // ends (a port edge or a tee's centre line); a stub's runs from the through
@@ -40,10 +40,16 @@ type Element struct {
 	Step          float64 // width-step compensation (Gupta, Garg, Bahl and Bhartia), m
 	Recentre      float64 // change made by the re-centring optimiser, m
 	Trim          float64 // change from the design length after trimming at the bench, m; zero in a build
-	DrawnLength   float64 // the copper drawn, m
 	At            int     // stubs: index of the through element on the load side of the tee
 	Params        physical.LineParams
 	Model         string
+}
+
+// Drawn returns the length of copper drawn, m:
+//
+//	LineLength + OpenEnd + Tee + Via + Step + Recentre + Trim.
+func (e Element) Drawn() float64 {
+	return e.LineLength + e.OpenEnd + e.Tee + e.Via + e.Step + e.Recentre + e.Trim
 }
 
 // Physical is the corrected physical network of an electrical solution.
@@ -117,7 +123,7 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 		}
 		l := PhysicalLength(r.Params, deg)
 		return Element{ID: id, Role: role, Z0: z, Width: r.Width, ElectricalDeg: deg,
-			LineLength: l, DrawnLength: l, Params: r.Params, Model: r.Model.Name()}, nil
+			LineLength: l, Params: r.Params, Model: r.Model.Name()}, nil
 	}
 
 	// Through elements and stubs, in order from the load.
@@ -171,10 +177,10 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 	if err != nil {
 		return Physical{}, err
 	}
-	feed.LineLength, feed.DrawnLength = opt.FeedLength, opt.FeedLength
+	feed.LineLength = opt.FeedLength
 	feed.ElectricalDeg = ElectricalDegrees(feed.Params, opt.FeedLength)
 	through = append(through, feed)
-	if feed.DrawnLength <= 0 && stubs != nil && stubs[len(stubs)-1].At == len(through)-2 {
+	if feed.Drawn() <= 0 && stubs != nil && stubs[len(stubs)-1].At == len(through)-2 {
 		return Physical{}, fmt.Errorf("the last stub sits at the source port: give the source-side feed a length")
 	}
 
@@ -208,13 +214,11 @@ func ToPhysical(sections []Section, f0, z0 float64, sub physical.Substrate, mk p
 	p.compensateSteps(through, stubs, widths, sub)
 	for j := range through {
 		e := &through[j]
-		e.DrawnLength = e.LineLength + e.Tee + e.Step
-		if e.Role == RoleLine && e.DrawnLength < 0 {
+		if e.Role == RoleLine && e.Drawn() < 0 {
 			half := e.Params.GuidedWavelength() / 2
-			n := halfWaves(-e.DrawnLength, half)
+			n := halfWaves(-e.Drawn(), half)
 			e.ElectricalDeg += n * 180
 			e.LineLength += n * half
-			e.DrawnLength += n * half
 			p.note(fmt.Sprintf("%s: the tee correction made the line negative; it moved %s", e.ID, moved(n, fmt.Sprintf("half a guided wavelength (%.3f mm) longer", half*1e3), "%.0f half guided wavelengths (%.3f mm) longer", n, n*half*1e3)))
 		}
 	}
@@ -317,29 +321,26 @@ func (p *Physical) makeRoom(through, stubs []Element) error {
 	}
 	for j := range through {
 		e := &through[j]
-		short := need[j] - e.DrawnLength
+		short := need[j] - e.Drawn()
 		if short <= 0 {
 			continue
 		}
-		if j == 1 && through[0].Role == RoleFeed && through[0].Width == e.Width && through[0].DrawnLength-short >= PortPadLength {
+		if j == 1 && through[0].Role == RoleFeed && through[0].Width == e.Width && through[0].Drawn()-short >= PortPadLength {
 			feed := &through[0]
 			feed.LineLength -= short
-			feed.DrawnLength -= short
 			feed.ElectricalDeg = ElectricalDegrees(feed.Params, feed.LineLength)
 			e.LineLength += short
-			e.DrawnLength += short
 			e.ElectricalDeg = ElectricalDegrees(e.Params, e.LineLength)
 			p.note(fmt.Sprintf("%s: lengthened by %.3f mm taken from the load-side feed (the same line) to leave room for the stub", e.ID, short*1e3))
 			continue
 		}
 		if e.Role != RoleLine {
-			return fmt.Errorf("%s is %.3f mm long, less than the %.3f mm the stubs at its ends need: lengthen [layout] feed_length", e.ID, e.DrawnLength*1e3, need[j]*1e3)
+			return fmt.Errorf("%s is %.3f mm long, less than the %.3f mm the stubs at its ends need: lengthen [layout] feed_length", e.ID, e.Drawn()*1e3, need[j]*1e3)
 		}
 		half := e.Params.GuidedWavelength() / 2
-		n := halfWaves(need[j]-e.DrawnLength, half)
+		n := halfWaves(need[j]-e.Drawn(), half)
 		e.ElectricalDeg += n * 180
 		e.LineLength += n * half
-		e.DrawnLength += n * half
 		p.note(fmt.Sprintf("%s: too short for the stubs at its ends; it moved %s", e.ID, moved(n, fmt.Sprintf("half a guided wavelength (%.3f mm) longer", half*1e3), "%.0f half guided wavelengths (%.3f mm) longer", n, n*half*1e3)))
 	}
 	return nil
@@ -406,7 +407,7 @@ func (p *Physical) correctStub(st *Element, tee physical.TeeParams, throughW flo
 		st.LineLength += n * half
 		p.note(fmt.Sprintf("%s: the corrections left too little stub; it moved %s", st.ID, moved(n, fmt.Sprintf("half a guided wavelength (%.3f mm) longer", half*1e3), "%.0f half guided wavelengths (%.3f mm) longer", n, n*half*1e3)))
 	}
-	st.DrawnLength = drawn
+	// The tee takes what is left, so that Drawn is drawn.
 	st.Tee = drawn - st.LineLength - st.OpenEnd - st.Via
 	return nil
 }
@@ -416,10 +417,10 @@ func (p Physical) board(sub physical.Substrate, via physical.Via) physical.Board
 	b := physical.Board{Sub: sub, Via: via}
 	for _, e := range p.Elements {
 		if e.Role == RoleStub {
-			b.Stubs = append(b.Stubs, physical.Stub{At: e.At, Width: e.Width, Length: e.DrawnLength, Short: e.End == Short})
+			b.Stubs = append(b.Stubs, physical.Stub{At: e.At, Width: e.Width, Length: e.Drawn(), Short: e.End == Short})
 			continue
 		}
-		b.Through = append(b.Through, physical.Trace{Width: e.Width, Length: e.DrawnLength})
+		b.Through = append(b.Through, physical.Trace{Width: e.Width, Length: e.Drawn()})
 	}
 	return b
 }
@@ -431,7 +432,8 @@ func (p Physical) Uncorrected() physical.Board {
 	q := p
 	q.Elements = append([]Element(nil), p.Elements...)
 	for i := range q.Elements {
-		q.Elements[i].DrawnLength = q.Elements[i].LineLength
+		e := &q.Elements[i]
+		e.OpenEnd, e.Tee, e.Via, e.Step, e.Recentre, e.Trim = 0, 0, 0, 0, 0, 0
 	}
 	return q.board(p.Board.Sub, p.Board.Via)
 }

@@ -130,8 +130,8 @@ func compareOne(ctx context.Context, in synth.BuildInput, minWidth float64) comp
 			seen[w] = true
 			row.WidthsMM = append(row.WidthsMM, w)
 		}
-		row.CopperLengthMM += e.DrawnLength * 1e3
-		row.CopperAreaMM2 += e.DrawnLength * e.Width * 1e6
+		row.CopperLengthMM += e.Drawn() * 1e3
+		row.CopperAreaMM2 += e.Drawn() * e.Width * 1e6
 		if row.MinWidthMM < 0 || w < row.MinWidthMM {
 			row.MinWidthMM = w
 		}
