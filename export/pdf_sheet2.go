@@ -373,17 +373,8 @@ func (d *doc) smith(x, y, w, h float64) {
 	setText(f, colMuted)
 	f.Text(x, ly+5.6, "dot: f0; square: lowest frequency of the sweep")
 	if len(sw.LoadRe) > 0 {
-		f.Text(x, ly+8.4, fmt.Sprintf("load at f0: %s Ω, |Γ| = %.3f", formatZ(d.rep.Load.ROhm, d.rep.Load.XOhm), d.rep.Load.GammaMag))
+		f.Text(x, ly+8.4, fmt.Sprintf("load at f0: %s Ω, |Γ| = %.3f", units.FormatImpedanceWith(complex(d.rep.Load.ROhm, d.rep.Load.XOhm), units.ImpedanceStyle{Decimals: 2, Typeset: true}), d.rep.Load.GammaMag))
 	}
-}
-
-// formatZ writes R ± jX with a true minus.
-func formatZ(r, x float64) string {
-	sign := "+"
-	if x < 0 {
-		sign = "−"
-	}
-	return fmt.Sprintf("%s %s j%.2f", minus(fmt.Sprintf("%.2f", r)), sign, math.Abs(x))
 }
 
 // nearest returns the index of the value of xs nearest v, −1 for none.

@@ -152,7 +152,7 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 	fmt.Fprintf(w, "%s at %s, %g Ω, on %s (%s)\n", rep.Name, units.FormatFrequency(rep.FrequencyHz, 6), rep.Z0Ohm, rep.Stackup.Name, rep.Model)
 	fmt.Fprintln(w, export.Headline(rep))
 	fmt.Fprintln(w, "verdict:", rep.Summary.Verdict)
-	fmt.Fprintf(w, "load %.2f%+.2fj Ω: |Γ| %.3f, VSWR %.2f, return loss %.2f dB\n\n", rep.Load.ROhm, rep.Load.XOhm, rep.Load.GammaMag, rep.Load.VSWR, rep.Load.ReturnLossDB)
+	fmt.Fprintf(w, "load %s Ω: |Γ| %.3f, VSWR %.2f, return loss %.2f dB\n\n", units.FormatImpedanceWith(complex(rep.Load.ROhm, rep.Load.XOhm), units.ImpedanceStyle{Decimals: 2}), rep.Load.GammaMag, rep.Load.VSWR, rep.Load.ReturnLossDB)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "element\trole\tend\tZ0 (Ω)\twidth (mm)\telectrical (°)\tline (mm)\topen end (mm)\ttee (mm)\tvia (mm)\tre-centre (mm)\tdrawn (mm)\t")
 	for _, e := range rep.Elements {

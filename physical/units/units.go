@@ -374,14 +374,45 @@ func ParseImpedance(s string) (complex128, error) {
 // FormatImpedance writes z as "18-j22", each part with up to six
 // significant digits: the form ParseImpedance reads, and the one every
 // message and table of the project uses. A value that is not finite is
-// written as Go prints it.
+// written as Go prints it. It is FormatImpedanceWith with the zero
+// ImpedanceStyle.
 func FormatImpedance(z complex128) string {
+	return FormatImpedanceWith(z, ImpedanceStyle{})
+}
+
+// ImpedanceStyle says how FormatImpedanceWith writes an impedance. The zero
+// value is the plain form ParseImpedance reads back.
+type ImpedanceStyle struct {
+	// Decimals, when positive, writes each part with that many digits
+	// after the point ("18.00-j22.00"); zero writes up to six significant
+	// digits ("18-j22").
+	Decimals int
+	// Typeset writes the form for a drawing: a space each side of the
+	// sign of the reactance and a true minus (U+2212) for every minus,
+	// "18.00 − j22.00". ParseImpedance does not read it back.
+	Typeset bool
+}
+
+// FormatImpedanceWith writes z as R±jX in style st. The sign follows the
+// reactance's sign bit, so −0 is written with a minus. A value that is not
+// finite is written as Go prints it.
+func FormatImpedanceWith(z complex128, st ImpedanceStyle) string {
 	if cmplx.IsNaN(z) || cmplx.IsInf(z) {
 		return fmt.Sprint(z)
 	}
+	part := func(v float64) string {
+		if st.Decimals > 0 {
+			return strconv.FormatFloat(v, 'f', st.Decimals, 64)
+		}
+		return strconv.FormatFloat(v, 'g', 6, 64)
+	}
 	sign, x := "+", imag(z)
-	if x < 0 || (x == 0 && math.Signbit(x)) {
+	if math.Signbit(x) {
 		sign, x = "-", -x
 	}
-	return strconv.FormatFloat(real(z), 'g', 6, 64) + sign + "j" + strconv.FormatFloat(x, 'g', 6, 64)
+	if !st.Typeset {
+		return part(real(z)) + sign + "j" + part(x)
+	}
+	s := part(real(z)) + " " + sign + " j" + part(x)
+	return strings.ReplaceAll(s, "-", "\u2212")
 }

@@ -299,6 +299,28 @@ func TestFormatImpedance(t *testing.T) {
 	}
 }
 
+// The drawing's style: fixed decimals, spaced sign, true minus (U+2212).
+func TestFormatImpedanceWith(t *testing.T) {
+	tests := []struct {
+		z    complex128
+		st   ImpedanceStyle
+		want string
+	}{
+		{complex(18, -22), ImpedanceStyle{}, "18-j22"},
+		{complex(18, -22), ImpedanceStyle{Decimals: 2}, "18.00-j22.00"},
+		{complex(18, -22), ImpedanceStyle{Decimals: 2, Typeset: true}, "18.00 \u2212 j22.00"},
+		{complex(-3.256, 1.5), ImpedanceStyle{Decimals: 2, Typeset: true}, "\u22123.26 + j1.50"},
+		{complex(50, math.Copysign(0, -1)), ImpedanceStyle{Decimals: 1, Typeset: true}, "50.0 \u2212 j0.0"},
+		{complex(1e6, -1e-6), ImpedanceStyle{Typeset: true}, "1e+06 \u2212 j1e\u221206"},
+		{complex(-0.001, 0), ImpedanceStyle{Decimals: 2}, "-0.00+j0.00"},
+	}
+	for _, tt := range tests {
+		if got := FormatImpedanceWith(tt.z, tt.st); got != tt.want {
+			t.Errorf("FormatImpedanceWith(%v, %+v) = %q, want %q", tt.z, tt.st, got, tt.want)
+		}
+	}
+}
+
 func TestFormatImpedanceRoundTrip(t *testing.T) {
 	zs := []complex128{
 		complex(18, -22), complex(50, 0), complex(0, -5), complex(1e-3, 1e3),
