@@ -121,13 +121,13 @@ func WritePDF(w io.Writer, rep Report, lay geom.Layout, opt DrawingOptions) erro
 	plan := planBoard(b, pg, fit, headlineHeight(rep))
 	// The first pass counts the sheets for "sheet n of m"; the second
 	// writes them.
-	// It also finds the notes sheet the fab notes share, if any, so the
-	// second pass can title it.
-	d, err := renderPDF(rep, b, plan, pg, opt, 0, 0)
+	// It also finds the sheets two parts share, so the second pass can
+	// title them.
+	d, err := renderPDF(rep, b, plan, pg, opt, 0, nil)
 	if err != nil {
 		return err
 	}
-	d, err = renderPDF(rep, b, plan, pg, opt, d.pdf.PageNo(), d.sharedPage)
+	d, err = renderPDF(rep, b, plan, pg, opt, d.pdf.PageNo(), d.shared)
 	if err != nil {
 		return err
 	}
@@ -146,22 +146,24 @@ type doc struct {
 	rep   Report
 	opt   DrawingOptions
 	total int // sheets in the drawing, 0 while counting
-	// titleShared is the sheet the first pass found the notes and the
-	// fab notes share (0: none); its title names both.
-	titleShared int
-	// notesPage is the notes continuation sheet the notes ended on (0:
-	// they ended on the data sheet) and notesEnd the y below them, mm.
-	notesPage int
-	notesEnd  float64
-	// sharedPage is the sheet the fab notes were put on below the notes
-	// (0: none).
-	sharedPage int
+	// titles are the titles of the sheets two parts share, by sheet
+	// number, as the first pass found them (nil on that pass).
+	titles map[int]string
+	// title is the title of the current sheet; tailPage is the sheet a
+	// flowing part (notes, structures) ended on with free space below,
+	// from tailY down (0: none).
+	title    string
+	tailPage int
+	tailY    float64
+	// shared collects the titles of the shared sheets for the second
+	// pass.
+	shared map[int]string
 }
 
 // renderPDF draws every sheet; total is the sheet count for the title
-// blocks (0 on the counting pass) and shared the sheet the notes and the
-// fab notes share (0 for none or unknown).
-func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOptions, total, shared int) (*doc, error) {
+// blocks (0 on the counting pass) and titles the titles of the sheets two
+// parts share (nil on the counting pass).
+func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOptions, total int, titles map[int]string) (*doc, error) {
 	f := gofpdf.New("P", "mm", pg.name, "")
 	f.SetCatalogSort(true)
 	f.SetCompression(true)
@@ -181,7 +183,7 @@ func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOp
 		// subsets, which would change the next drawing of the process.
 		f.AddUTF8FontFromBytes(ff.family, ff.style, bytes.Clone(ff.ttf))
 	}
-	d := &doc{pdf: f, pg: pg, rep: rep, opt: opt, total: total, titleShared: shared}
+	d := &doc{pdf: f, pg: pg, rep: rep, opt: opt, total: total, titles: titles, shared: map[int]string{}}
 	d.boardSheets(b, plan)
 	d.dataSheets(b)
 	d.structuresSheet()
@@ -212,8 +214,12 @@ const (
 // newSheet starts a page with its frame, header line and title block.
 func (d *doc) newSheet(title, subtitle string) {
 	f := d.pdf
+	d.title = title
 	f.AddPage()
 	n := f.PageNo()
+	if t, ok := d.titles[n]; ok {
+		title = t
+	}
 	m := pageMargin
 	setDraw(f, colInk)
 	f.SetLineWidth(0.35)
@@ -230,6 +236,28 @@ func (d *doc) newSheet(title, subtitle string) {
 	f.SetLineWidth(0.5)
 	f.Line(m, m+headerH, d.pg.w-m, m+headerH)
 	d.titleBlock(n)
+}
+
+// joinSheet puts a part of the given height below the flowing part that
+// ended on the current sheet, under a rule and the part's heading, when it
+// fits there; it returns the y the part starts at and whether it joined.
+func (d *doc) joinSheet(heading string, need float64) (float64, bool) {
+	const gap = 8.0
+	x, cy, w, ch := d.contentBox()
+	if d.tailPage == 0 || d.tailPage != d.pdf.PageNo() || d.tailY+gap+need > cy+ch {
+		return 0, false
+	}
+	f := d.pdf
+	y := d.tailY + gap - 3
+	setDraw(f, colAccent)
+	f.SetLineWidth(0.3)
+	f.Line(x, y, x+w, y)
+	f.SetFont(fontSans, "B", 10)
+	setText(f, colInk)
+	f.Text(x, y+5, heading)
+	d.title += " and " + strings.ToLower(heading[:1]) + heading[1:]
+	d.shared[d.pdf.PageNo()] = d.title
+	return y + 6, true
 }
 
 // contentBox returns the drawable area of a sheet between the header and

@@ -6,28 +6,16 @@ import (
 	"strings"
 )
 
-// fabNotesSheet draws the fab notes: below the notes on the last notes
-// continuation sheet when they fit in its free space, otherwise on a sheet
-// of their own. They hold the facts, the controlled-impedance table, the
+// fabNotesSheet draws the fab notes: below the notes or the structures
+// that ended on the current sheet when they fit in its free space,
+// otherwise on a sheet of their own. They hold the facts, the controlled-impedance table, the
 // drill table, the rules and the files, as WriteFabNotes prints them.
 func (d *doc) fabNotesSheet(n FabNotes) {
 	x, y, w, h := d.contentBox()
 	bottom := y + h
-	if d.notesPage != 0 && d.notesPage == d.pdf.PageNo() {
-		const gap = 8.0
-		if need := d.fabNotes(n, x, 0, w, math.Inf(1), false); d.notesEnd+gap+need <= bottom {
-			d.sharedPage = d.pdf.PageNo()
-			f := d.pdf
-			y = d.notesEnd + gap - 3
-			setDraw(f, colAccent)
-			f.SetLineWidth(0.3)
-			f.Line(x, y, x+w, y)
-			f.SetFont(fontSans, "B", 10)
-			setText(f, colInk)
-			f.Text(x, y+5, "Fabrication notes")
-			d.fabNotes(n, x, y+6, w, bottom, true)
-			return
-		}
+	if y, ok := d.joinSheet("Fabrication notes", d.fabNotes(n, x, 0, w, math.Inf(1), false)); ok {
+		d.fabNotes(n, x, y, w, bottom, true)
+		return
 	}
 	d.newSheet("Fabrication notes", n.Board)
 	d.fabNotes(n, x, y, w, bottom, true)

@@ -481,12 +481,8 @@ func (d *doc) notes(x, y, w float64) {
 		{"Warnings", colWarn, d.rep.Warnings},
 	}
 	more := func() {
-		title := "Notes (continued)"
-		if d.pdf.PageNo()+1 == d.titleShared {
-			title = "Notes (continued) and fabrication notes"
-		}
-		d.newSheet(title, d.rep.Name)
-		d.notesPage = d.pdf.PageNo()
+		d.newSheet("Notes (continued)", d.rep.Name)
+		d.tailPage = d.pdf.PageNo()
 	}
 	for _, b := range blocks {
 		if len(b.items) == 0 {
@@ -517,7 +513,7 @@ func (d *doc) notes(x, y, w float64) {
 		}
 		y += 2
 	}
-	d.notesEnd = y
+	d.tailY = y
 }
 
 // histBinsT is a histogram: counts of equal bins from lo, each width wide.

@@ -14,19 +14,21 @@ func (d *doc) structuresSheet() {
 		return
 	}
 	f := d.pdf
-	d.newSheet("Calibration and test structures", d.rep.Name+": made on the same panel, each on its own outline")
 	x, y, w, h := d.contentBox()
 	bottom := y + h
+	if yj, ok := d.joinSheet("Calibration and test structures", d.structuresHeight(w)); ok {
+		y = yj
+	} else {
+		d.newSheet("Calibration and test structures", d.rep.Name+": made on the same panel, each on its own outline")
+	}
 	y += 4
 	for _, s := range ss {
+		scale := structureScale(s, w)
 		bw, bh := s.BoardMM[0], s.BoardMM[1]
-		scale := 1.0
-		for bw*scale > w-30 {
-			scale /= 2
-		}
 		need := bh*scale + 22
 		if y+need > bottom {
 			d.newSheet("Calibration and test structures (continued)", d.rep.Name)
+			d.tailPage = f.PageNo()
 			_, y, _, _ = d.contentBox()
 			y += 4
 		}
@@ -80,4 +82,28 @@ func (d *doc) structuresSheet() {
 		}
 		y += 4
 	}
+	d.tailPage, d.tailY = f.PageNo(), y
+}
+
+// structureScale is the scale a structure is drawn at on a sheet w wide:
+// 1:1, or the largest reduction by halves that fits.
+func structureScale(s ReportStructure, w float64) float64 {
+	scale := 1.0
+	for s.BoardMM[0]*scale > w-30 {
+		scale /= 2
+	}
+	return scale
+}
+
+// structuresHeight is the height structuresSheet takes for the
+// structures on a sheet w wide, mm, as it lays them out.
+func (d *doc) structuresHeight(w float64) float64 {
+	f := d.pdf
+	f.SetFont(fontSans, "", 6.5)
+	h := 4.0
+	for _, s := range d.rep.Structures {
+		h += 6 + s.BoardMM[1]*structureScale(s, w) + 9 + 4
+		h += 2.9 * float64(len(f.SplitText(minus(s.Note), w-4)))
+	}
+	return h
 }

@@ -25,7 +25,8 @@ import (
 // drawingMatrix is the set of builds whose drawings are checked for
 // readability: line widths from 0.2 to 3 mm, boards from a few mm at
 // 5.8 GHz to a 433 MHz board drawn scaled and tiled, bent, shorted and
-// coplanar stubs, and a hand-worked double stub.
+// coplanar stubs, a hand-worked double stub, and calibration structures
+// on the panel.
 func drawingMatrix() []struct {
 	name string
 	args []string
@@ -38,6 +39,7 @@ func drawingMatrix() []struct {
 		{"demo", nil},
 		{"flex-thin", []string{filepath.Join(td, "drawing", "flex-thin.toml")}},
 		{"wifi-5g8", []string{filepath.Join(td, "drawing", "wifi-5g8.toml")}},
+		{"wifi-5g8-panel", []string{filepath.Join(td, "drawing", "wifi-5g8-panel.toml")}},
 		{"ism-433-scaled", []string{filepath.Join(td, "drawing", "ism-433.toml")}},
 		{"ism-433-tiled", []string{filepath.Join(td, "drawing", "ism-433.toml"), "--fit", "tile"}},
 		{"shorted-stub", []string{filepath.Join(td, "drawing", "shorted-stub.toml")}},
