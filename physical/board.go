@@ -36,6 +36,10 @@ type Stub struct {
 type Via struct {
 	Drill float64 // finished hole diameter, m
 	Pad   float64 // pad diameter, m
+	// Pitch is the largest centre spacing of the row of vias that ends a
+	// stub wider than ViaRowMinWidthRatio pads (see ViaRow), m; 0 keeps
+	// one via whatever the width.
+	Pitch float64
 }
 
 // Board is a matching network as drawn in copper: the through line from
@@ -309,12 +313,18 @@ func (s *Sim) junction(k int, tp, sp LineParams, freq float64) *junction {
 }
 
 // ViaToGround returns the impedance from the via pad at the end of a
-// shorted stub of width stubWidth to ground at freq: the Goldfarb-Pucel via
-// in parallel with the capacitance of the part of its round pad that
-// overhangs the stub (the rest is the stub's own copper, already in its
-// line model).
+// shorted stub of width stubWidth to ground at freq. A stub no wider than
+// ViaRowMinWidthRatio pads ends in one Goldfarb-Pucel via in parallel
+// with the capacitance of the part of its round pad that overhangs the
+// stub (the rest is the stub's own copper, already in its line model). A
+// wider one ends in the row ViaRow gives, modelled by ViaRowImpedance
+// (mutual inductance included); its pads lie within the stub, so there is
+// no overhang.
 func (b Board) ViaToGround(freq, stubWidth float64) complex128 {
 	sub := b.Sub
+	if n, sp := ViaRow(stubWidth, b.Via.Drill, b.Via.Pad, b.Via.Pitch); n > 1 {
+		return ViaRowImpedance(n, sp, sub.Height, b.Via.Drill/2, sub.conductivity(), freq)
+	}
 	zv := ViaImpedance(sub.Height, b.Via.Drill/2, sub.conductivity(), freq)
 	c := 0.0
 	if r, a := b.Via.Pad/2, stubWidth/2; r > a {

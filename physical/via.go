@@ -65,3 +65,118 @@ func ViaToGround(zVia complex128, c, freq float64) complex128 {
 	}
 	return 1 / y
 }
+
+// ViaRowMinWidthRatio is the stub width, in via pads, above which a
+// shorted stub ends in a row of vias rather than one: a stub wider than
+// 1.5 pads gets at least two (common practice, no source).
+const ViaRowMinWidthRatio = 1.5
+
+// ViaRow returns how many vias end a shorted stub of width stubWidth (m)
+// with vias of drill drill (m) and pads of diameter pad (m) at centre
+// spacing at most pitch (m), and their actual centre spacing (m). A stub
+// no wider than ViaRowMinWidthRatio pads, one whose two outer holes would
+// touch, or a pitch that is not positive, gets one via (spacing 0). Otherwise the outer pads sit flush with the stub's sides
+// and the vias between are spread evenly, as few as keep the spacing
+// within pitch — unless that would bring neighbouring holes within a
+// drill's width, when there are fewer.
+func ViaRow(stubWidth, drill, pad, pitch float64) (n int, spacing float64) {
+	span := stubWidth - pad
+	if !(pitch > 0) || !(stubWidth > ViaRowMinWidthRatio*pad) || !(span > drill) {
+		return 1, 0
+	}
+	n = int(math.Ceil(span/pitch-1e-9)) + 1
+	if n < 2 {
+		n = 2
+	}
+	// Holes never closer than a drill's width: fewer vias, wider spacing.
+	for n > 2 && !(span/float64(n-1) > drill) {
+		n--
+	}
+	return n, span / float64(n-1)
+}
+
+// FilamentMutualInductance returns the mutual inductance (H) of two
+// parallel straight filaments of equal length h (m), side by side at
+// distance d (m), from the Neumann integral in closed form as Grover gives
+// it (Inductance Calculations, 1946; from memory):
+//
+//	M = (μ0/2π)·[h·ln(h/d + √(1 + h²/d²)) − √(h² + d²) + d]
+//
+// For d ≪ h it tends to (μ0·h/2π)·[ln(2h/d) − 1 + d/h]; for d ≫ h it
+// falls as μ0·h²/(4π·d).
+func FilamentMutualInductance(h, d float64) float64 {
+	return Mu0 / (2 * math.Pi) * (h*math.Asinh(h/d) - math.Hypot(h, d) + d)
+}
+
+// ViaRowImpedance returns the series impedance (ohm) at freq (Hz) of n
+// vias of radius radius (m) and height h (m) in a straight row at centre
+// spacing spacing (m), all joined at both ends: each via is
+// ViaImpedance, each pair is coupled by FilamentMutualInductance at their
+// centre distance (the partial-inductance, or PEEC, view of the row), and
+// the row is the exact parallel combination of that impedance matrix,
+// 1/(1ᵀ·Z⁻¹·1). Treating the barrels as filaments for the mutual term is
+// the approximation; it is good while the spacing is several radii. One
+// via (n ≤ 1) is ViaImpedance itself.
+func ViaRowImpedance(n int, spacing, h, radius, sigma, freq float64) complex128 {
+	z1 := ViaImpedance(h, radius, sigma, freq)
+	if n <= 1 {
+		return z1
+	}
+	w := 2 * math.Pi * freq
+	z := make([][]complex128, n)
+	for i := range z {
+		z[i] = make([]complex128, n+1)
+		for j := 0; j < n; j++ {
+			if i == j {
+				z[i][j] = z1
+				continue
+			}
+			d := spacing * math.Abs(float64(i-j))
+			z[i][j] = complex(0, w*FilamentMutualInductance(h, d))
+		}
+		z[i][n] = 1 // right-hand side: unit voltage on every via
+	}
+	x, ok := solveComplex(z)
+	if !ok {
+		return z1 / complex(float64(n), 0)
+	}
+	var sum complex128
+	for _, v := range x {
+		sum += v
+	}
+	return 1 / sum
+}
+
+// solveComplex solves the augmented n×(n+1) system a by Gaussian
+// elimination with partial pivoting, overwriting a. It reports false for a
+// singular system.
+func solveComplex(a [][]complex128) ([]complex128, bool) {
+	n := len(a)
+	for c := 0; c < n; c++ {
+		p := c
+		for r := c + 1; r < n; r++ {
+			if cmplx.Abs(a[r][c]) > cmplx.Abs(a[p][c]) {
+				p = r
+			}
+		}
+		if cmplx.Abs(a[p][c]) == 0 {
+			return nil, false
+		}
+		a[c], a[p] = a[p], a[c]
+		for r := c + 1; r < n; r++ {
+			f := a[r][c] / a[c][c]
+			for k := c; k <= n; k++ {
+				a[r][k] -= f * a[c][k]
+			}
+		}
+	}
+	x := make([]complex128, n)
+	for r := n - 1; r >= 0; r-- {
+		s := a[r][n]
+		for k := r + 1; k < n; k++ {
+			s -= a[r][k] * x[k]
+		}
+		x[r] = s / a[r][r]
+	}
+	return x, true
+}

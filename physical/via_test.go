@@ -104,3 +104,122 @@ func BenchmarkViaImpedance(b *testing.B) {
 		_ = ViaImpedance(0.8e-3, 0.15e-3, CopperConductivity, 2.45e9)
 	}
 }
+
+func TestViaRow(t *testing.T) {
+	tests := []struct {
+		name          string
+		w, pad, pitch float64
+		wantN         int
+		wantSpacing   float64
+	}{
+		{"narrow stub keeps one via", 0.8e-3, 0.6e-3, 1e-3, 1, 0},
+		{"exactly 1.5 pads keeps one via", 0.9e-3, 0.6e-3, 1e-3, 1, 0},
+		{"no pitch keeps one via", 3e-3, 0.6e-3, 0, 1, 0},
+		// span 3 − 0.6 = 2.4 mm; 2.4/1.0 → 3 gaps → 4 vias at 0.8 mm.
+		{"3 mm stub, 1 mm pitch", 3e-3, 0.6e-3, 1e-3, 4, 0.8e-3},
+		// span 1.0 − 0.6 = 0.4 mm within one pitch → 2 vias at 0.4 mm.
+		{"just over 1.5 pads", 1.0e-3, 0.6e-3, 1e-3, 2, 0.4e-3},
+		// span 2.4 mm at exactly 1.2 mm → 2 gaps → 3 vias.
+		{"span a whole number of pitches", 3e-3, 0.6e-3, 1.2e-3, 3, 1.2e-3},
+		// span 0.92 − 0.6 = 0.32 mm over the 0.3 mm drill: two vias;
+		// 0.4 mm pads on a 0.65 mm stub (over 1.5 pads): span 0.25 mm,
+		// under the drill, so the holes would touch: one.
+		{"outer holes just clear", 0.92e-3, 0.6e-3, 1e-3, 2, 0.32e-3},
+		{"outer holes would touch", 0.65e-3, 0.4e-3, 1e-3, 1, 0},
+		// span 0.95 − 0.4 = 0.55 mm at pitch 0.4 mm → 3 vias at 0.275 mm,
+		// closer than the 0.3 mm drill: 2 at 0.55 mm instead.
+		{"pitch below the drill spacing", 0.95e-3, 0.4e-3, 0.4e-3, 2, 0.55e-3},
+	}
+	for _, tt := range tests {
+		n, sp := ViaRow(tt.w, 0.3e-3, tt.pad, tt.pitch)
+		if n != tt.wantN || math.Abs(sp-tt.wantSpacing) > 1e-12 {
+			t.Errorf("%s: %d vias at %g mm, want %d at %g mm", tt.name, n, sp*1e3, tt.wantN, tt.wantSpacing*1e3)
+		}
+		if n > 1 && sp > tt.pitch*(1+1e-12) && tt.name != "pitch below the drill spacing" {
+			t.Errorf("%s: spacing %g mm exceeds the pitch %g mm", tt.name, sp*1e3, tt.pitch*1e3)
+		}
+	}
+}
+
+func TestFilamentMutualInductance(t *testing.T) {
+	// Against Neumann's formula itself, M = μ0/4π ∬ dz1 dz2 / √(d² + (z1 − z2)²)
+	// (exact for filaments), the inner integral in closed form
+	// (asinh((h − z1)/d) + asinh(z1/d)) and the outer by the midpoint rule.
+	neumann := func(h, d float64) float64 {
+		const n = 20000
+		dz, s := h/n, 0.0
+		for i := 0; i < n; i++ {
+			z := (float64(i) + 0.5) * dz
+			s += math.Asinh((h-z)/d) + math.Asinh(z/d)
+		}
+		return 1e-7 * s * dz
+	}
+	for _, c := range []struct{ h, d float64 }{{1.6e-3, 1e-3}, {0.5e-3, 0.2e-3}, {1.6e-3, 5e-3}} {
+		got, want := FilamentMutualInductance(c.h, c.d), neumann(c.h, c.d)
+		if math.Abs(got-want) > 1e-5*want {
+			t.Errorf("h %g mm d %g mm: M = %.6g pH, Neumann integral %.6g pH", c.h*1e3, c.d*1e3, got*1e12, want*1e12)
+		}
+	}
+	// By hand: h 1.6 mm, d 1 mm: asinh 1.6 = 1.2489, 1.6·1.2489 − 1.8868 + 1
+	// = 1.1116 mm; × 2e-7 H/m = 222.3 pH.
+	if got := FilamentMutualInductance(1.6e-3, 1e-3); math.Abs(got-222.3e-12) > 0.1e-12 {
+		t.Errorf("h 1.6 mm d 1 mm: M = %.5g pH, want 222.3 pH (formula by hand)", got*1e12)
+	}
+	// The close-spacing limit Grover quotes (from memory),
+	// (μ0·h/2π)·[ln(2h/d) − 1 + d/h], agrees to O((d/h)²).
+	h, d := 10e-3, 0.1e-3
+	approx := 2e-7 * h * (math.Log(2*h/d) - 1 + d/h)
+	if got := FilamentMutualInductance(h, d); math.Abs(got-approx) > 1e-4*approx {
+		t.Errorf("d ≪ h: M = %.6g pH, close-spacing form %.6g pH", got*1e12, approx*1e12)
+	}
+}
+
+func TestViaRowImpedanceLimits(t *testing.T) {
+	const h, r, sigma, f = 1.6e-3, 0.15e-3, 5.8e7, 2.45e9
+	z1 := ViaImpedance(h, r, sigma, f)
+	// One via: unchanged.
+	if got := ViaRowImpedance(1, 0, h, r, sigma, f); got != z1 {
+		t.Errorf("one via: %v, want ViaImpedance %v", got, z1)
+	}
+	// N vias 10 km apart (M/L about 1e-7): uncoupled, so exactly Z1/N in the limit.
+	for _, n := range []int{2, 3, 5} {
+		got := ViaRowImpedance(n, 1e4, h, r, sigma, f)
+		want := z1 / complex(float64(n), 0)
+		if cmplx.Abs(got-want) > 1e-5*cmplx.Abs(want) {
+			t.Errorf("%d vias 10 km apart: %v, want Z1/N = %v", n, got, want)
+		}
+	}
+	// Two vias: by symmetry each carries half the current, so exactly
+	// (Z1 + jωM)/2 — more than Z1/2, the mutual inductance's cost.
+	sp := 0.8e-3
+	got := ViaRowImpedance(2, sp, h, r, sigma, f)
+	want := (z1 + complex(0, 2*math.Pi*f*FilamentMutualInductance(h, sp))) / 2
+	if cmplx.Abs(got-want) > 1e-9*cmplx.Abs(want) {
+		t.Errorf("two vias 0.8 mm apart: %v, want (Z1 + jωM)/2 = %v", got, want)
+	}
+	// Closely spaced rows are worse than L/N but better than one via.
+	for _, n := range []int{2, 4, 6} {
+		x := imag(ViaRowImpedance(n, sp, h, r, sigma, f))
+		if !(x > imag(z1)/float64(n)) || !(x < imag(z1)) {
+			t.Errorf("%d vias at 0.8 mm: X = %g Ω, want between X1/N = %g and X1 = %g", n, x, imag(z1)/float64(n), imag(z1))
+		}
+	}
+}
+
+func TestBoardViaToGroundRow(t *testing.T) {
+	sub := Substrate{Height: 1.6e-3, Er: 4.4, CopperThickness: 35e-6}
+	one := Board{Sub: sub, Via: Via{Drill: 0.3e-3, Pad: 0.6e-3}}
+	row := one
+	row.Via.Pitch = 1e-3
+	// A narrow stub ignores the pitch.
+	if a, b := one.ViaToGround(2.45e9, 0.8e-3), row.ViaToGround(2.45e9, 0.8e-3); a != b {
+		t.Errorf("0.8 mm stub: %v with a pitch, %v without; want equal", b, a)
+	}
+	// A 3 mm stub ends in 4 vias at 0.8 mm: below one via's reactance,
+	// above a quarter of it (coupling).
+	a, b := one.ViaToGround(2.45e9, 3e-3), row.ViaToGround(2.45e9, 3e-3)
+	want := ViaRowImpedance(4, 0.8e-3, sub.Height, 0.15e-3, sub.conductivity(), 2.45e9)
+	if b != want || !(imag(b) < imag(a)) || !(imag(b) > imag(a)/4) {
+		t.Errorf("3 mm stub: row %v (want %v), one via %v", b, want, a)
+	}
+}

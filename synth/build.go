@@ -330,7 +330,7 @@ func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
 	}
 	ph, err := ToPhysical(sections, f0, z0, sub, mk, PhysicalOptions{
 		FeedLength: d.Layout.FeedLength,
-		Via:        physical.Via{Drill: d.Layout.ViaDrill, Pad: d.Layout.ViaPad},
+		Via:        physical.Via{Drill: d.Layout.ViaDrill, Pad: d.Layout.ViaPad, Pitch: d.Layout.ViaRowPitch()},
 	})
 	if err != nil {
 		return nil, d.KeyError("", fmt.Errorf("on stackup %s at %.6g GHz: %w", in.Stackup.Name, f0/1e9, err))

@@ -183,6 +183,10 @@ type LayoutSpec struct {
 	MaxBoard   [2]float64 // largest board, width and height, m; zero: no limit
 	ViaDrill   float64    // drill of the via of a shorted stub, m
 	ViaPad     float64    // pad around that via, m
+	// ViaPitch is the largest centre spacing of the row of vias that ends
+	// a shorted stub wider than 1.5 via pads (physical.ViaRow), m; 0 means
+	// the default, twice the via pad (see ViaRowPitch).
+	ViaPitch float64
 	// EdgeClearance is the copper pull-back from the routed outline, m:
 	// everything but the signal line at the port edges keeps it.
 	EdgeClearance float64
@@ -265,6 +269,17 @@ type ToleranceSpec struct {
 // houses commonly pull copper back 0.2–0.25 mm by default, so 0.3 mm
 // leaves them nothing to trim (common practice, no source).
 const DefaultEdgeClearance = 0.3e-3
+
+// ViaRowPitch returns the largest centre spacing of a shorted stub's via
+// row: ViaPitch, or twice the via pad when it is not set, which leaves a
+// pad's width of copper between neighbouring pads (common practice, no
+// source).
+func (l LayoutSpec) ViaRowPitch() float64 {
+	if l.ViaPitch > 0 {
+		return l.ViaPitch
+	}
+	return 2 * l.ViaPad
+}
 
 // DefaultLayout returns the layout used when a design file has none.
 func DefaultLayout() LayoutSpec {

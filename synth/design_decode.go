@@ -84,6 +84,7 @@ type designRawLayout struct {
 	MaxBoard   any `toml:"max_board"`
 	ViaDrill   any `toml:"via_drill"`
 	ViaPad     any `toml:"via_pad"`
+	ViaPitch   any `toml:"via_pitch"`
 	EdgeClear  any `toml:"edge_clearance"`
 	Trim       any `toml:"trim"`
 }
@@ -279,6 +280,7 @@ func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) De
 		designRead(dd, "layout.max_board", l.MaxBoard, designBoardSize, &d.Layout.MaxBoard, "")
 		designRead(dd, "layout.via_drill", l.ViaDrill, designLength, &d.Layout.ViaDrill, "")
 		designRead(dd, "layout.via_pad", l.ViaPad, designLength, &d.Layout.ViaPad, "")
+		designRead(dd, "layout.via_pitch", l.ViaPitch, designLength, &d.Layout.ViaPitch, "")
 		designRead(dd, "layout.edge_clearance", l.EdgeClear, designLength, &d.Layout.EdgeClearance, "")
 		designRead(dd, "layout.trim", l.Trim, designLength, &d.Layout.Trim, "")
 	}

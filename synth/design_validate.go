@@ -249,6 +249,9 @@ func (c *designCheck) checkLayout(l LayoutSpec) {
 	if !(l.ViaPad > l.ViaDrill && l.ViaPad <= MaxViaPad) {
 		c.failErr("layout.via_pad", designMM(l.ViaPad), rangeError("the via pad must be larger than the drill (%gmm) and at most %s, for example via_pad = \"%gmm\"", l.ViaDrill*1e3, formatMM(MaxViaPad), 2*l.ViaDrill*1e3))
 	}
+	if l.ViaPitch != 0 && !(l.ViaPitch >= l.ViaPad && l.ViaPitch <= MaxViaPitch) {
+		c.failErr("layout.via_pitch", designMM(l.ViaPitch), rangeError("the via row pitch must be at least the via pad (%gmm) and at most %s, for example via_pitch = \"%gmm\" (leave it out for twice the pad)", l.ViaPad*1e3, formatMM(MaxViaPitch), 2*l.ViaPad*1e3))
+	}
 }
 
 // MaxSweepPoints is the most points a sweep may have.

@@ -3,6 +3,7 @@ package synth
 import (
 	"fmt"
 	"math"
+	"stubcraft/physical"
 	"stubcraft/stackups"
 
 	"stubcraft/synth/geom"
@@ -51,7 +52,8 @@ func (r *Result) GeomSpec() geom.Spec {
 				st.TrimAllowance = d.Layout.Trim
 			}
 			if e.End == Short {
-				st.Via = &geom.ViaSpec{Drill: d.Layout.ViaDrill, Pad: d.Layout.ViaPad}
+				n, sp := physical.ViaRow(e.Width, d.Layout.ViaDrill, d.Layout.ViaPad, d.Layout.ViaRowPitch())
+				st.Via = &geom.ViaSpec{Drill: d.Layout.ViaDrill, Pad: d.Layout.ViaPad, Count: n, Spacing: sp}
 				st.Length += d.Layout.ViaPad / 2
 			}
 			s.Stubs = append(s.Stubs, st)

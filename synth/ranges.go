@@ -44,6 +44,7 @@ const (
 	MinViaDrill   = 50e-6
 	MaxViaDrill   = 5e-3
 	MaxViaPad     = 10e-3
+	MaxViaPitch   = 20e-3
 	MinFabWidth   = 10e-6
 	MaxFabWidth   = 5e-3
 	MaxEtchSpread = 1e-3

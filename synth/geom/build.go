@@ -175,11 +175,20 @@ func Build(s Spec) (Layout, error) {
 			if bends != nil && bends[k] != nil {
 				c = Point{bends[k].via.X, bends[k].via.Y + yc}
 			}
-			l.Vias = append(l.Vias, Via{Net: NetRF, Center: c, Drill: st.drill, Pad: st.viaPad})
-			l.Pads = append(l.Pads, Pad{Net: NetRF, Function: ViaPad, Center: c, W: st.viaPad, H: st.viaPad, Round: true})
-			sq := Rect{Point{c.X - st.viaPad/2, c.Y - st.viaPad/2}, Point{c.X - st.viaPad/2 + st.viaPad, c.Y - st.viaPad/2 + st.viaPad}}
-			mask = append(mask, sq)
-			keep = append(keep, sq)
+			// A row lies across the stub's end: along x on a straight
+			// stub, along y on a bent one's second leg.
+			across := Point{1, 0}
+			if bends != nil && bends[k] != nil {
+				across = Point{0, 1}
+			}
+			for _, o := range t.Via.offsets() {
+				c := Point{c.X + across.X*o, c.Y + across.Y*o}
+				l.Vias = append(l.Vias, Via{Net: NetRF, Center: c, Drill: st.drill, Pad: st.viaPad})
+				l.Pads = append(l.Pads, Pad{Net: NetRF, Function: ViaPad, Center: c, W: st.viaPad, H: st.viaPad, Round: true})
+				sq := Rect{Point{c.X - st.viaPad/2, c.Y - st.viaPad/2}, Point{c.X - st.viaPad/2 + st.viaPad, c.Y - st.viaPad/2 + st.viaPad}}
+				mask = append(mask, sq)
+				keep = append(keep, sq)
+			}
 		}
 	}
 	for k, t := range s.Stubs {
@@ -411,6 +420,14 @@ func check(s Spec) error {
 				return specErr(f+".Via.Pad", ErrVia, "stub %q: pad %g m exceeds %g × the stub width %g m", t.ID, v.Pad, MaxViaPadRatio, t.Width)
 			case v.Pad > t.Length:
 				return specErr(f+".Via.Pad", ErrVia, "stub %q: pad %g m is longer than the stub %g m and would reach the through line", t.ID, v.Pad, t.Length)
+			}
+			if v.Count > 1 {
+				if !(v.Spacing > v.Drill) || math.IsInf(v.Spacing, 0) {
+					return specErr(f+".Via.Spacing", ErrVia, "stub %q: a row of %d vias at %g m spacing: the holes (%g m) would touch", t.ID, v.Count, v.Spacing, v.Drill)
+				}
+				if span := float64(v.Count-1)*v.Spacing + v.Pad; span > t.Width*(1+1e-9) {
+					return specErr(f+".Via.Count", ErrVia, "stub %q: a row of %d vias at %g m spacing spans %g m, wider than the stub %g m", t.ID, v.Count, v.Spacing, span, t.Width)
+				}
 			}
 		}
 	}

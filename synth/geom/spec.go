@@ -95,11 +95,32 @@ type Stub struct {
 	TrimAllowance float64
 }
 
-// ViaSpec is the via at the end of a shorted stub. Its round pad is centred
-// on the stub's centre line with its far edge on the stub's end.
+// ViaSpec is the via, or row of vias, at the end of a shorted stub. A
+// single via's round pad is centred on the stub's centre line with its far
+// edge on the stub's end. A row of Count vias lies across the stub's width
+// at centre spacing Spacing, centred on the stub, every pad's far edge on
+// the stub's end; the row's pads must lie within the stub's width and its
+// holes must not touch (neighbouring pads may overlap).
 type ViaSpec struct {
 	Drill float64 // finished hole diameter, m
 	Pad   float64 // pad diameter, m
+	// Count is the number of vias in the row; 0 and 1 mean one via.
+	Count int
+	// Spacing is the centre spacing of the row, m (unused for one via).
+	Spacing float64
+}
+
+// offsets returns the vias' centre offsets across the stub from its
+// centre line, nm, symmetric about zero.
+func (v ViaSpec) offsets() []int64 {
+	if v.Count <= 1 {
+		return []int64{0}
+	}
+	o := make([]int64, v.Count)
+	for i := range o {
+		o[i] = Nanometres(float64(2*i-(v.Count-1)) * v.Spacing / 2)
+	}
+	return o
 }
 
 // PadSpec is a rectangular port pad: Length along the line (x) from the
