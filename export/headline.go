@@ -44,6 +44,10 @@ type ReportSummary struct {
 	// ModelWorstBandDB is the model's worst |S11| across [match] band
 	// (nominal board), when the design gives a band.
 	ModelWorstBandDB *float64 `json:"model_worst_s11_db_band,omitempty"`
+	// AsBuiltP50BandDB and AsBuiltP90BandDB are the as-built median and
+	// 90th percentile of the worst |S11| across the band, with a band.
+	AsBuiltP50BandDB *float64 `json:"as_built_median_worst_s11_db_band,omitempty"`
+	AsBuiltP90BandDB *float64 `json:"as_built_p90_worst_s11_db_band,omitempty"`
 	ModelFloorDB     float64  `json:"model_floor_db"`
 	Verdict          string   `json:"verdict"`
 	VerdictWarnings  []string `json:"verdict_warnings"`
@@ -63,6 +67,7 @@ func summarize(rep *Report) {
 	if t := rep.Tolerance; t != nil && t.Samples > 0 {
 		p50, p90 := t.P50S11DB, t.P90S11DB
 		s.AsBuiltBoards, s.AsBuiltP50S11DB, s.AsBuiltP90S11DB = t.Samples, &p50, &p90
+		s.AsBuiltP50BandDB, s.AsBuiltP90BandDB = t.P50WorstBandDB, t.P90WorstBandDB
 	}
 	if b := rep.Band; b != nil {
 		v := b.WorstS11DB
@@ -99,8 +104,13 @@ func Headline(rep Report) string {
 	if s.AsBuiltP50S11DB == nil {
 		return "as built: not predicted (no tolerance analysis); " + model
 	}
-	return minus(fmt.Sprintf("as built (%d boards): |S11| at f0 median %.1f dB, 90th percentile %.1f dB; %s",
-		s.AsBuiltBoards, *s.AsBuiltP50S11DB, *s.AsBuiltP90S11DB, model))
+	band := ""
+	if b := rep.Band; b != nil && s.AsBuiltP50BandDB != nil {
+		band = fmt.Sprintf(", worst across %s median %.1f dB, 90th percentile %.1f dB",
+			units.FormatFrequencyRange(b.StartHz, b.StopHz, 4), *s.AsBuiltP50BandDB, *s.AsBuiltP90BandDB)
+	}
+	return minus(fmt.Sprintf("as built (%d boards): |S11| at f0 median %.1f dB, 90th percentile %.1f dB%s; %s",
+		s.AsBuiltBoards, *s.AsBuiltP50S11DB, *s.AsBuiltP90S11DB, band, model))
 }
 
 // Headline strip on sheet 1, mm and pt.

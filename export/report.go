@@ -205,17 +205,21 @@ func SensitivityStep(q tune.Quantity) string {
 
 // ReportTolerance is the Monte Carlo summary.
 type ReportTolerance struct {
-	Samples      int       `json:"samples"`
-	Seed         int64     `json:"seed"`
-	ErRel        float64   `json:"er_spread_rel"`
-	ThicknessRel float64   `json:"thickness_spread_rel"`
-	WidthUM      float64   `json:"width_spread_um"`
-	CopperRel    float64   `json:"copper_spread_rel"`
-	P50S11DB     float64   `json:"p50_s11_db"`
-	P90S11DB     float64   `json:"p90_s11_db"`
-	Yield        float64   `json:"yield"`
-	YieldBelowDB float64   `json:"yield_threshold_db"`
-	SamplesS11DB []float64 `json:"samples_s11_db"`
+	Samples      int     `json:"samples"`
+	Seed         int64   `json:"seed"`
+	ErRel        float64 `json:"er_spread_rel"`
+	ThicknessRel float64 `json:"thickness_spread_rel"`
+	WidthUM      float64 `json:"width_spread_um"`
+	CopperRel    float64 `json:"copper_spread_rel"`
+	P50S11DB     float64 `json:"p50_s11_db"`
+	P90S11DB     float64 `json:"p90_s11_db"`
+	// P50WorstBandDB and P90WorstBandDB are, with a band, the median and
+	// 90th percentile over the boards of the worst |S11| across the band.
+	P50WorstBandDB *float64  `json:"p50_worst_s11_db_band,omitempty"`
+	P90WorstBandDB *float64  `json:"p90_worst_s11_db_band,omitempty"`
+	Yield          float64   `json:"yield"`
+	YieldBelowDB   float64   `json:"yield_threshold_db"`
+	SamplesS11DB   []float64 `json:"samples_s11_db"`
 }
 
 // returnLossText prints a simulated return loss, "above 100 dB" past it.
@@ -361,6 +365,10 @@ func NewReport(r *synth.Result, version string) Report {
 		rep.Tolerance = &ReportTolerance{Samples: t.Spec.Samples, Seed: t.Spec.Seed, ErRel: t.Spec.Er,
 			ThicknessRel: t.Spec.Thickness, WidthUM: t.Spec.Width * 1e6, CopperRel: t.Spec.Copper,
 			P50S11DB: t.P50, P90S11DB: t.P90, Yield: t.Yield, YieldBelowDB: synth.YieldThresholdDB, SamplesS11DB: t.S11DB}
+		if !math.IsNaN(t.BandP50) {
+			p50, p90 := t.BandP50, t.BandP90
+			rep.Tolerance.P50WorstBandDB, rep.Tolerance.P90WorstBandDB = &p50, &p90
+		}
 	}
 	summarize(&rep)
 	return rep

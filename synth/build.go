@@ -274,6 +274,12 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 		if err != nil {
 			return nil, err
 		}
+		t.BandP50, t.BandP90 = math.NaN(), math.NaN()
+		if r.Band != nil {
+			if err := t.bandWorst(ctx, r.Physical.Board, sub, tmk, in.Load, r.Band.Start, r.Band.Stop, z0); err != nil {
+				return nil, err
+			}
+		}
 		r.Tolerance = &t
 	}
 	return r, nil

@@ -3,12 +3,14 @@ package synth
 import (
 	"context"
 	"fmt"
+	"math"
 	"math/rand/v2"
 	"runtime"
 	"sort"
 	"sync"
 
 	"stubcraft/physical"
+	"stubcraft/synth/tune"
 )
 
 // YieldThresholdDB is the |S11| at f0 below which a board counts as good
@@ -20,7 +22,11 @@ type Tolerance struct {
 	Spec     ToleranceSpec
 	S11DB    []float64 // |S11| at f0 of each sample, dB, in sample order
 	P50, P90 float64   // median and 90th percentile of S11DB
-	Yield    float64   // fraction of samples below YieldThresholdDB
+	// BandP50 and BandP90 are, for a design with a band, the median and
+	// 90th percentile over the same boards of the worst |S11| across the
+	// band, dB (BandPoints frequencies, edges included); NaN without one.
+	BandP50, BandP90 float64
+	Yield            float64 // fraction of samples below YieldThresholdDB
 }
 
 // Analyse draws spec.Samples boards whose εr, dielectric thickness, etched
@@ -127,4 +133,38 @@ func quantile(sorted []float64, q float64) float64 {
 		return sorted[len(sorted)-1]
 	}
 	return sorted[lo] + (h-float64(lo))*(sorted[lo+1]-sorted[lo])
+}
+
+// bandWorst sets t.BandP50 and t.BandP90: for each board of the analysis
+// (the same draw as Analyse), its worst |S11| across [lo, hi] with the load
+// at each frequency.
+func (t *Tolerance) bandWorst(ctx context.Context, b physical.Board, sub physical.Substrate, mk physical.LineMaker, load Load, lo, hi, z0 float64) error {
+	n := t.Spec.Samples
+	worst := make([]float64, n)
+	zl := make([]complex128, tune.BandPoints)
+	fs := make([]float64, tune.BandPoints)
+	for k := range fs {
+		fs[k] = lo + (hi-lo)*float64(k)/float64(tune.BandPoints-1)
+		z, err := load.Impedance(fs[k])
+		if err != nil {
+			return err
+		}
+		zl[k] = z
+	}
+	for i := 0; i < n; i++ {
+		if err := ctx.Err(); err != nil {
+			return fmt.Errorf("tolerance across the band: %w", err)
+		}
+		sim, err := physical.NewSim(perturbBoard(b, sub, t.Spec, i), mk)
+		if err != nil {
+			return fmt.Errorf("tolerance sample %d: %w", i, err)
+		}
+		worst[i] = math.Inf(-1)
+		for k, f := range fs {
+			worst[i] = max(worst[i], physical.MagDB(sim.InputReflection(f, zl[k], z0)))
+		}
+	}
+	sort.Float64s(worst)
+	t.BandP50, t.BandP90 = quantile(worst, 0.5), quantile(worst, 0.9)
+	return nil
 }
