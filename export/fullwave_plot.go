@@ -9,7 +9,6 @@ import (
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/plotter"
 	"gonum.org/v1/plot/vg"
-	"gonum.org/v1/plot/vg/draw"
 )
 
 // FullwaveCurves are the matched input reflections a full-wave check
@@ -117,21 +116,8 @@ func fullwaveSmithPlot(c FullwaveCurves) (*plot.Plot, error) {
 		for i, g := range tr.s {
 			xy[i] = plotter.XY{X: real(g), Y: imag(g)}
 		}
-		l, err := plotter.NewLine(xy)
-		if err != nil {
+		if err := addSmithTrace(p, xy, xy, i0, tr.col, tr.name); err != nil {
 			return nil, err
-		}
-		l.Color = colour(tr.col)
-		l.Width = vg.Points(1.6)
-		p.Add(l)
-		p.Legend.Add(tr.name, l)
-		if i0 >= 0 {
-			s, err := plotter.NewScatter(plotter.XYs{xy[i0]})
-			if err != nil {
-				return nil, err
-			}
-			s.GlyphStyle = draw.GlyphStyle{Color: colour(tr.col), Radius: vg.Points(3.5), Shape: draw.CircleGlyph{}}
-			p.Add(s)
 		}
 	}
 	return p, nil

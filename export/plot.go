@@ -258,21 +258,8 @@ func smithPlot(rep Report) (*plot.Plot, error) {
 			xy[i] = plotter.XY{X: tr.re[i], Y: tr.im[i]}
 		}
 		// 1e-3 of the unit circle is about 0.06 mm on the page.
-		l, err := plotter.NewLine(thinPath(xy, 1e-3))
-		if err != nil {
+		if err := addSmithTrace(p, thinPath(xy, 1e-3), xy, i0, tr.c, tr.name); err != nil {
 			return nil, err
-		}
-		l.Color = colour(tr.c)
-		l.Width = vg.Points(1.6)
-		p.Add(l)
-		p.Legend.Add(tr.name, l)
-		if i0 >= 0 {
-			s, err := plotter.NewScatter(plotter.XYs{xy[i0]})
-			if err != nil {
-				return nil, err
-			}
-			s.GlyphStyle = draw.GlyphStyle{Color: colour(tr.c), Radius: vg.Points(3.5), Shape: draw.CircleGlyph{}}
-			p.Add(s)
 		}
 	}
 	return p, nil
@@ -389,5 +376,28 @@ func addRun(p *plot.Plot, run []ptMM, c rgb, w float64) error {
 	l.Color = colour(c)
 	l.Width = vg.Points(w)
 	p.Add(l)
+	return nil
+}
+
+// addSmithTrace draws a reflection trace on a Smith chart: line through
+// the points path, in the legend as name, and, when i0 ≥ 0, a dot on
+// points[i0] (the value at f0).
+func addSmithTrace(p *plot.Plot, path, points plotter.XYs, i0 int, c rgb, name string) error {
+	l, err := plotter.NewLine(path)
+	if err != nil {
+		return err
+	}
+	l.Color = colour(c)
+	l.Width = vg.Points(1.6)
+	p.Add(l)
+	p.Legend.Add(name, l)
+	if i0 >= 0 {
+		s, err := plotter.NewScatter(plotter.XYs{points[i0]})
+		if err != nil {
+			return err
+		}
+		s.GlyphStyle = draw.GlyphStyle{Color: colour(c), Radius: vg.Points(3.5), Shape: draw.CircleGlyph{}}
+		p.Add(s)
+	}
 	return nil
 }
