@@ -19,18 +19,10 @@ import (
 // verifyReport is what verify prints with --json and writes as
 // fullwave.json.
 type verifyReport struct {
-	Design             string   `json:"design"`
-	Mesh               string   `json:"mesh"`
-	FrequencyHz        float64  `json:"frequency_hz"`
-	S11DBF0            float64  `json:"s11_db_f0"`
-	BestMatchHz        float64  `json:"best_match_hz"`
-	CircuitS11DBF0     float64  `json:"circuit_s11_db_f0"`
-	CircuitBestMatchHz float64  `json:"circuit_best_match_hz"`
-	MaxSDifference     float64  `json:"max_s_difference"`
-	Cells              int      `json:"cells"`
-	Steps              int      `json:"steps"`
-	Seconds            float64  `json:"seconds"`
-	Notes              []string `json:"notes"`
+	Design      string  `json:"design"`
+	Mesh        string  `json:"mesh"`
+	FrequencyHz float64 `json:"frequency_hz"`
+	fullwave.Summary
 }
 
 func newVerifyCmd() *cobra.Command {
@@ -103,10 +95,7 @@ embedded demo. A run that does not converge writes nothing.`,
 				}
 				return err
 			}
-			vr := verifyReport{Design: res.Design.Name, Mesh: meshArg, FrequencyHz: res.Design.Freq,
-				S11DBF0: rep.S11DBF0, BestMatchHz: rep.BestMatchHz, CircuitS11DBF0: rep.CircuitS11DBF0,
-				CircuitBestMatchHz: rep.CircuitBestMatchHz, MaxSDifference: rep.MaxSDifference,
-				Cells: rep.Cells, Steps: rep.Steps, Seconds: rep.Seconds, Notes: rep.Notes}
+			vr := verifyReport{Design: res.Design.Name, Mesh: meshArg, FrequencyHz: res.Design.Freq, Summary: rep.Summary}
 			z0 := res.Design.Z0
 			net := &physical.Touchstone{Ports: 2, Z0: z0, Freqs: rep.Freqs}
 			in1 := &physical.Touchstone{Ports: 1, Z0: z0, Freqs: rep.Freqs}

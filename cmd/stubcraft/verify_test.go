@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"os"
 	"path/filepath"
 	"strings"
@@ -27,5 +28,22 @@ func TestVerifyRefusals(t *testing.T) {
 	}
 	if _, err := os.Stat(out); !os.IsNotExist(err) {
 		t.Errorf("output directory exists after a refusal (stat: %v)", err)
+	}
+}
+
+// verify --json prints the keys flat, beside the design's.
+func TestVerifyReportKeys(t *testing.T) {
+	b, err := json.Marshal(verifyReport{Design: "d", Mesh: "coarse", FrequencyHz: 1e9})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var m map[string]any
+	if err := json.Unmarshal(b, &m); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"design", "mesh", "frequency_hz", "s11_db_f0", "best_match_hz", "circuit_s11_db_f0", "circuit_best_match_hz", "max_s_difference", "cells", "steps", "seconds"} {
+		if _, ok := m[k]; !ok {
+			t.Errorf("key %q missing from %s", k, b)
+		}
 	}
 }

@@ -114,21 +114,27 @@ func span(p geom.Polygon, x, y int64) (lo, hi int64, ok bool) {
 
 // Report is a full-wave check of one build.
 type Report struct {
-	Freqs              []float64          // Hz
-	Network            [][2][2]complex128 // full-wave S of the network alone, port 1 the source side, referred to Zref
-	Circuit            [][2][2]complex128 // the circuit model's, at the same frequencies
-	Matched            []complex128       // full-wave S11 with the load attached
-	CircuitMatched     []complex128       // the circuit model's S11 with the load
-	Zref               float64            // ohm
-	S11DBF0            float64            `json:"s11_db_f0"`
-	BestMatchHz        float64            `json:"best_match_hz"`
-	CircuitS11DBF0     float64            `json:"circuit_s11_db_f0"`
-	CircuitBestMatchHz float64            `json:"circuit_best_match_hz"`
-	MaxSDifference     float64            `json:"max_s_difference"`
-	Cells              int                `json:"cells"`
-	Steps              int                `json:"steps"`
-	Seconds            float64            `json:"seconds"`
-	Notes              []string           `json:"notes"`
+	Freqs          []float64          // Hz
+	Network        [][2][2]complex128 // full-wave S of the network alone, port 1 the source side, referred to Zref
+	Circuit        [][2][2]complex128 // the circuit model's, at the same frequencies
+	Matched        []complex128       // full-wave S11 with the load attached
+	CircuitMatched []complex128       // the circuit model's S11 with the load
+	Zref           float64            // ohm
+	Summary
+}
+
+// Summary is the figures of a full-wave check, as `verify --json` prints
+// them.
+type Summary struct {
+	S11DBF0            float64  `json:"s11_db_f0"`
+	BestMatchHz        float64  `json:"best_match_hz"`
+	CircuitS11DBF0     float64  `json:"circuit_s11_db_f0"`
+	CircuitBestMatchHz float64  `json:"circuit_best_match_hz"`
+	MaxSDifference     float64  `json:"max_s_difference"`
+	Cells              int      `json:"cells"`
+	Steps              int      `json:"steps"`
+	Seconds            float64  `json:"seconds"`
+	Notes              []string `json:"notes"`
 }
 
 // Verify runs the full-wave solve of res's drawn copper at the build's
@@ -151,7 +157,8 @@ func Verify(ctx context.Context, res *synth.Result, o fdtd.Options) (*Report, er
 		return nil, err
 	}
 	z0 := res.Design.Z0
-	rep := &Report{Freqs: freqs, Network: r.S, Circuit: sw.Network, Zref: r.Zref, Cells: r.Cells, Steps: r.Steps, Seconds: r.Seconds}
+	rep := &Report{Freqs: freqs, Network: r.S, Circuit: sw.Network, Zref: r.Zref,
+		Summary: Summary{Cells: r.Cells, Steps: r.Steps, Seconds: r.Seconds}}
 	rep.Notes = append(rep.Notes, r.Warnings...)
 	rep.Notes = append(rep.Notes, "full-wave model: perfect zero-thickness copper, no solder mask, substrate and ground plane unbounded beside the board")
 	for k := range freqs {
