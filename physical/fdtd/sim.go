@@ -3,6 +3,7 @@ package fdtd
 import (
 	"math"
 	"runtime"
+	"slices"
 	"sync"
 )
 
@@ -29,11 +30,12 @@ type sim struct {
 	ixh, iyh, izh, ixe, iye, ize []float32
 	caT, cbT, caZ, cbZ           []float32 // E coefficients by z index: tangential (Ex, Ey) and Ez
 	dtmu                         float32
-	hcoef                        []float32 // dtmu for every k (ψ passes use a per-k coefficient)
 	pecX, pecY, pecZ             []int32
 	pml                          [3]pmlAxis
+	xRow, yRow, zRow             []pmlRow // CPML coefficients by x, y and z index (p < 0 outside the layers)
+	zLo                          int      // the first z index of the top layer
 	dt                           float64
-	workers                      int
+	team                         *team
 }
 
 // cpmlProfile returns σ, κ, α at depth ρ ∈ [0, 1] into a layer whose cells
@@ -160,7 +162,7 @@ func newSim(g *Grid, s Structure, workers int) *sim {
 	nx, ny, nz := len(g.X), len(g.Y), len(g.Z)
 	n := nx * ny * nz
 	dt := timeStep(g)
-	m := &sim{nx: nx, ny: ny, nz: nz, dt: dt, workers: workers}
+	m := &sim{nx: nx, ny: ny, nz: nz, dt: dt, team: newTeam(workers)}
 	m.ex, m.ey, m.ez = make([]float32, n), make([]float32, n), make([]float32, n)
 	m.hx, m.hy, m.hz = make([]float32, n), make([]float32, n), make([]float32, n)
 	var kxE, kxH, kyE, kyH, kzE, kzH []float64
@@ -179,11 +181,17 @@ func newSim(g *Grid, s Structure, workers int) *sim {
 		p.psiE1, p.psiE2 = make([]float32, sz), make([]float32, sz)
 		p.psiH1, p.psiH2 = make([]float32, sz), make([]float32, sz)
 	}
-	m.dtmu = float32(dt / mu0)
-	m.hcoef = make([]float32, nz)
-	for k := range m.hcoef {
-		m.hcoef[k] = m.dtmu
+	m.xRow, m.yRow, m.zRow = m.rowPML(0, nx), m.rowPML(1, ny), m.rowPML(2, nz)
+	m.zLo = nz
+	if len(m.pml[2].idx) > 0 {
+		m.zLo = m.pml[2].idx[0]
 	}
+	for p, k := range m.pml[2].idx {
+		if k != m.zLo+p {
+			panic("fdtd: the top absorbing layer's z indices are not contiguous")
+		}
+	}
+	m.dtmu = float32(dt / mu0)
 	// Materials: substrate below z = h, air above; Ex, Ey on the copper
 	// plane see the average weighted by the half cells on each side.
 	sigma := 2 * math.Pi * s.F0 * eps0 * s.Er * s.TanD
@@ -212,6 +220,10 @@ func newSim(g *Grid, s Structure, workers int) *sim {
 		m.caT[k], m.cbT[k] = coef(erT, sgT)
 	}
 	m.markPEC(g)
+	for _, l := range []*[]int32{&m.pecX, &m.pecY, &m.pecZ} {
+		slices.Sort(*l)
+		*l = slices.Compact(*l)
+	}
 	return m
 }
 
@@ -260,238 +272,329 @@ func (m *sim) markPEC(g *Grid) {
 	}
 }
 
-// parallel runs fn over [0, n) split into one contiguous range per worker.
-func (m *sim) parallel(n int, fn func(a, b int)) {
-	w := m.workers
-	if w > n {
-		w = n
+// team runs the update over x slabs on persistent goroutines: the caller
+// takes the first slab range and each helper one other, so a half step
+// costs one handoff per helper and one wait.
+type team struct {
+	helpers []chan slabJob
+	done    sync.WaitGroup
+}
+
+// slabJob is one helper's share of a half step.
+type slabJob struct {
+	fn   func(a, b int)
+	a, b int
+}
+
+func newTeam(workers int) *team {
+	t := &team{}
+	for h := 1; h < workers; h++ {
+		c := make(chan slabJob)
+		t.helpers = append(t.helpers, c)
+		go func() {
+			for j := range c {
+				j.fn(j.a, j.b)
+				t.done.Done()
+			}
+		}()
 	}
+	return t
+}
+
+// run calls fn over [0, n) split into one contiguous range per worker and
+// returns when all are done.
+func (t *team) run(n int, fn func(a, b int)) {
+	w := min(len(t.helpers)+1, n)
 	if w <= 1 {
 		fn(0, n)
 		return
 	}
-	var wg sync.WaitGroup
-	for t := 0; t < w; t++ {
-		a, b := t*n/w, (t+1)*n/w
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			fn(a, b)
-		}()
+	t.done.Add(w - 1)
+	for h := 1; h < w; h++ {
+		t.helpers[h-1] <- slabJob{fn, h * n / w, (h + 1) * n / w}
 	}
-	wg.Wait()
+	fn(0, n/w)
+	t.done.Wait()
 }
 
-// updateH advances H by one step over x slabs [ia, ib).
+// stop ends the helper goroutines.
+func (t *team) stop() {
+	for _, c := range t.helpers {
+		close(c)
+	}
+	t.helpers = nil
+}
+
+// parallel runs fn over [0, n) split into one contiguous range per worker.
+func (m *sim) parallel(n int, fn func(a, b int)) { m.team.run(n, fn) }
+
+// close stops the sim's worker goroutines; the sim must not step after it.
+func (m *sim) close() { m.team.stop() }
+
+// pmlRow is the CPML of one row position along x or y: the index into the
+// axis's ψ arrays and the recursive-convolution coefficients b and c/Δ for
+// H and E.
+type pmlRow struct {
+	p                int
+	bH, ccH, bE, ccE float32
+}
+
+// rowPML returns, for every position along axis a, its CPML coefficients,
+// p < 0 where the axis has no absorbing layer.
+func (m *sim) rowPML(a, n int) []pmlRow {
+	out := make([]pmlRow, n)
+	for i := range out {
+		out[i].p = -1
+	}
+	ax := &m.pml[a]
+	for p, i := range ax.idx {
+		out[i] = pmlRow{p: p, bH: ax.bH[p], ccH: ax.cH[p] * ax.invDH[p], bE: ax.bE[p], ccE: ax.cE[p] * ax.invDE[p]}
+	}
+	return out
+}
+
+// updateH advances H by one step over x slabs [ia, ib), the CPML included:
+// each z-row gets its curl update, then, while the row is in cache, the
+// ψ recursions of the layers it lies in (x, then y, then z: the order in
+// which the corrections were always added, so the sums round the same).
+// Every row is resliced to one length so that the loops carry no bounds
+// checks.
 func (m *sim) updateH(ia, ib int) {
 	ny, nz := m.ny, m.nz
 	sx := ny * nz
+	n := nz - 1 // H rows run over k in [0, nz−1)
 	dtmu := m.dtmu
-	izh := m.izh[:nz]
+	px, py, pz := &m.pml[0], &m.pml[1], &m.pml[2]
+	npy, npz := len(py.idx), len(pz.idx)
+	kz0, kz1 := max(m.zLo, 0), min(m.zLo+npz, n) // the top layer's rows
 	for i := ia; i < ib && i < m.nx-1; i++ {
 		ix := m.ixh[i]
+		xr := m.xRow[i]
 		for j := 0; j < ny-1; j++ {
 			iy := m.iyh[j]
 			n0 := (i*ny + j) * nz
-			hx := m.hx[n0 : n0+nz]
-			hy := m.hy[n0 : n0+nz]
-			hz := m.hz[n0 : n0+nz]
-			ex := m.ex[n0 : n0+nz]
-			ey := m.ey[n0 : n0+nz]
-			ez := m.ez[n0 : n0+nz]
-			exJ := m.ex[n0+nz : n0+2*nz]
-			ezJ := m.ez[n0+nz : n0+2*nz]
-			eyI := m.ey[n0+sx : n0+sx+nz]
-			ezI := m.ez[n0+sx : n0+sx+nz]
-			for k := 0; k < nz-1; k++ {
+			hx := m.hx[n0 : n0+n]
+			hy := m.hy[n0 : n0+n][:len(hx)]
+			hz := m.hz[n0 : n0+n][:len(hx)]
+			ex := m.ex[n0 : n0+n][:len(hx)]
+			ey := m.ey[n0 : n0+n][:len(hx)]
+			ez := m.ez[n0 : n0+n][:len(hx)]
+			exK := m.ex[n0+1 : n0+1+n][:len(hx)]
+			eyK := m.ey[n0+1 : n0+1+n][:len(hx)]
+			exJ := m.ex[n0+nz : n0+nz+n][:len(hx)]
+			ezJ := m.ez[n0+nz : n0+nz+n][:len(hx)]
+			eyI := m.ey[n0+sx : n0+sx+n][:len(hx)]
+			ezI := m.ez[n0+sx : n0+sx+n][:len(hx)]
+			izh := m.izh[:len(hx)]
+			for k := range hx {
 				iz := izh[k]
-				hx[k] -= dtmu * ((ezJ[k]-ez[k])*iy - (ey[k+1]-ey[k])*iz)
-				hy[k] -= dtmu * ((ex[k+1]-ex[k])*iz - (ezI[k]-ez[k])*ix)
+				hx[k] -= dtmu * ((ezJ[k]-ez[k])*iy - (eyK[k]-ey[k])*iz)
+				hy[k] -= dtmu * ((exK[k]-ex[k])*iz - (ezI[k]-ez[k])*ix)
 				hz[k] -= dtmu * ((eyI[k]-ey[k])*ix - (exJ[k]-ex[k])*iy)
+			}
+			if xr.p >= 0 {
+				// x: Hy += dtmu·ψ(∂Ez/∂x), Hz −= dtmu·ψ(∂Ey/∂x)
+				q := (xr.p*ny + j) * nz
+				p1 := px.psiH1[q : q+n][:len(hx)]
+				p2 := px.psiH2[q : q+n][:len(hx)]
+				b, c := xr.bH, xr.ccH
+				for k := range hx {
+					v1 := b*p1[k] + c*(ezI[k]-ez[k])
+					p1[k] = v1
+					hy[k] += dtmu * v1
+					v2 := b*p2[k] + c*(eyI[k]-ey[k])
+					p2[k] = v2
+					hz[k] -= dtmu * v2
+				}
+			}
+			if yr := m.yRow[j]; yr.p >= 0 {
+				// y: Hx −= dtmu·ψ(∂Ez/∂y), Hz += dtmu·ψ(∂Ex/∂y)
+				q := (i*npy + yr.p) * nz
+				p1 := py.psiH1[q : q+n][:len(hx)]
+				p2 := py.psiH2[q : q+n][:len(hx)]
+				b, c := yr.bH, yr.ccH
+				for k := range hx {
+					v1 := b*p1[k] + c*(ezJ[k]-ez[k])
+					p1[k] = v1
+					hx[k] -= dtmu * v1
+					v2 := b*p2[k] + c*(exJ[k]-ex[k])
+					p2[k] = v2
+					hz[k] += dtmu * v2
+				}
+			}
+			if kz0 < kz1 {
+				// z: Hx += dtmu·ψ(∂Ey/∂z), Hy −= dtmu·ψ(∂Ex/∂z); the ψ
+				// of cell k sits at k − zLo in the row's run.
+				q := (i*ny+j)*npz - m.zLo
+				hxz := hx[kz0:kz1]
+				hyz := hy[kz0:kz1][:len(hxz)]
+				p1 := pz.psiH1[q+kz0 : q+kz1][:len(hxz)]
+				p2 := pz.psiH2[q+kz0 : q+kz1][:len(hxz)]
+				zr := m.zRow[kz0:kz1][:len(hxz)]
+				exz, exzK := ex[kz0:kz1][:len(hxz)], exK[kz0:kz1][:len(hxz)]
+				eyz, eyzK := ey[kz0:kz1][:len(hxz)], eyK[kz0:kz1][:len(hxz)]
+				for k := range hxz {
+					b, c := zr[k].bH, zr[k].ccH
+					v1 := b*p1[k] + c*(eyzK[k]-eyz[k])
+					p1[k] = v1
+					hxz[k] += dtmu * v1
+					v2 := b*p2[k] + c*(exzK[k]-exz[k])
+					p2[k] = v2
+					hyz[k] -= dtmu * v2
+				}
 			}
 		}
 	}
 }
 
-// updateE advances E by one step over x slabs [ia, ib).
+// updateE advances E by one step over x slabs [ia, ib), the CPML included
+// as in updateH, then zeroes the slabs' copper and via components.
 func (m *sim) updateE(ia, ib int) {
 	ny, nz := m.ny, m.nz
 	sx := ny * nz
-	ize := m.ize[:nz]
-	caT, cbT, caZ, cbZ := m.caT[:nz], m.cbT[:nz], m.caZ[:nz], m.cbZ[:nz]
+	n := nz - 2  // tangential E rows run over k in [1, nz−1)
+	nn := nz - 1 // Ez rows run over k in [0, nz−1)
+	px, py, pz := &m.pml[0], &m.pml[1], &m.pml[2]
+	npy, npz := len(py.idx), len(pz.idx)
+	kz0, kz1 := max(m.zLo, 1), min(m.zLo+npz, nz-1) // the top layer's rows
 	for i := ia; i < ib && i < m.nx-1; i++ {
 		ix := m.ixe[i]
+		xr := m.xRow[i]
 		for j := 0; j < ny-1; j++ {
 			iy := m.iye[j]
+			yr := m.yRow[j]
 			n0 := (i*ny + j) * nz
-			hx := m.hx[n0 : n0+nz]
-			hy := m.hy[n0 : n0+nz]
-			hz := m.hz[n0 : n0+nz]
+			// Tangential rows start at k = 1: index k here is cell k+1.
+			hx := m.hx[n0+1 : n0+1+n]
+			hy := m.hy[n0+1 : n0+1+n][:len(hx)]
+			hz := m.hz[n0+1 : n0+1+n][:len(hx)]
+			hxK := m.hx[n0 : n0+n][:len(hx)]
+			hyK := m.hy[n0 : n0+n][:len(hx)]
+			ize := m.ize[1 : 1+n][:len(hx)]
+			caT, cbT := m.caT[1 : 1+n][:len(hx)], m.cbT[1 : 1+n][:len(hx)]
 			if j >= 1 {
-				ex := m.ex[n0 : n0+nz]
-				hzJ := m.hz[n0-nz : n0]
-				for k := 1; k < nz-1; k++ {
-					ex[k] = caT[k]*ex[k] + cbT[k]*((hz[k]-hzJ[k])*iy-(hy[k]-hy[k-1])*ize[k])
+				ex := m.ex[n0+1 : n0+1+n][:len(hx)]
+				hzJ := m.hz[n0+1-nz : n0+1-nz+n][:len(hx)]
+				for k := range hx {
+					ex[k] = caT[k]*ex[k] + cbT[k]*((hz[k]-hzJ[k])*iy-(hy[k]-hyK[k])*ize[k])
 				}
-			}
-			if i >= 1 {
-				ey := m.ey[n0 : n0+nz]
-				hzI := m.hz[n0-sx : n0-sx+nz]
-				for k := 1; k < nz-1; k++ {
-					ey[k] = caT[k]*ey[k] + cbT[k]*((hx[k]-hx[k-1])*ize[k]-(hz[k]-hzI[k])*ix)
+				if yr.p >= 0 {
+					// y: Ex += cb·ψ(∂Hz/∂y)
+					q := (i*npy+yr.p)*nz + 1
+					p1 := py.psiE1[q : q+n][:len(hx)]
+					b, c := yr.bE, yr.ccE
+					for k := range hx {
+						v := b*p1[k] + c*(hz[k]-hzJ[k])
+						p1[k] = v
+						ex[k] += cbT[k] * v
+					}
 				}
-				if j >= 1 {
-					ez := m.ez[n0 : n0+nz]
-					hyI := m.hy[n0-sx : n0-sx+nz]
-					hxJ := m.hx[n0-nz : n0]
-					for k := 0; k < nz-1; k++ {
-						ez[k] = caZ[k]*ez[k] + cbZ[k]*((hy[k]-hyI[k])*ix-(hx[k]-hxJ[k])*iy)
+				if kz0 < kz1 {
+					// z: Ex −= cb·ψ(∂Hy/∂z)
+					q := (i*ny+j)*npz - m.zLo
+					p1 := pz.psiE1[q+kz0 : q+kz1]
+					zr := m.zRow[kz0:kz1][:len(p1)]
+					exz, cbz := ex[kz0-1 : kz1-1][:len(p1)], cbT[kz0-1 : kz1-1][:len(p1)]
+					hyz, hyzK := hy[kz0-1 : kz1-1][:len(p1)], hyK[kz0-1 : kz1-1][:len(p1)]
+					for k := range p1 {
+						v := zr[k].bE*p1[k] + zr[k].ccE*(hyz[k]-hyzK[k])
+						p1[k] = v
+						exz[k] -= cbz[k] * v
 					}
 				}
 			}
-		}
-	}
-}
-
-// span is a half-open index range.
-type span struct{ a, b int }
-
-// psiPass applies one auxiliary field of the CPML along axis a to field f,
-// whose curl takes the derivative of g along that axis. e says whether f is
-// an E component (backward difference, dual spacing, E coefficients) or H
-// (forward difference, primary spacing). r are f's update ranges in i, j,
-// k; only x slabs [ia, ib) are touched.
-func (m *sim) psiPass(a int, f, g, psi []float32, e bool, sign float32, coef []float32, r [3]span, ia, ib int) {
-	p := &m.pml[a]
-	ny, nz := m.ny, m.nz
-	strides := [3]int{ny * nz, nz, 1}
-	st := strides[a]
-	b, c, inv := p.bH, p.cH, p.invDH
-	if e {
-		b, c, inv = p.bE, p.cE, p.invDE
-		st = -st // backward difference: g[n] − g[n−st] = −(g[n−st] − g[n])
-	}
-	lo, hi := max(r[0].a, ia), min(r[0].b, ib)
-	k0, k1 := r[2].a, r[2].b
-	// row applies the pass to one run of k at f index n0, ψ index q0.
-	row := func(n0, q0, pi int) {
-		bb, cc := b[pi], c[pi]*inv[pi]
-		if e {
-			cc = -cc
-		}
-		fr := f[n0+k0 : n0+k1]
-		gr := g[n0+k0 : n0+k1]
-		gs := g[n0+k0+st : n0+k1+st]
-		ps := psi[q0+k0 : q0+k1]
-		cf := coef[k0:k1]
-		for k := range fr {
-			v := bb*ps[k] + cc*(gs[k]-gr[k])
-			ps[k] = v
-			fr[k] += sign * cf[k] * v
-		}
-	}
-	switch a {
-	case 0:
-		for pi, i := range p.idx {
-			if i < lo || i >= hi {
+			if i < 1 {
 				continue
 			}
-			for j := r[1].a; j < r[1].b; j++ {
-				row((i*ny+j)*nz, (pi*ny+j)*nz, pi)
+			ey := m.ey[n0+1 : n0+1+n][:len(hx)]
+			hzI := m.hz[n0+1-sx : n0+1-sx+n][:len(hx)]
+			for k := range hx {
+				ey[k] = caT[k]*ey[k] + cbT[k]*((hx[k]-hxK[k])*ize[k]-(hz[k]-hzI[k])*ix)
 			}
-		}
-	case 1:
-		np := len(p.idx)
-		for i := lo; i < hi; i++ {
-			for pi, j := range p.idx {
-				if j < r[1].a || j >= r[1].b {
-					continue
-				}
-				row((i*ny+j)*nz, (i*np+pi)*nz, pi)
-			}
-		}
-	case 2:
-		np := len(p.idx)
-		for i := lo; i < hi; i++ {
-			for j := r[1].a; j < r[1].b; j++ {
-				n0, q0 := (i*ny+j)*nz, (i*ny+j)*np
-				for pi, k := range p.idx {
-					if k < k0 || k >= k1 {
-						continue
-					}
-					n := n0 + k
-					cc := c[pi] * inv[pi]
-					d := g[n+1] - g[n]
-					if e {
-						d = g[n] - g[n-1]
-					}
-					v := b[pi]*psi[q0+pi] + cc*d
-					psi[q0+pi] = v
-					f[n] += sign * coef[k] * v
+			if xr.p >= 0 {
+				// x: Ey −= cb·ψ(∂Hz/∂x)
+				q := (xr.p*ny+j)*nz + 1
+				p1 := px.psiE1[q : q+n][:len(hx)]
+				b, c := xr.bE, xr.ccE
+				for k := range hx {
+					v := b*p1[k] + c*(hz[k]-hzI[k])
+					p1[k] = v
+					ey[k] -= cbT[k] * v
 				}
 			}
+			if kz0 < kz1 {
+				// z: Ey += cb·ψ(∂Hx/∂z)
+				q := (i*ny+j)*npz - m.zLo
+				p1 := pz.psiE2[q+kz0 : q+kz1]
+				zr := m.zRow[kz0:kz1][:len(p1)]
+				eyz, cbz := ey[kz0-1 : kz1-1][:len(p1)], cbT[kz0-1 : kz1-1][:len(p1)]
+				hxz, hxzK := hx[kz0-1 : kz1-1][:len(p1)], hxK[kz0-1 : kz1-1][:len(p1)]
+				for k := range p1 {
+					v := zr[k].bE*p1[k] + zr[k].ccE*(hxz[k]-hxzK[k])
+					p1[k] = v
+					eyz[k] += cbz[k] * v
+				}
+			}
+			if j < 1 {
+				continue
+			}
+			ez := m.ez[n0 : n0+nn]
+			hxa := m.hx[n0 : n0+nn][:len(ez)]
+			hya := m.hy[n0 : n0+nn][:len(ez)]
+			hyI := m.hy[n0-sx : n0-sx+nn][:len(ez)]
+			hxJ := m.hx[n0-nz : n0-nz+nn][:len(ez)]
+			caZ, cbZ := m.caZ[:nn][:len(ez)], m.cbZ[:nn][:len(ez)]
+			for k := range ez {
+				ez[k] = caZ[k]*ez[k] + cbZ[k]*((hya[k]-hyI[k])*ix-(hxa[k]-hxJ[k])*iy)
+			}
+			if xr.p >= 0 {
+				// x: Ez += cb·ψ(∂Hy/∂x)
+				q := (xr.p*ny + j) * nz
+				p1 := px.psiE2[q : q+nn][:len(ez)]
+				b, c := xr.bE, xr.ccE
+				for k := range ez {
+					v := b*p1[k] + c*(hya[k]-hyI[k])
+					p1[k] = v
+					ez[k] += cbZ[k] * v
+				}
+			}
+			if yr.p >= 0 {
+				// y: Ez −= cb·ψ(∂Hx/∂y)
+				q := (i*npy + yr.p) * nz
+				p1 := py.psiE2[q : q+nn][:len(ez)]
+				b, c := yr.bE, yr.ccE
+				for k := range ez {
+					v := b*p1[k] + c*(hxa[k]-hxJ[k])
+					p1[k] = v
+					ez[k] -= cbZ[k] * v
+				}
+			}
 		}
 	}
+	m.zeroPEC(ia, ib)
 }
 
-// pmlH applies the CPML corrections to H over x slabs [ia, ib).
-func (m *sim) pmlH(ia, ib int) {
-	r := [3]span{{0, m.nx - 1}, {0, m.ny - 1}, {0, m.nz - 1}}
-	px, py, pz := &m.pml[0], &m.pml[1], &m.pml[2]
-	// x: Hy += dtmu·∂Ez/∂x, Hz −= dtmu·∂Ey/∂x
-	m.psiPass(0, m.hy, m.ez, px.psiH1, false, +1, m.hcoef, r, ia, ib)
-	m.psiPass(0, m.hz, m.ey, px.psiH2, false, -1, m.hcoef, r, ia, ib)
-	// y: Hx −= dtmu·∂Ez/∂y, Hz += dtmu·∂Ex/∂y
-	m.psiPass(1, m.hx, m.ez, py.psiH1, false, -1, m.hcoef, r, ia, ib)
-	m.psiPass(1, m.hz, m.ex, py.psiH2, false, +1, m.hcoef, r, ia, ib)
-	// z: Hx += dtmu·∂Ey/∂z, Hy −= dtmu·∂Ex/∂z
-	m.psiPass(2, m.hx, m.ey, pz.psiH1, false, +1, m.hcoef, r, ia, ib)
-	m.psiPass(2, m.hy, m.ex, pz.psiH2, false, -1, m.hcoef, r, ia, ib)
-}
-
-// pmlE applies the CPML corrections to E over x slabs [ia, ib).
-func (m *sim) pmlE(ia, ib int) {
-	nx, ny, nz := m.nx, m.ny, m.nz
-	rx := [3]span{{0, nx - 1}, {1, ny - 1}, {1, nz - 1}}
-	ry := [3]span{{1, nx - 1}, {0, ny - 1}, {1, nz - 1}}
-	rz := [3]span{{1, nx - 1}, {1, ny - 1}, {0, nz - 1}}
-	px, py, pz := &m.pml[0], &m.pml[1], &m.pml[2]
-	// x: Ey −= cb·∂Hz/∂x, Ez += cb·∂Hy/∂x
-	m.psiPass(0, m.ey, m.hz, px.psiE1, true, -1, m.cbT, ry, ia, ib)
-	m.psiPass(0, m.ez, m.hy, px.psiE2, true, +1, m.cbZ, rz, ia, ib)
-	// y: Ex += cb·∂Hz/∂y, Ez −= cb·∂Hx/∂y
-	m.psiPass(1, m.ex, m.hz, py.psiE1, true, +1, m.cbT, rx, ia, ib)
-	m.psiPass(1, m.ez, m.hx, py.psiE2, true, -1, m.cbZ, rz, ia, ib)
-	// z: Ex −= cb·∂Hy/∂z, Ey += cb·∂Hx/∂z
-	m.psiPass(2, m.ex, m.hy, pz.psiE1, true, -1, m.cbT, rx, ia, ib)
-	m.psiPass(2, m.ey, m.hx, pz.psiE2, true, +1, m.cbT, ry, ia, ib)
-}
-
-// zeroPEC forces the listed E components to zero.
-func (m *sim) zeroPEC() {
-	for _, n := range m.pecX {
-		m.ex[n] = 0
-	}
-	for _, n := range m.pecY {
-		m.ey[n] = 0
-	}
-	for _, n := range m.pecZ {
-		m.ez[n] = 0
+// zeroPEC forces the listed E components in x slabs [ia, ib) to zero (the
+// lists are sorted by cell index, and a slab's cells are contiguous).
+func (m *sim) zeroPEC(ia, ib int) {
+	lo, hi := int32(ia*m.ny*m.nz), int32(min(ib, m.nx)*m.ny*m.nz)
+	for _, c := range []struct {
+		cells []int32
+		f     []float32
+	}{{m.pecX, m.ex}, {m.pecY, m.ey}, {m.pecZ, m.ez}} {
+		a, _ := slices.BinarySearch(c.cells, lo)
+		b, _ := slices.BinarySearch(c.cells, hi)
+		for _, n := range c.cells[a:b] {
+			c.f[n] = 0
+		}
 	}
 }
 
 // step advances the fields by one time step (H then E), each half on every
 // worker.
 func (m *sim) step() {
-	m.parallel(m.nx, func(a, b int) {
-		m.updateH(a, b)
-		m.pmlH(a, b)
-	})
-	m.parallel(m.nx, func(a, b int) {
-		m.updateE(a, b)
-		m.pmlE(a, b)
-	})
-	m.zeroPEC()
+	m.parallel(m.nx, m.updateH)
+	m.parallel(m.nx, m.updateE)
 }
 
 // energy returns Σ(E² + H²) over the grid, a decay measure (unweighted).

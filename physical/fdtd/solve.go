@@ -232,6 +232,7 @@ func calibrate(ctx context.Context, s Structure, width int64, edge float64, o Op
 // runOnce drives port p and records every port's probes.
 func runOnce(ctx context.Context, g *Grid, s Structure, o Options, p, runIdx, runs int, start time.Time) ([2]probeSet, int, error) {
 	m := newSim(g, s, o.Workers)
+	defer m.close()
 	nf := len(s.Freqs)
 	var out [2]probeSet
 	type probeIdx struct {
@@ -323,10 +324,7 @@ func runOnce(ctx context.Context, g *Grid, s Structure, o Options, p, runIdx, ru
 		db   float64
 	}
 	for n := 0; n < o.MaxSteps; n++ {
-		m.parallel(m.nx, func(a, b int) {
-			m.updateH(a, b)
-			m.pmlH(a, b)
-		})
+		m.parallel(m.nx, m.updateH)
 		// H is now at (n+½)·dt.
 		for q := range pr {
 			x := &pr[q]
@@ -337,11 +335,7 @@ func runOnce(ctx context.Context, g *Grid, s Structure, o Options, p, runIdx, ru
 				x.ib[f] += complex(cb, 0) * phH[f]
 			}
 		}
-		m.parallel(m.nx, func(a, b int) {
-			m.updateE(a, b)
-			m.pmlE(a, b)
-		})
-		m.zeroPEC()
+		m.parallel(m.nx, m.updateE)
 		t := float64(n+1) * dt
 		u := (t - t0) / tau
 		amp := float32(math.Exp(-u*u) * math.Sin(2*math.Pi*fc*(t-t0)))
