@@ -59,6 +59,11 @@ type BuildInput struct {
 	// MaxLoadGamma and MaxNetworkLossDB): one that a matched network can
 	// only absorb by dissipating the power.
 	AcceptLoss bool
+	// FullwaveMap maps the circuit model onto a full-wave solve (build
+	// --fullwave-centre, package synth/fullwave); the re-centring then
+	// draws the lengths that match at f0 in the mapped model. Nil in a
+	// plain build; a band match refuses it.
+	FullwaveMap *FullwaveMapping
 }
 
 // Result is a built design: the corrected physical network and the proof
@@ -93,8 +98,15 @@ type Result struct {
 	// structures, each with its own layout; Build fills them.
 	Structures []Structure
 
+	// FullwaveCentre is the record of build --fullwave-centre; nil in a
+	// plain build.
+	FullwaveCentre *FullwaveCentring
+
 	load       Load               // the load, for the bench model
 	benchLines physical.LineMaker // line models of perturbed boards
+	sim        *physical.Sim      // the circuit model of the board kept, as swept
+	// fullwaveResidual is FullwaveMapping.Residual of the build's input.
+	fullwaveResidual complex128
 }
 
 // Band is a contiguous frequency range around f0.
@@ -341,7 +353,18 @@ func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
 	if err != nil {
 		return nil, d.KeyError("", fmt.Errorf("on stackup %s at %.6g GHz: %w", in.Stackup.Name, f0/1e9, err))
 	}
+	if in.FullwaveMap != nil {
+		if d.Match != nil && d.Match.HasBand() {
+			return nil, d.KeyError("match.band", ErrFullwaveMapBand)
+		}
+		if err := ph.applyFullwaveMap(in.FullwaveMap.Offsets); err != nil {
+			return nil, err
+		}
+	}
 	r := &Result{Design: d, Stackup: in.Stackup, LoadF0: zl, Sections: sections, Physical: ph}
+	if in.FullwaveMap != nil {
+		r.fullwaveResidual = in.FullwaveMap.Residual
+	}
 	r.Notes = append(append(append(append(r.Notes, s.preNotes...), notes...), ph.Notes...), s.postNotes...)
 	r.Warnings = append(append(r.Warnings, ph.Warnings...), s.warnings...)
 	if len(ph.Elements) > 0 {
@@ -380,6 +403,7 @@ func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
 	if err != nil {
 		return nil, err
 	}
+	r.sim = sim
 	r.S11F0 = sim.InputReflection(f0, zl, z0)
 	r.LossF0DB = sim.Loss(f0, zl, z0)
 	if err := checkLoss(LoadGamma(zl, z0), r.LossF0DB, f0); err != nil && !in.AcceptLoss {
@@ -469,7 +493,7 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 		through := ph.ThroughIndex()
 		if k := len(through) - 1; k >= 0 && ph.Elements[through[k]].Role == RoleFeed {
 			feed := ph.Elements[through[k]]
-			l := feed.Drawn()
+			l := feed.ModelLength()
 			for _, st := range ph.Elements {
 				if st.Role == RoleStub && st.At == k-1 {
 					arm := ph.Elements[through[k-1]]
@@ -481,20 +505,24 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 		}
 		zin := SectionsInput(secs, zl)
 		target = physical.Reflection(zin, z0)
-		r.Recentre.Target = target
 	}
+	// A full-wave mapping's output residual: aim the mapped model where
+	// the full-wave result will be at the target.
+	target -= r.fullwaveResidual
+	r.Recentre.Target = target
 	// simFor is the layout with the adjustable lengths moved by x; the
 	// line models are made once, in base.
 	simFor := func(x []float64) (*physical.Sim, bool) {
 		var through, stubs []float64
 		k := 0
 		for i, e := range ph.Elements {
-			l := e.Drawn()
+			l := e.ModelLength()
 			if k < len(idx) && idx[k] == i {
-				l = start[k] + x[k]*lg
-				if l < minLen[i] || math.Abs(x[k]) > MaxRecentre {
+				drawn := start[k] + x[k]*lg
+				if drawn < minLen[i] || math.Abs(x[k]) > MaxRecentre {
 					return nil, false
 				}
+				l = drawn + e.FullwaveMap
 				k++
 			}
 			if e.Role == RoleStub {
@@ -568,6 +596,13 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 type contextConverger struct {
 	ctx   context.Context
 	inner optimize.Converger
+}
+
+// CancelConverger returns a converger that stops an optimisation once ctx
+// is done (the caller then reports ctx.Err()) and until then defers to
+// inner.
+func CancelConverger(ctx context.Context, inner optimize.Converger) optimize.Converger {
+	return contextConverger{ctx, inner}
 }
 
 func (c contextConverger) Init(dim int) { c.inner.Init(dim) }

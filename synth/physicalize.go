@@ -43,6 +43,11 @@ type Element struct {
 	At            int     // stubs: index of the through element on the load side of the tee
 	Params        physical.LineParams
 	Model         string
+	// FullwaveMap is the full-wave mapping of build --fullwave-centre: the
+	// circuit model's length of this element less its drawn length, m,
+	// fitted so that the circuit model reproduces a full-wave solve of the
+	// drawn copper. It is never drawn; zero in a plain build.
+	FullwaveMap float64
 }
 
 // Drawn returns the length of copper drawn, m:
@@ -51,6 +56,10 @@ type Element struct {
 func (e Element) Drawn() float64 {
 	return e.LineLength + e.OpenEnd + e.Tee + e.Via + e.Step + e.Recentre + e.Trim
 }
+
+// ModelLength returns the length the circuit model gives the element, m:
+// the drawn length plus the full-wave mapping.
+func (e Element) ModelLength() float64 { return e.Drawn() + e.FullwaveMap }
 
 // Physical is the corrected physical network of an electrical solution.
 type Physical struct {
@@ -416,15 +425,16 @@ func (p *Physical) correctStub(st *Element, tee physical.TeeParams, throughW flo
 	return nil
 }
 
-// board returns the drawn network as a physical.Board.
+// board returns the drawn network as a physical.Board, each element at its
+// model length (the drawn length unless a full-wave mapping is set).
 func (p Physical) board(sub physical.Substrate, via physical.Via) physical.Board {
 	b := physical.Board{Sub: sub, Via: via}
 	for _, e := range p.Elements {
 		if e.Role == RoleStub {
-			b.Stubs = append(b.Stubs, physical.Stub{At: e.At, Width: e.Width, Length: e.Drawn(), Short: e.End == Short})
+			b.Stubs = append(b.Stubs, physical.Stub{At: e.At, Width: e.Width, Length: e.ModelLength(), Short: e.End == Short})
 			continue
 		}
-		b.Through = append(b.Through, physical.Trace{Width: e.Width, Length: e.Drawn()})
+		b.Through = append(b.Through, physical.Trace{Width: e.Width, Length: e.ModelLength()})
 	}
 	return b
 }

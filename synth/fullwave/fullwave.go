@@ -120,6 +120,7 @@ type Report struct {
 	Matched        []complex128       // full-wave S11 with the load attached
 	CircuitMatched []complex128       // the circuit model's S11 with the load
 	Zref           float64            // ohm
+	MatchedF0      complex128         // full-wave S11 with the load at f0, interpolated as S11DBF0
 	Summary
 }
 
@@ -138,17 +139,12 @@ type Summary struct {
 }
 
 // Verify runs the full-wave solve of res's drawn copper at the build's
-// sweep frequencies and compares it with the circuit model. The full-wave
-// |S11| at f0 is interpolated (complex, linear) between the two sweep
-// points round f0; the circuit's is the build's own value at f0.
+// sweep frequencies and compares it with the circuit model (see Compare).
 func Verify(ctx context.Context, res *synth.Result, o fdtd.Options) (*Report, error) {
-	f0 := res.Design.Freq
-	sw := res.Sweep
-	freqs := append([]float64(nil), sw.Freqs...)
-	if len(freqs) < 3 || f0 < freqs[0] || f0 > freqs[len(freqs)-1] {
-		return nil, fmt.Errorf("fullwave: the sweep (%d points) must hold f0 = %.6g GHz and at least 3 points", len(freqs), f0/1e9)
+	if err := checkSweep(res); err != nil {
+		return nil, err
 	}
-	s, err := Structure(res, freqs)
+	s, err := Structure(res, res.Sweep.Freqs)
 	if err != nil {
 		return nil, err
 	}
@@ -156,19 +152,52 @@ func Verify(ctx context.Context, res *synth.Result, o fdtd.Options) (*Report, er
 	if err != nil {
 		return nil, err
 	}
+	rep, err := Compare(res, r.S)
+	if err != nil {
+		return nil, err
+	}
+	rep.Zref, rep.Cells, rep.Steps, rep.Seconds = r.Zref, r.Cells, r.Steps, r.Seconds
+	rep.Notes = append(append([]string(nil), r.Warnings...), rep.Notes...)
+	return rep, nil
+}
+
+// checkSweep refuses a sweep that cannot locate a best match round f0.
+func checkSweep(res *synth.Result) error {
+	f0, freqs := res.Design.Freq, res.Sweep.Freqs
+	if len(freqs) < 3 || f0 < freqs[0] || f0 > freqs[len(freqs)-1] {
+		return fmt.Errorf("fullwave: the sweep (%d points) must hold f0 = %.6g GHz and at least 3 points", len(freqs), f0/1e9)
+	}
+	return nil
+}
+
+// Compare returns the check of res's drawn copper from its full-wave
+// network S-matrix s at res.Sweep.Freqs (port 1 the source side, referred
+// to the design's z0): the load attached by network math, and the figures
+// beside the circuit model's. The full-wave |S11| at f0 is interpolated
+// (complex, linear) between the two sweep points round f0; the circuit's
+// is the build's own value at f0. The run's figures (cells, steps,
+// seconds) are left to the caller.
+func Compare(res *synth.Result, s [][2][2]complex128) (*Report, error) {
+	if err := checkSweep(res); err != nil {
+		return nil, err
+	}
+	f0 := res.Design.Freq
+	sw := res.Sweep
+	freqs := append([]float64(nil), sw.Freqs...)
+	if len(s) != len(freqs) {
+		return nil, fmt.Errorf("fullwave: %d S-matrices for %d sweep frequencies", len(s), len(freqs))
+	}
 	z0 := res.Design.Z0
-	rep := &Report{Freqs: freqs, Network: r.S, Circuit: sw.Network, Zref: r.Zref,
-		Summary: Summary{Cells: r.Cells, Steps: r.Steps, Seconds: r.Seconds}}
-	rep.Notes = append(rep.Notes, r.Warnings...)
+	rep := &Report{Freqs: freqs, Network: s, Circuit: sw.Network, Zref: z0}
 	rep.Notes = append(rep.Notes, "full-wave model: perfect zero-thickness copper, no solder mask, substrate and ground plane unbounded beside the board")
 	for k := range freqs {
 		sc, zl := sw.Network[k], sw.ZLoad[k]
 		gl := (zl - complex(z0, 0)) / (zl + complex(z0, 0))
-		rep.Matched = append(rep.Matched, terminate(r.S[k], gl))
+		rep.Matched = append(rep.Matched, terminate(s[k], gl))
 		rep.CircuitMatched = append(rep.CircuitMatched, sw.S11[k])
 		for i := 0; i < 2; i++ {
 			for j := 0; j < 2; j++ {
-				rep.MaxSDifference = math.Max(rep.MaxSDifference, cmplx.Abs(r.S[k][i][j]-sc[i][j]))
+				rep.MaxSDifference = math.Max(rep.MaxSDifference, cmplx.Abs(s[k][i][j]-sc[i][j]))
 			}
 		}
 	}
@@ -177,7 +206,8 @@ func Verify(ctx context.Context, res *synth.Result, o fdtd.Options) (*Report, er
 		ik = 1
 	}
 	t := (f0 - freqs[ik-1]) / (freqs[ik] - freqs[ik-1])
-	rep.S11DBF0 = physical.MagDB(rep.Matched[ik-1] + complex(t, 0)*(rep.Matched[ik]-rep.Matched[ik-1]))
+	rep.MatchedF0 = rep.Matched[ik-1] + complex(t, 0)*(rep.Matched[ik]-rep.Matched[ik-1])
+	rep.S11DBF0 = physical.MagDB(rep.MatchedF0)
 	rep.CircuitS11DBF0 = physical.MagDB(res.S11F0)
 	rep.BestMatchHz = bestMatch(freqs, rep.Matched)
 	rep.CircuitBestMatchHz = bestMatch(freqs, rep.CircuitMatched)
