@@ -55,12 +55,23 @@ type ReportBand struct {
 	StopHz     float64  `json:"stop_hz"`
 	GoalDB     *float64 `json:"goal_db"` // null when no goal was given
 	WorstS11DB float64  `json:"worst_s11_db"`
-	// BodeFanoS11DB is null for a load with no reactance (no limit).
-	BodeFanoS11DB *float64          `json:"bode_fano_s11_db"`
-	LoadFit       string            `json:"load_fit"`
-	Topology      string            `json:"topology"`
-	Objective     string            `json:"objective"`
-	Candidates    []ReportCandidate `json:"candidates,omitempty"`
+	// BodeFanoS11DB is the Bode-Fano limit of the fitted load, null unless
+	// BodeFanoStatus is "quoted": "below_floor" (a limit below −60 dB, no
+	// practical limit), "poor_fit" (no two-element circuit fits the load
+	// within 5 %, no limit quoted) or "no_reactance" (nothing limits the
+	// match). BodeFanoNote says the same in words.
+	BodeFanoS11DB  *float64 `json:"bode_fano_s11_db"`
+	BodeFanoStatus string   `json:"bode_fano_status"`
+	BodeFanoNote   string   `json:"bode_fano_note"`
+	// LoadFit describes the two-element fit; LoadFitCircuit names it
+	// ("series RC", …, "resistance", or "" when none fits) and
+	// LoadFitMisfitPct is its worst misfit across the band, % of |Z|.
+	LoadFit          string            `json:"load_fit"`
+	LoadFitCircuit   string            `json:"load_fit_circuit"`
+	LoadFitMisfitPct float64           `json:"load_fit_misfit_pct"`
+	Topology         string            `json:"topology"`
+	Objective        string            `json:"objective"`
+	Candidates       []ReportCandidate `json:"candidates,omitempty"`
 }
 
 // ReportCandidate is one network tried by topology auto, best first.
@@ -68,7 +79,7 @@ type ReportCandidate struct {
 	Name       string  `json:"name"`
 	Topology   string  `json:"topology"`
 	WorstS11DB float64 `json:"worst_s11_db"`
-	AreaMM2    float64 `json:"footprint_mm2"`
+	AreaMM2    float64 `json:"board_area_mm2"` // the drawn board's bounding box
 	LossDB     float64 `json:"network_loss_db_f0"`
 	TotalDeg   float64 `json:"total_electrical_deg"`
 	Error      string  `json:"error,omitempty"`
@@ -346,14 +357,16 @@ func NewReport(r *synth.Result, version string) Report {
 		rep.Sensitivity = append(rep.Sensitivity, rs)
 	}
 	if b := r.Band; b != nil {
-		rep.Band = &ReportBand{StartHz: b.Start, StopHz: b.Stop, WorstS11DB: b.WorstS11DB, LoadFit: b.Fit.String(),
+		bf := b.BodeFano
+		rep.Band = &ReportBand{StartHz: b.Start, StopHz: b.Stop, WorstS11DB: b.WorstS11DB,
+			BodeFanoStatus: bf.Status.String(), BodeFanoNote: bf.String(),
+			LoadFit: bf.FitText(), LoadFitCircuit: bf.FitCircuit(), LoadFitMisfitPct: 100 * bf.Fit.MaxRelErr,
 			Topology: b.Topology, Objective: b.Objective}
 		if b.GoalDB != 0 {
 			v := b.GoalDB
 			rep.Band.GoalDB = &v
 		}
-		if !math.IsInf(b.BodeFanoS11DB, 0) {
-			v := b.BodeFanoS11DB
+		if v, ok := bf.Quoted(); ok {
 			rep.Band.BodeFanoS11DB = &v
 		}
 		for _, c := range b.Candidates {

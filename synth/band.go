@@ -19,13 +19,11 @@ type BandMatch struct {
 	// WorstS11DB is the worst |S11| of the drawn layout over the sweep
 	// points inside the band (the band edges are sweep points).
 	WorstS11DB float64
-	// BodeFanoS11DB is the best worst-case |S11| any lossless network can
-	// hold over the band with the fitted load model, dB; −Inf for a load
-	// with nothing to limit it (resistive).
-	BodeFanoS11DB float64
-	Fit           LoadFit
-	Topology      string // the topology built (the one auto chose)
-	Objective     string
+	// BodeFano is the best worst-case |S11| any lossless network can hold
+	// over the band with the fitted load model, and the fit it rests on.
+	BodeFano  BodeFanoLimit
+	Topology  string // the topology built (the one auto chose)
+	Objective string
 	// Candidates lists every network tried by topology auto, best first;
 	// the built one is the first.
 	Candidates []Candidate
@@ -38,10 +36,12 @@ type Candidate struct {
 	Pick       int     // shunt stub: solution 1 or 2
 	Sections   int     // quarter wave
 	WorstS11DB float64 // in the band (at f0 alone without a band), dB
-	AreaM2     float64 // straight-layout footprint, m²
-	LossDB     float64 // the network's own dissipation at f0, dB
-	TotalDeg   float64 // electrical length of every section added, degrees at f0
-	Err        string  // why it could not be built; the other fields are then zero
+	// AreaM2 is the drawn board's area, the bounding box of its outline
+	// (m²); zero for a single topology, which is not ranked.
+	AreaM2   float64
+	LossDB   float64 // the network's own dissipation at f0, dB
+	TotalDeg float64 // electrical length of every section added, degrees at f0
+	Err      string  // why it could not be built; the other fields are then zero
 }
 
 // Name describes the candidate in a line.
@@ -65,8 +65,9 @@ func (c Candidate) Name() string {
 // source: below what a bench measurement resolves).
 const candidateTieDB = 0.01
 
-// rankCandidates sorts built candidates by worst |S11|, then area, then
-// loss; failed ones go last.
+// rankCandidates sorts built candidates by worst |S11|, then area (the
+// drawn board's, or for SolveBand the total electrical length), then loss;
+// failed ones go last.
 func rankCandidates(cs []Candidate) {
 	sort.SliceStable(cs, func(i, j int) bool {
 		a, b := cs[i], cs[j]
@@ -106,26 +107,6 @@ func (m MatchSpec) candidateSpecs() []Candidate {
 		cs = append(cs, Candidate{Topology: TopologyQuarterWave, Sections: n})
 	}
 	return cs
-}
-
-// Footprint returns the area of the smallest rectangle around the network
-// laid out straight, stubs all to one side: the sum of the through lengths
-// by the widest through line plus the longest stub (and a via pad).
-func (p Physical) Footprint() float64 {
-	length, wide, stub := 0.0, 0.0, 0.0
-	for _, e := range p.Elements {
-		if e.Role == RoleStub {
-			l := e.Drawn()
-			if e.End == Short {
-				l += p.Board.Via.Pad / 2
-			}
-			stub = math.Max(stub, l)
-			continue
-		}
-		length += e.Drawn()
-		wide = math.Max(wide, e.Width)
-	}
-	return length * (wide + stub)
 }
 
 // bandSamples is the number of frequencies across the band at which the
@@ -367,7 +348,7 @@ func indexOf(xs []int, v int) int {
 // bandResult fills r.Band from the sweep: the worst |S11| over the sweep
 // points inside the band, the load fit and its Bode-Fano limit, and the
 // warnings on the goal.
-func (r *Result) bandResult(load Load, topology string) error {
+func (r *Result) bandResult(load Load, topology string) {
 	m := r.Design.Match.Resolved()
 	b := &BandMatch{Start: m.Band[0], Stop: m.Band[1], GoalDB: m.GoalDB, Topology: topology, Objective: m.Objective}
 	b.WorstS11DB = math.Inf(-1)
@@ -376,32 +357,17 @@ func (r *Result) bandResult(load Load, topology string) error {
 			b.WorstS11DB = math.Max(b.WorstS11DB, physical.MagDB(r.Sweep.S11[i]))
 		}
 	}
-	fit, err := FitLoad(load, b.Start, b.Stop, bandSamples)
-	if err != nil {
-		return r.Design.KeyError(loadKey(r.Design), err)
-	}
-	b.Fit = fit
-	b.BodeFanoS11DB = math.Inf(-1)
-	if g := fit.BodeFanoGamma(b.Start, b.Stop); g > 0 {
-		b.BodeFanoS11DB = 20 * math.Log10(g)
-	}
+	bf := BodeFanoOf(load, b.Start, b.Stop, bandSamples)
+	b.BodeFano = bf
 	r.Notes = append(r.Notes, fmt.Sprintf("the load across %.6g–%.6g GHz fits %s; Bode-Fano limit (Fano 1950) for a lossless network: %s",
-		b.Start/1e9, b.Stop/1e9, fit, dbText(b.BodeFanoS11DB)))
-	if b.GoalDB != 0 && b.GoalDB < b.BodeFanoS11DB {
-		r.Warnings = append(r.Warnings, fmt.Sprintf("the goal %.1f dB across the band lies beyond the Bode-Fano limit %.2f dB of the fitted load: no lossless network can meet it", b.GoalDB, b.BodeFanoS11DB))
+		b.Start/1e9, b.Stop/1e9, bf.FitText(), bf))
+	if b.GoalDB != 0 && bf.Beyond(b.GoalDB) {
+		r.Warnings = append(r.Warnings, fmt.Sprintf("the goal %.1f dB across the band lies beyond the Bode-Fano limit (%s) of the fitted load: no lossless network can meet it", b.GoalDB, bf.Figure()))
 	}
 	if b.GoalDB != 0 && b.WorstS11DB > b.GoalDB {
 		r.Warnings = append(r.Warnings, fmt.Sprintf("the goal is not met: the worst |S11| across %.6g–%.6g GHz is %.2f dB, the goal %.1f dB", b.Start/1e9, b.Stop/1e9, b.WorstS11DB, b.GoalDB))
 	}
 	r.Band = b
-	return nil
-}
-
-func dbText(db float64) string {
-	if math.IsInf(db, -1) {
-		return "none (no reactance)"
-	}
-	return fmt.Sprintf("%.2f dB", db)
 }
 
 // checkLoadCoversBand refuses a Touchstone load whose data does not cover

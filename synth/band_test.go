@@ -216,3 +216,42 @@ func TestBandYieldObjective(t *testing.T) {
 		t.Errorf("notes %q", r.Notes)
 	}
 }
+
+// Topology auto ranks on the drawn board: each candidate's area is the
+// bounding box of the board outline that Build draws for it, so the area
+// of the one built equals that of the layout Build returns (the copper
+// geometry is the reference, not an estimate of it). And where two
+// candidates tie on the worst |S11| the smaller board goes first, then
+// the lower loss (the order issue 12 asks for).
+func TestAutoRanksByDrawnBoard(t *testing.T) {
+	d := decodeTestDesign(t, fmt.Sprintf(bandDesign, "auto", "open", ""))
+	r, err := Build(context.Background(), BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	lo, hi := r.Layout.Board.Bounds()
+	drawn := float64(hi.X-lo.X) * 1e-9 * float64(hi.Y-lo.Y) * 1e-9
+	if c := r.Band.Candidates[0]; math.Abs(c.AreaM2-drawn) > 1e-12 || drawn <= 0 {
+		t.Errorf("%s: ranked on %.3f mm², the drawn board is %.3f mm²", c.Name(), c.AreaM2*1e6, drawn*1e6)
+	}
+	for _, c := range r.Band.Candidates {
+		if c.Err == "" && !(c.AreaM2 > 0) {
+			t.Errorf("%s: area %g", c.Name(), c.AreaM2)
+		}
+	}
+	cs := []Candidate{
+		{Topology: "c", WorstS11DB: -20, AreaM2: 1, LossDB: 0.1},
+		{Topology: "x", Err: "failed"},
+		{Topology: "b", WorstS11DB: -20.005, AreaM2: 2},
+		{Topology: "d", WorstS11DB: -20, AreaM2: 1, LossDB: 0.05},
+		{Topology: "a", WorstS11DB: -25, AreaM2: 9},
+	}
+	rankCandidates(cs)
+	var order string
+	for _, c := range cs {
+		order += c.Topology
+	}
+	if order != "adcbx" {
+		t.Errorf("order %s, want adcbx (worst |S11| beyond %.2f dB, then area, then loss; failed last)", order, candidateTieDB)
+	}
+}

@@ -1,6 +1,7 @@
 package synth
 
 import (
+	"errors"
 	"fmt"
 	"math"
 )
@@ -10,6 +11,10 @@ import (
 type BandSolution struct {
 	Candidate
 	Sections []Section // from the load toward the source, at f0
+	// Note says what was done to solve it: for a double stub whose load
+	// lies in the forbidden region, the region and the line put before
+	// the first stub. Empty when there is nothing to say.
+	Note string
 }
 
 // BandSolve is the electrical answer to a match across a band, before any
@@ -17,11 +22,10 @@ type BandSolution struct {
 // first, and the Bode-Fano limit of the load.
 type BandSolve struct {
 	Start, Stop, F0 float64 // Hz; F0 is the band's centre
-	Fit             LoadFit
-	// BodeFanoS11DB is the best worst-case |S11| in the band of any
-	// lossless network, dB; −Inf for a resistive load.
-	BodeFanoS11DB float64
-	Solutions     []BandSolution
+	// BodeFano is the best worst-case |S11| in the band of any lossless
+	// network, and the load fit it rests on.
+	BodeFano  BodeFanoLimit
+	Solutions []BandSolution
 }
 
 // SolveBand matches load to z0 across f1…f2 with each network topology
@@ -35,15 +39,7 @@ func SolveBand(load Load, z0, f1, f2 float64, topology string, end StubEnd, sect
 		return BandSolve{}, fmt.Errorf("the band %g–%g Hz needs 0 < start < stop", f1, f2)
 	}
 	f0 := (f1 + f2) / 2
-	out := BandSolve{Start: f1, Stop: f2, F0: f0, BodeFanoS11DB: math.Inf(-1)}
-	fit, err := FitLoad(load, f1, f2, bandSamples)
-	if err != nil {
-		return BandSolve{}, err
-	}
-	out.Fit = fit
-	if g := fit.BodeFanoGamma(f1, f2); g > 0 {
-		out.BodeFanoS11DB = 20 * math.Log10(g)
-	}
+	out := BandSolve{Start: f1, Stop: f2, F0: f0, BodeFano: BodeFanoOf(load, f1, f2, bandSamples)}
 	zl, err := load.Impedance(f0)
 	if err != nil {
 		return BandSolve{}, err
@@ -77,6 +73,13 @@ func SolveBand(load Load, z0, f1, f2 float64, topology string, end StubEnd, sect
 			out.Solutions = append(out.Solutions, BandSolution{Candidate: c})
 			continue
 		}
+		var note string
+		var fe *ForbiddenRegionError
+		if c.Topology == TopologyDoubleStub {
+			if _, err := SolveDoubleStub(zl, z0, 0, mc.SpacingDeg, c.End); errors.As(err, &fe) {
+				note = fe.Error() + " (done)"
+			}
+		}
 		secs, worst, err := OptimiseIdeal(secs, load, z0, f0, fs, c.Topology == TopologyQuarterWave, MinLineZ0, MaxLineZ0)
 		if err != nil {
 			return BandSolve{}, err
@@ -85,7 +88,7 @@ func SolveBand(load Load, z0, f1, f2 float64, topology string, end StubEnd, sect
 		for _, s := range secs {
 			c.TotalDeg += s.LengthDeg
 		}
-		out.Solutions = append(out.Solutions, BandSolution{Candidate: c, Sections: secs})
+		out.Solutions = append(out.Solutions, BandSolution{Candidate: c, Sections: secs, Note: note})
 	}
 	cs := make([]Candidate, len(out.Solutions))
 	for i, s := range out.Solutions {

@@ -70,21 +70,27 @@ func (m RLC) Impedance(freq float64) (complex128, error) {
 //	series RC:   ∫ ω⁻² ln(1/|Γ|) dω ≤ πRC
 //	parallel RL: ∫ ω⁻² ln(1/|Γ|) dω ≤ πL/R
 //
-// so, with ω = 2πf, Γm = exp(−π/(RC·Δω)) and so on.
+// so, with ω = 2πf, Γm = exp(−π/(RC·Δω)) and so on. A low-Q load over a
+// narrow band gives a Γm that underflows to 0; BodeFanoS11DB stays finite.
 func (m RLC) BodeFanoGamma(f1, f2 float64) float64 {
+	return math.Exp(-m.bodeFanoExponent(f1, f2))
+}
+
+// BodeFanoS11DB returns BodeFanoGamma in dB, computed from its exponent so
+// that it is finite however low the limit is.
+func (m RLC) BodeFanoS11DB(f1, f2 float64) float64 {
+	return -20 / math.Ln10 * m.bodeFanoExponent(f1, f2)
+}
+
+// bodeFanoExponent returns a with Γm = exp(−a): Fano's bound divided by
+// the band's width in ω (or in 1/ω for the weighted forms).
+func (m RLC) bodeFanoExponent(f1, f2 float64) float64 {
 	w1, w2 := 2*math.Pi*f1, 2*math.Pi*f2
-	dw, dinv := w2-w1, 1/w1-1/w2
-	switch m.Circuit {
-	case ParallelRC:
-		return math.Exp(-math.Pi / (m.R * m.C * dw))
-	case SeriesRL:
-		return math.Exp(-math.Pi * m.R / (m.L * dw))
-	case SeriesRC:
-		return math.Exp(-math.Pi * m.R * m.C / dinv)
-	case ParallelRL:
-		return math.Exp(-math.Pi * m.L / m.R / dinv)
+	bound, weighted := m.FanoIntegral()
+	if weighted {
+		return bound / (1/w1 - 1/w2)
 	}
-	return math.NaN()
+	return bound / (w2 - w1)
 }
 
 // FanoIntegral returns the bound of Fano's integral for this load: π/(RC)
@@ -129,13 +135,151 @@ func (f LoadFit) String() string {
 	return fmt.Sprintf("%s, R = %.4g ohm, %s (worst misfit %.2g %% of |Z| across the band)", f.Model.Circuit, f.Model.R, el, 100*f.MaxRelErr)
 }
 
-// BodeFanoGamma returns the fitted model's limit over f1…f2, or 0 for a
-// resistive load.
-func (f LoadFit) BodeFanoGamma(f1, f2 float64) float64 {
-	if f.Resistive {
-		return 0
+// MaxFitMisfit is the worst misfit of a two-element fit, as a fraction
+// of |Z| across the band, on which a Bode-Fano limit is still quoted. The
+// limit's exponent is proportional to the fitted reactive element, so a
+// fit within 5 % gives the limit in dB to about as much; a worse fit means
+// the load is not a two-element circuit over the band (a resonance in or
+// near it, as an antenna has), and a limit of the fitted circuit would say
+// nothing about the load (a judgement, no source).
+const MaxFitMisfit = 0.05
+
+// BodeFanoFloorDB is the lowest limit printed as a figure: a limit below
+// it is reported as "below −60 dB" (common practice, no source: no board
+// holds, nor a bench measures, a return loss beyond 60 dB across a band,
+// so a lower limit constrains no goal a board is built for; the figures
+// of a low-Q load over a narrow band run to −1000 dB and mean nothing).
+const BodeFanoFloorDB = -60.0
+
+// LimitStatus says what a BodeFanoLimit can tell.
+type LimitStatus int
+
+// The outcomes of a Bode-Fano limit.
+const (
+	// LimitQuoted: a good fit and a limit at or above BodeFanoFloorDB.
+	LimitQuoted LimitStatus = iota + 1
+	// LimitBelowFloor: a good fit whose limit lies below BodeFanoFloorDB.
+	LimitBelowFloor
+	// LimitPoorFit: no two-element circuit fits the load within
+	// MaxFitMisfit, or none fits at all; no limit is quoted.
+	LimitPoorFit
+	// LimitNoReactance: the load is a resistance across the band; nothing
+	// limits its match.
+	LimitNoReactance
+)
+
+// String names the status as report.json writes it.
+func (s LimitStatus) String() string {
+	switch s {
+	case LimitQuoted:
+		return "quoted"
+	case LimitBelowFloor:
+		return "below_floor"
+	case LimitPoorFit:
+		return "poor_fit"
+	case LimitNoReactance:
+		return "no_reactance"
 	}
-	return f.Model.BodeFanoGamma(f1, f2)
+	return "LimitStatus(" + strconv.Itoa(int(s)) + ")"
+}
+
+// BodeFanoLimit is the Bode-Fano limit of a load over a band as stubcraft
+// reports it: the two-element fit it rests on, and a figure only where the
+// fit holds and the figure means something.
+type BodeFanoLimit struct {
+	Fit    LoadFit
+	Status LimitStatus
+	// S11DB is the fitted circuit's limit, dB, for LimitQuoted and
+	// LimitBelowFloor (finite however low); NaN otherwise.
+	S11DB float64
+	// Why says why no limit is quoted, for LimitPoorFit.
+	Why string
+}
+
+// BodeFanoOf fits load across f1…f2 (Hz) with FitLoad at n points and
+// returns its limit. A load no circuit fits gives LimitPoorFit with the
+// reason, not an error: the limit is advice, and the build goes on.
+func BodeFanoOf(load Load, f1, f2 float64, n int) BodeFanoLimit {
+	fit, err := FitLoad(load, f1, f2, n)
+	if err != nil {
+		return BodeFanoLimit{Status: LimitPoorFit, S11DB: math.NaN(), Why: err.Error()}
+	}
+	out := BodeFanoLimit{Fit: fit, S11DB: math.NaN()}
+	switch {
+	case fit.Resistive:
+		out.Status = LimitNoReactance
+	case !(fit.MaxRelErr <= MaxFitMisfit):
+		out.Status = LimitPoorFit
+		out.Why = fmt.Sprintf("the best two-element fit (%s) misses the load by %.2g %% of |Z| across the band, more than the %g %% a limit can rest on: over this band the load is not a two-element circuit (a resonance in or near the band needs more elements)",
+			fit.Model.Circuit, 100*fit.MaxRelErr, 100*MaxFitMisfit)
+	default:
+		out.S11DB = fit.Model.BodeFanoS11DB(f1, f2)
+		out.Status = LimitQuoted
+		if out.S11DB < BodeFanoFloorDB {
+			out.Status = LimitBelowFloor
+		}
+	}
+	return out
+}
+
+// FitText describes the fit the limit rests on: the circuit, its values
+// and its misfit, or that no circuit fits.
+func (b BodeFanoLimit) FitText() string {
+	if b.Fit.Model.Circuit == 0 && !b.Fit.Resistive {
+		return "no two-element circuit"
+	}
+	return b.Fit.String()
+}
+
+// FitCircuit names the fitted circuit: "series RC", …, "resistance" for
+// a resistive load, or "" when no circuit fits.
+func (b BodeFanoLimit) FitCircuit() string {
+	switch {
+	case b.Fit.Resistive:
+		return "resistance"
+	case b.Fit.Model.Circuit == 0:
+		return ""
+	}
+	return b.Fit.Model.Circuit.String()
+}
+
+// Quoted returns the limit in dB and true when it is a figure worth
+// printing (LimitQuoted).
+func (b BodeFanoLimit) Quoted() (float64, bool) {
+	return b.S11DB, b.Status == LimitQuoted
+}
+
+// Beyond reports whether a worst |S11| goal (dB) lies beyond the limit: no
+// lossless network can hold it across the band.
+func (b BodeFanoLimit) Beyond(goalDB float64) bool {
+	return (b.Status == LimitQuoted || b.Status == LimitBelowFloor) && goalDB < b.S11DB
+}
+
+// Figure is the limit in a few words: "-12.34 dB", "below -60 dB", "not
+// quoted" or "none".
+func (b BodeFanoLimit) Figure() string {
+	switch b.Status {
+	case LimitQuoted:
+		return fmt.Sprintf("%.2f dB", b.S11DB)
+	case LimitBelowFloor:
+		return fmt.Sprintf("below %g dB", BodeFanoFloorDB)
+	case LimitNoReactance:
+		return "none"
+	}
+	return "not quoted"
+}
+
+// String is the figure with what it rests on or why there is none.
+func (b BodeFanoLimit) String() string {
+	switch b.Status {
+	case LimitQuoted:
+		return b.Figure()
+	case LimitBelowFloor:
+		return b.Figure() + ": over this band the fitted load's reactance sets no practical limit"
+	case LimitNoReactance:
+		return "none: the load has no reactance across the band"
+	}
+	return "not quoted: " + b.Why
 }
 
 // FitLoad fits each of the four two-element circuits to load at n points

@@ -4,6 +4,7 @@ import (
 	"math"
 	"math/cmplx"
 	"math/rand"
+	"strings"
 	"testing"
 )
 
@@ -113,8 +114,82 @@ func TestFitLoad(t *testing.T) {
 	if fit.Model.Circuit != SeriesRC || fit.MaxRelErr < 1e-3 || fit.MaxRelErr > 0.02 {
 		t.Errorf("constant 31−j24 Ω: %v", fit)
 	}
-	if fit, _ := FitLoad(ConstantLoad(50), f1, f2, 5); !fit.Resistive || fit.BodeFanoGamma(f1, f2) != 0 {
+	if fit, _ := FitLoad(ConstantLoad(50), f1, f2, 5); !fit.Resistive {
 		t.Errorf("a resistive load: %v", fit)
+	}
+}
+
+// seriesRLC is a series R-L-C load: a resonance, which no two-element
+// circuit fits near it (an antenna near its resonance is one).
+type seriesRLC struct{ r, l, c float64 }
+
+func (s seriesRLC) Impedance(f float64) (complex128, error) {
+	w := 2 * math.Pi * f
+	return complex(s.r, w*s.l-1/(w*s.c)), nil
+}
+
+// The limit is quoted only where it means something: a figure for a
+// well-fitted load whose limit is above the floor, equal to Fano's
+// brick-wall exponent computed here by hand; "below −60 dB" for a low-Q
+// load over a narrow band (the old listing printed −1030.63 dB for 31−j24
+// Ω over 2.4–2.4835 GHz, and "no reactance" for 49−j1 Ω, whose limit
+// underflowed); no figure, with the reason, for a resonant load no
+// two-element circuit fits; "none" for a resistance; and a load with
+// negative resistance in the band gives a reason, not an error.
+func TestBodeFanoLimitStatus(t *testing.T) {
+	const f1, f2 = 2.4e9, 2.4835e9
+	dw := 2 * math.Pi * (f2 - f1)
+	// A parallel RC with RC·Δω = π/ln(1/0.3): the limit is |Γ| = 0.3,
+	// −10.46 dB (Pozar 4th ed. eq. 5.73, from memory: Γm = exp(−π/(RCΔω))).
+	rc := math.Pi / math.Log(1/0.3) / dw
+	antenna := seriesRLC{r: 28, l: 6e-9}
+	antenna.c = 1 / (math.Pow(2*math.Pi*2.6e9, 2) * antenna.l) // resonant at 2.6 GHz, as testdata/designs/antenna.s1p
+	for _, c := range []struct {
+		name   string
+		load   Load
+		status LimitStatus
+		db     float64 // the quoted figure, when quoted
+		figure string
+	}{
+		{"parallel RC, |Γ| 0.3", RLC{Circuit: ParallelRC, R: 50, C: rc / 50}, LimitQuoted, 20 * math.Log10(0.3), "-10.46 dB"},
+		{"31-j24 constant", ConstantLoad(complex(31, -24)), LimitBelowFloor, 0, "below -60 dB"},
+		{"49-j1 nearly matched", ConstantLoad(complex(49, -1)), LimitBelowFloor, 0, "below -60 dB"},
+		{"series RLC resonant at 2.6 GHz", antenna, LimitPoorFit, 0, "not quoted"},
+		{"50 ohm", ConstantLoad(50), LimitNoReactance, 0, "none"},
+		{"negative resistance", ConstantLoad(complex(-5, 20)), LimitPoorFit, 0, "not quoted"},
+	} {
+		b := BodeFanoOf(c.load, f1, f2, 13)
+		if b.Status != c.status || b.Figure() != c.figure {
+			t.Errorf("%s: status %v, figure %q; want %v, %q (%s)", c.name, b.Status, b.Figure(), c.status, c.figure, b)
+			continue
+		}
+		v, quoted := b.Quoted()
+		if quoted != (c.status == LimitQuoted) {
+			t.Errorf("%s: quoted %v", c.name, quoted)
+		}
+		switch c.status {
+		case LimitQuoted:
+			if math.Abs(v-c.db) > 1e-9 {
+				t.Errorf("%s: limit %.6f dB, want %.6f dB", c.name, v, c.db)
+			}
+		case LimitBelowFloor:
+			// Finite, not an underflow to −Inf, and below the floor.
+			if math.IsInf(b.S11DB, 0) || math.IsNaN(b.S11DB) || b.S11DB >= BodeFanoFloorDB {
+				t.Errorf("%s: limit %g dB", c.name, b.S11DB)
+			}
+			if !b.Beyond(b.S11DB-1) || b.Beyond(-15) {
+				t.Errorf("%s: a goal of -15 dB counted beyond a limit of %g dB", c.name, b.S11DB)
+			}
+		case LimitPoorFit:
+			if !math.IsNaN(b.S11DB) || b.Beyond(-100) || len(b.Why) < 20 {
+				t.Errorf("%s: limit %g dB, why %q", c.name, b.S11DB, b.Why)
+			}
+		}
+	}
+	// The resonant load's misfit is what refuses it: the best fit misses
+	// by more than MaxFitMisfit.
+	if b := BodeFanoOf(antenna, f1, f2, 13); !(b.Fit.MaxRelErr > MaxFitMisfit) || !strings.Contains(b.Why, "two-element") {
+		t.Errorf("resonant load: %+v", b)
 	}
 }
 
@@ -148,7 +223,16 @@ func TestBodeFanoNotBeaten(t *testing.T) {
 			m.L = r / (q * w0)
 		}
 		f1, f2 := f0*(1-bw/2), f0*(1+bw/2)
-		bound := m.BodeFanoGamma(f1, f2)
+		// The bound as the build reports it: fitted, then quoted (an
+		// exact two-element load fits at rounding level).
+		lim := BodeFanoOf(m, f1, f2, 13)
+		if lim.Status != LimitQuoted && lim.Status != LimitBelowFloor {
+			t.Fatalf("trial %d, %s: limit %s", trial, c, lim)
+		}
+		bound := math.Pow(10, lim.S11DB/20)
+		if math.Abs(bound-m.BodeFanoGamma(f1, f2)) > 1e-9*bound {
+			t.Errorf("trial %d, %s: reported limit %.6g, the circuit's own %.6g", trial, c, bound, m.BodeFanoGamma(f1, f2))
+		}
 		fs := BandSamples(f1, f2, 31)
 		zl, _ := m.Impedance(f0)
 		var designs [][]Section

@@ -145,6 +145,41 @@ type Recentring struct {
 	Evaluations int
 }
 
+// drawBoard draws r's layout; a board larger than MaxBoardSize either way
+// is a *BoardSizeError.
+func (r *Result) drawBoard() (geom.Layout, error) {
+	lay, err := geom.Build(r.GeomSpec())
+	if err != nil {
+		return geom.Layout{}, fmt.Errorf("layout: %w", err)
+	}
+	if w, h := boardSize(lay); w > MaxBoardSize || h > MaxBoardSize {
+		return geom.Layout{}, fmt.Errorf("layout: %w", &BoardSizeError{Width: w, Height: h, Max: MaxBoardSize})
+	}
+	return lay, nil
+}
+
+// candidateArea returns the area of r's drawn board (its outline's
+// bounding box, m²), or the refusal Build would give for its tracks (below
+// the fab minimum) or its board.
+func (r *Result) candidateArea() (float64, error) {
+	if f := fabMinimum(r.Physical, r.Design.Fab.MinWidth); f != nil {
+		return 0, r.Design.KeyError("fab.min_width", f)
+	}
+	lay, err := r.drawBoard()
+	if err != nil {
+		return 0, r.Design.KeyError("", err)
+	}
+	w, h := boardSize(lay)
+	return w * h, nil
+}
+
+// boardSize returns the width and height of the board outline's bounding
+// box, m.
+func boardSize(lay geom.Layout) (w, h float64) {
+	lo, hi := lay.Board.Bounds()
+	return float64(hi.X-lo.X) * 1e-9, float64(hi.Y-lo.Y) * 1e-9
+}
+
 // Build runs the whole path for one design on one stackup: electrical
 // solution, widths and lengths, discontinuity corrections, re-centring,
 // band sweep, tolerance analysis, board geometry and its notes, and the
@@ -166,14 +201,9 @@ func Build(ctx context.Context, in BuildInput) (*Result, error) {
 	if f := fabMinimum(r.Physical, d.Fab.MinWidth); f != nil {
 		return nil, d.KeyError("fab.min_width", f)
 	}
-	lay, err := geom.Build(r.GeomSpec())
+	lay, err := r.drawBoard()
 	if err != nil {
-		return nil, d.KeyError("", fmt.Errorf("layout: %w", err))
-	}
-	lo, hi := lay.Board.Bounds()
-	w, h := float64(hi.X-lo.X)*1e-9, float64(hi.Y-lo.Y)*1e-9
-	if w > MaxBoardSize || h > MaxBoardSize {
-		return nil, d.KeyError("", fmt.Errorf("layout: %w", &BoardSizeError{Width: w, Height: h, Max: MaxBoardSize}))
+		return nil, d.KeyError("", err)
 	}
 	r.Layout = lay
 	r.Notes = append(r.Notes, r.LayoutNotes(lay)...)
@@ -188,7 +218,8 @@ func Build(ctx context.Context, in BuildInput) (*Result, error) {
 
 // Simulate runs the electrical and physical part of Build: electrical
 // solution, widths and lengths, discontinuity corrections, re-centring,
-// band sweep and tolerance analysis. It draws no geometry and refuses
+// band sweep and tolerance analysis. It draws no geometry (but the board
+// of each candidate of topology auto, to rank them by area) and refuses
 // only an already matched load, a frequency outside the stackup's range
 // and, unless in.AcceptLoss, a load the loss rule refuses (*LossError:
 // |Γ_load| above MaxLoadGamma or more than MaxNetworkLossDB dissipated at
@@ -245,11 +276,24 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 				}
 				continue
 			}
+			if len(specs) > 1 {
+				// Rank by the drawn board: its outline's bounding box. A
+				// candidate Build would refuse for its tracks or its board
+				// is out.
+				area, err := cr.candidateArea()
+				if err != nil {
+					c.Err = err.Error()
+					if firstErr == nil {
+						firstErr = err
+					}
+					continue
+				}
+				c.AreaM2 = area
+			}
 			c.WorstS11DB = physical.MagDB(cr.S11F0)
 			if cr.Band != nil {
 				c.WorstS11DB = cr.Band.WorstS11DB
 			}
-			c.AreaM2 = cr.Physical.Footprint()
 			c.LossDB = cr.LossF0DB
 			for _, s := range cr.Sections {
 				c.TotalDeg += s.LengthDeg
@@ -413,9 +457,7 @@ func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
 		return nil, err
 	}
 	if band {
-		if err := r.bandResult(in.Load, c.Topology); err != nil {
-			return nil, err
-		}
+		r.bandResult(in.Load, c.Topology)
 	}
 	return r, nil
 }

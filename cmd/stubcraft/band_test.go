@@ -2,10 +2,12 @@ package main
 
 import (
 	"encoding/json"
+	"fmt"
 	"math"
 	"math/cmplx"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -81,8 +83,10 @@ func TestSolveBandAuto(t *testing.T) {
 		t.Fatal(err)
 	}
 	var res struct {
-		BodeFanoS11DB *float64 `json:"bode_fano_s11_db"`
-		Candidates    []struct {
+		BodeFanoS11DB  *float64 `json:"bode_fano_s11_db"`
+		BodeFanoStatus string   `json:"bode_fano_status"`
+		LoadFitCircuit string   `json:"load_fit_circuit"`
+		Candidates     []struct {
 			Topology   string   `json:"topology"`
 			WorstS11DB *float64 `json:"worst_s11_db"`
 			TotalDeg   float64  `json:"total_electrical_deg"`
@@ -91,7 +95,9 @@ func TestSolveBandAuto(t *testing.T) {
 	if err := json.Unmarshal([]byte(out), &res); err != nil {
 		t.Fatalf("%v: %s", err, out)
 	}
-	if len(res.Candidates) != 10 || res.BodeFanoS11DB == nil {
+	// 31−j24 Ω over a 3.4 % band: a low-Q load, whose limit lies far
+	// below any figure worth printing (synth.TestBodeFanoLimitStatus).
+	if len(res.Candidates) != 10 || res.BodeFanoS11DB != nil || res.BodeFanoStatus != "below_floor" || res.LoadFitCircuit != "series RC" {
 		t.Fatalf("%s", out)
 	}
 	bestStub := math.Inf(1)
@@ -106,6 +112,68 @@ func TestSolveBandAuto(t *testing.T) {
 	}
 	if first := res.Candidates[0].WorstS11DB; first == nil || *first > bestStub {
 		t.Errorf("first candidate %v, best single stub %.2f dB", first, bestStub)
+	}
+}
+
+// The listing never prints a Bode-Fano figure below the floor (the old
+// one printed −1030.63 dB for 31−j24 Ω and −1809.08 dB for the invented
+// antenna), names the fitted circuit and its misfit, and for the antenna,
+// a series RLC resonant at 2.6 GHz that fits no two-element circuit
+// within 5 % (11 %), quotes no limit and says why.
+func TestSolveBandBodeFanoText(t *testing.T) {
+	antenna := filepath.Join("..", "..", "testdata", "designs", "antenna.s1p")
+	figure := regexp.MustCompile(`-?\d+(\.\d+)? dB`)
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--load", "31-j24"}, "Bode-Fano limit (lossless network, Fano 1950): below -60 dB"},
+		{[]string{"--load", "49-j1"}, "Bode-Fano limit (lossless network, Fano 1950): below -60 dB"},
+		{[]string{"--touchstone", antenna}, "Bode-Fano limit (lossless network, Fano 1950): not quoted: the best two-element fit (series RC) misses the load by 11 %"},
+		{[]string{"--load", "50"}, "Bode-Fano limit (lossless network, Fano 1950): none"},
+	} {
+		out, err := runRoot(t, append([]string{"solve", "--band", "2.4GHz..2.4835GHz", "--topology", "shunt-stub", "--stub", "open"}, c.args...)...)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !strings.Contains(out, c.want) || !strings.Contains(out, "load: ") {
+			t.Errorf("%v: want %q in\n%s", c.args, c.want, out)
+		}
+		for _, line := range strings.Split(out, "\n") {
+			if !strings.HasPrefix(line, "Bode-Fano") {
+				continue
+			}
+			for _, m := range figure.FindAllString(line, -1) {
+				var v float64
+				if _, err := fmt.Sscanf(m, "%g dB", &v); err == nil && v < -60 {
+					t.Errorf("%v: %q prints %s", c.args, line, m)
+				}
+			}
+		}
+	}
+}
+
+// solve --band reports a double-stub load in the forbidden region and the
+// fix: 10+j5 Ω has y = 4−j2 at the first stub, above 1/sin²(135°) = 2
+// (Pozar 4th ed. §5.3, from memory). The line the note names brings the
+// conductance at the first stub inside the limit, recomputed here with
+// the lossless line equation y(d) = (y + j·tan βd)/(1 + j·y·tan βd).
+func TestSolveBandForbiddenRegion(t *testing.T) {
+	out, err := runRoot(t, "solve", "--band", "2.4GHz..2.4835GHz", "--topology", "double-stub", "--load", "10+j5")
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := regexp.MustCompile(`forbidden region.*fix: put ([0-9.]+)° of line before the first stub`).FindStringSubmatch(out)
+	if m == nil || strings.Count(out, "forbidden region") != 2 {
+		t.Fatalf("no forbidden-region note for each end:\n%s", out)
+	}
+	var deg float64
+	fmt.Sscanf(m[1], "%g", &deg)
+	y := complex(50, 0) / complex(10, 5)
+	tn := complex(math.Tan(deg*math.Pi/180), 0)
+	yd := (y + 1i*tn) / (1 + 1i*y*tn)
+	if g := real(yd); !(deg > 0) || g > 2 {
+		t.Errorf("fix line %.2f°: conductance %.4g·Y0 at the first stub, want at most 2", deg, g)
 	}
 }
 

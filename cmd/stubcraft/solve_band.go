@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"strings"
 	"text/tabwriter"
 
@@ -102,8 +101,8 @@ func runSolveBand(w io.Writer, o solveOptions, b solveBandOptions) error {
 		return printJSON(w, solveBandJSON(res, z0))
 	}
 	fmt.Fprintf(w, "band %s (f0 %s) on %g Ω\n", units.FormatFrequencyRange(f1, f2, 6), units.FormatFrequency(res.F0, 6), z0)
-	fmt.Fprintf(w, "load: %s\n", res.Fit)
-	fmt.Fprintf(w, "Bode-Fano limit (lossless network, Fano 1950): %s\n\n", bodeFanoText(res.BodeFanoS11DB))
+	fmt.Fprintf(w, "load: %s\n", res.BodeFano.FitText())
+	fmt.Fprintf(w, "Bode-Fano limit (lossless network, Fano 1950): %s\n\n", res.BodeFano)
 	var table strings.Builder
 	tw := tabwriter.NewWriter(&table, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "candidate\tworst |S11| in band (dB)\ttotal electrical length (°)\t")
@@ -118,25 +117,29 @@ func runSolveBand(w io.Writer, o solveOptions, b solveBandOptions) error {
 		return err
 	}
 	writeTrimmedLines(w, table.String())
-	fmt.Fprintln(w, "\nideal lossless lines, lengths optimised for the worst |S11| at 41 points across the band; build a design to see the board")
+	for _, s := range res.Solutions {
+		if s.Note != "" {
+			fmt.Fprintf(w, "\n%s: %s", s.Name(), s.Note)
+		}
+	}
+	fmt.Fprintln(w, "\nideal lossless lines, lengths optimised for the worst |S11| at 41 points across the band; ranked by that, then by total electrical length (there is no board yet: build a design to rank by board area)")
 	return nil
 }
 
-func bodeFanoText(db float64) string {
-	if math.IsInf(db, -1) {
-		return "none (the load has no reactance)"
-	}
-	return fmt.Sprintf("%.2f dB", db)
-}
-
 type solveBandResult struct {
-	StartHz       float64          `json:"start_hz"`
-	StopHz        float64          `json:"stop_hz"`
-	F0Hz          float64          `json:"f0_hz"`
-	Z0Ohm         float64          `json:"z0_ohm"`
-	LoadFit       string           `json:"load_fit"`
-	BodeFanoS11DB *float64         `json:"bode_fano_s11_db"` // null for a resistive load
-	Candidates    []solveCandidate `json:"candidates"`
+	StartHz          float64 `json:"start_hz"`
+	StopHz           float64 `json:"stop_hz"`
+	F0Hz             float64 `json:"f0_hz"`
+	Z0Ohm            float64 `json:"z0_ohm"`
+	LoadFit          string  `json:"load_fit"`
+	LoadFitCircuit   string  `json:"load_fit_circuit"`    // "" when no circuit fits
+	LoadFitMisfitPct float64 `json:"load_fit_misfit_pct"` // worst across the band, % of |Z|
+	// BodeFanoS11DB is null unless BodeFanoStatus is "quoted" (see
+	// report.json's band).
+	BodeFanoS11DB  *float64         `json:"bode_fano_s11_db"`
+	BodeFanoStatus string           `json:"bode_fano_status"`
+	BodeFanoNote   string           `json:"bode_fano_note"`
+	Candidates     []solveCandidate `json:"candidates"`
 }
 
 type solveCandidate struct {
@@ -145,6 +148,7 @@ type solveCandidate struct {
 	WorstS11DB *float64       `json:"worst_s11_db"`
 	TotalDeg   float64        `json:"total_electrical_deg"`
 	Sections   []solveSection `json:"sections"`
+	Note       string         `json:"note,omitempty"`
 	Error      string         `json:"error,omitempty"`
 }
 
@@ -156,10 +160,15 @@ type solveSection struct {
 }
 
 func solveBandJSON(res synth.BandSolve, z0 float64) solveBandResult {
-	out := solveBandResult{StartHz: res.Start, StopHz: res.Stop, F0Hz: res.F0, Z0Ohm: z0, LoadFit: res.Fit.String(),
-		BodeFanoS11DB: solveFinite(res.BodeFanoS11DB), Candidates: []solveCandidate{}}
+	bf := res.BodeFano
+	out := solveBandResult{StartHz: res.Start, StopHz: res.Stop, F0Hz: res.F0, Z0Ohm: z0,
+		LoadFit: bf.FitText(), LoadFitCircuit: bf.FitCircuit(), LoadFitMisfitPct: 100 * bf.Fit.MaxRelErr,
+		BodeFanoStatus: bf.Status.String(), BodeFanoNote: bf.String(), Candidates: []solveCandidate{}}
+	if v, ok := bf.Quoted(); ok {
+		out.BodeFanoS11DB = &v
+	}
 	for _, s := range res.Solutions {
-		c := solveCandidate{Name: s.Name(), Topology: s.Topology, TotalDeg: s.TotalDeg, Sections: []solveSection{}, Error: s.Err}
+		c := solveCandidate{Name: s.Name(), Topology: s.Topology, TotalDeg: s.TotalDeg, Sections: []solveSection{}, Note: s.Note, Error: s.Err}
 		if s.Err == "" {
 			c.WorstS11DB = solveFinite(s.WorstS11DB)
 		}
