@@ -3,7 +3,6 @@ package export
 import (
 	"encoding/json"
 	"fmt"
-	"io"
 	"math"
 	"math/cmplx"
 	"path/filepath"
@@ -323,15 +322,16 @@ func NewReport(r *synth.Result, version string) Report {
 	for i, id := range r.Recentre.IDs {
 		rep.Recentring.ChangesMM[id] = r.Recentre.Changes[i] * 1e3
 	}
-	sw := r.Sweep
-	for i, f := range sw.Freqs {
-		rep.Sweep.FreqHz = append(rep.Sweep.FreqHz, f)
-		rep.Sweep.S11DB = append(rep.Sweep.S11DB, physical.MagDB(sw.S11[i]))
-		rep.Sweep.S11Re = append(rep.Sweep.S11Re, real(sw.S11[i]))
-		rep.Sweep.S11Im = append(rep.Sweep.S11Im, imag(sw.S11[i]))
-		gl := physical.Reflection(sw.ZLoad[i], d.Z0)
-		rep.Sweep.LoadRe = append(rep.Sweep.LoadRe, real(gl))
-		rep.Sweep.LoadIm = append(rep.Sweep.LoadIm, imag(gl))
+	if sw := r.Sweep; len(sw.Freqs) > 0 {
+		n := len(sw.Freqs)
+		rep.Sweep = ReportSweep{FreqHz: make([]float64, n), S11DB: make([]float64, n), S11Re: make([]float64, n),
+			S11Im: make([]float64, n), LoadRe: make([]float64, n), LoadIm: make([]float64, n)}
+		for i, f := range sw.Freqs {
+			gl := physical.Reflection(sw.ZLoad[i], d.Z0)
+			rep.Sweep.FreqHz[i], rep.Sweep.S11DB[i] = f, physical.MagDB(sw.S11[i])
+			rep.Sweep.S11Re[i], rep.Sweep.S11Im[i] = real(sw.S11[i]), imag(sw.S11[i])
+			rep.Sweep.LoadRe[i], rep.Sweep.LoadIm[i] = real(gl), imag(gl)
+		}
 	}
 	for _, s := range r.Structures {
 		lo, hi := s.Layout.Board.Bounds()
@@ -420,14 +420,6 @@ func stubPositions(els []synth.Element) []float64 {
 		}
 	}
 	return out
-}
-
-// WriteReport writes rep as indented JSON. Values that JSON cannot hold
-// (an infinite VSWR) are Numbers, written as null.
-func WriteReport(w io.Writer, rep Report) error {
-	enc := json.NewEncoder(w)
-	enc.SetIndent("", "  ")
-	return enc.Encode(rep)
 }
 
 // Number is a report value that may be infinite or not a number; JSON
