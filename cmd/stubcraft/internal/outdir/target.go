@@ -1,6 +1,7 @@
 package outdir
 
 import (
+	"bufio"
 	"context"
 	"crypto/sha256"
 	"errors"
@@ -370,16 +371,9 @@ func (t *Target) Write(ctx context.Context, files []File) error {
 			os.RemoveAll(tmp)
 		}
 	}()
-	var entries []manifestEntry
-	for _, f := range files {
-		if err := context.Cause(ctx); err != nil {
-			return err
-		}
-		sum, err := writeFile(filepath.Join(tmp, f.Name), f.Write)
-		if err != nil {
-			return fmt.Errorf("writing %s: %w", f.Name, err)
-		}
-		entries = append(entries, manifestEntry{f.Name, sum})
+	entries, err := writeFiles(ctx, tmp, files)
+	if err != nil {
+		return err
 	}
 	if _, err := writeFile(filepath.Join(tmp, ManifestName), func(w io.Writer) error { return writeManifest(w, entries) }); err != nil {
 		return fmt.Errorf("writing %s: %w", ManifestName, err)
@@ -418,7 +412,11 @@ func writeFile(path string, write func(io.Writer) error) (sum [32]byte, err erro
 		return sum, err
 	}
 	h := sha256.New()
-	err = write(io.MultiWriter(f, h))
+	bw := bufio.NewWriterSize(io.MultiWriter(f, h), 64<<10)
+	err = write(bw)
+	if err == nil {
+		err = bw.Flush()
+	}
 	if err == nil {
 		err = f.Sync()
 	}
