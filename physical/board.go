@@ -4,7 +4,9 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
+	"runtime"
 	"slices"
+	"sync"
 )
 
 // LineMaker makes the line model of a strip of the given width on sub.
@@ -218,8 +220,30 @@ const sweepBlock = 1024
 // ABCDSweep appends the chain matrix at each of freqs to dst and returns
 // the extended slice; element len(dst)+i equals ABCD(freqs[i]) bit for
 // bit. Each line's properties are evaluated a block of frequencies at a
-// time, with the model's batched sweep where it has one.
+// time, with the model's batched sweep where it has one; a long sweep is
+// split into one range of frequencies per processor.
 func (s *Sim) ABCDSweep(freqs []float64, dst []ABCD) []ABCD {
+	n0 := len(dst)
+	dst = slices.Grow(dst, len(freqs))[:n0+len(freqs)]
+	out := dst[n0:]
+	workers := min(runtime.GOMAXPROCS(0), len(freqs)/sweepChunk)
+	if workers < 2 {
+		s.abcdRange(freqs, out)
+		return dst
+	}
+	var wg sync.WaitGroup
+	per := (len(freqs) + workers - 1) / workers
+	for lo := 0; lo < len(freqs); lo += per {
+		hi := min(lo+per, len(freqs))
+		wg.Go(func() { s.abcdRange(freqs[lo:hi], out[lo:hi]) })
+	}
+	wg.Wait()
+	return dst
+}
+
+// abcdRange writes ABCD(freqs[i]) into out[i], a block of frequencies at
+// a time.
+func (s *Sim) abcdRange(freqs []float64, out []ABCD) {
 	n := len(s.board.Through)
 	through := make([][]LineParams, len(s.through))
 	stubs := make([][]LineParams, len(s.stubs))
@@ -236,7 +260,6 @@ func (s *Sim) ABCDSweep(freqs []float64, dst []ABCD) []ABCD {
 		}
 		return buf
 	}
-	dst = slices.Grow(dst, len(freqs))
 	for lo := 0; lo < len(freqs); lo += sweepBlock {
 		block := freqs[lo:min(lo+sweepBlock, len(freqs))]
 		for i, m := range s.through {
@@ -253,10 +276,9 @@ func (s *Sim) ABCDSweep(freqs []float64, dst []ABCD) []ABCD {
 				stubAt[k] = stubs[k][j]
 			}
 			clear(juncs)
-			dst = append(dst, s.abcd(f, params, stubAt, juncs))
+			out[lo+j] = s.abcd(f, params, stubAt, juncs)
 		}
 	}
-	return dst
 }
 
 // abcd is ABCD at freq with the through lines' properties params and the

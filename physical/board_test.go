@@ -82,12 +82,13 @@ type atOnly struct{ LineModel }
 
 func TestABCDSweepEqualsABCD(t *testing.T) {
 	// Exact: the batched sweep computes the same chain matrix as ABCD at
-	// each frequency, bit for bit, through and past a block boundary.
+	// each frequency, bit for bit, through and past a block boundary and,
+	// with two or more processors, across the split between workers.
 	sub := Substrate{Er: 4.4, Height: 1.6 * mm, CopperThickness: 35 * um, LossTangent: 0.02, Roughness: 1 * um}
 	b := Board{Sub: sub, Via: Via{Drill: 0.3 * mm, Pad: 0.6 * mm},
 		Through: []Trace{{Width: 3 * mm, Length: 10 * mm}, {Width: 3 * mm, Length: 4 * mm}, {Width: 1.5 * mm, Length: 6 * mm}, {Width: 3 * mm, Length: 5 * mm}},
 		Stubs:   []Stub{{At: 0, Width: 2 * mm, Length: 8 * mm}, {At: 2, Width: 1 * mm, Length: 5 * mm, Short: true}}}
-	freqs := make([]float64, sweepBlock+37)
+	freqs := make([]float64, 2*sweepChunk+sweepBlock+37)
 	for i := range freqs {
 		freqs[i] = 1*GHz + 3*GHz*float64(i)/float64(len(freqs)-1)
 	}
