@@ -43,9 +43,11 @@ type Report struct {
 	Band            *ReportBand         `json:"band,omitempty"`
 	Sensitivity     []ReportSensitivity `json:"sensitivity"`
 	Structures      []ReportStructure   `json:"structures,omitempty"`
-	Notes           []string            `json:"notes"`
-	Warnings        []string            `json:"warnings"`
-	Cautions        []string            `json:"cautions"`
+	// FullwaveCentre is the record of build --fullwave-centre.
+	FullwaveCentre *ReportFullwaveCentre `json:"fullwave_centre,omitempty"`
+	Notes          []string              `json:"notes"`
+	Warnings       []string              `json:"warnings"`
+	Cautions       []string              `json:"cautions"`
 }
 
 // ReportBand is the match across a band.
@@ -144,6 +146,9 @@ type ReportElement struct {
 	RecentreMM      float64 `json:"recentre_mm"`
 	DrawnLengthMM   float64 `json:"drawn_length_mm"`
 	AttachedTo      string  `json:"attached_to,omitempty"`
+	// FullwaveMapMM is the full-wave mapping's offset: the circuit model's
+	// length less the drawn length (build --fullwave-centre), not drawn.
+	FullwaveMapMM float64 `json:"fullwave_map_mm,omitempty"`
 }
 
 // ReportRecentring records the optimiser's work.
@@ -303,7 +308,7 @@ func NewReport(r *synth.Result, version string) Report {
 		re := ReportElement{ID: e.ID, Role: string(e.Role), Feed: e.Role == synth.RoleFeed, Z0Ohm: e.Z0, Z0F0Ohm: e.Params.Z0, EpsEffF0: e.Params.EpsEff,
 			WidthMM: e.Width * 1e3, ElectricalDeg: e.ElectricalDeg, LineLengthMM: e.LineLength * 1e3,
 			OpenEndMM: e.OpenEnd * 1e3, TeeMM: e.Tee * 1e3, StepMM: e.Step * 1e3, ViaMM: e.Via * 1e3, RecentreMM: e.Recentre * 1e3, TrimMM: e.Trim * 1e3,
-			DrawnLengthMM: e.Drawn() * 1e3}
+			DrawnLengthMM: e.Drawn() * 1e3, FullwaveMapMM: e.FullwaveMap * 1e3}
 		if re.Feed {
 			re.Role = string(synth.RoleLine)
 		}
@@ -317,6 +322,7 @@ func NewReport(r *synth.Result, version string) Report {
 		rep.Elements = append(rep.Elements, re)
 	}
 	rep.StubFromLoadMM = stubPositions(els)
+	rep.FullwaveCentre = reportFullwaveCentre(r.FullwaveCentre, d.Freq)
 	rep.Recentring = ReportRecentring{S11DBBefore: physical.MagDB(r.Recentre.Before), S11DBAfter: physical.MagDB(r.Recentre.After),
 		ChangesMM: map[string]float64{}, Evaluations: r.Recentre.Evaluations}
 	for i, id := range r.Recentre.IDs {

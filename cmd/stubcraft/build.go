@@ -11,8 +11,10 @@ import (
 
 	"stubcraft/cmd/stubcraft/internal/outdir"
 	"stubcraft/export"
+	"stubcraft/physical/fdtd"
 	"stubcraft/physical/units"
 	"stubcraft/synth"
+	"stubcraft/synth/fullwave"
 )
 
 func cautionText() string {
@@ -28,8 +30,9 @@ func newBuildCmd() *cobra.Command {
 	var (
 		outDir, stackupArg, pageArg, scaleArg      string
 		force, noTolerance, asJSON, acceptMismatch bool
-		acceptLoss                                 bool
-		samples                                    int
+		acceptLoss, fullwaveCentre                 bool
+		samples, memMiB                            int
+		meshArg                                    string
 	)
 	cmd := &cobra.Command{
 		Use:   "build [design.toml]",
@@ -53,18 +56,49 @@ being built. A symbolic link stays; its target gets the build. A second
 build to the same directory waits up to 3 s, then fails "in use by
 process N".
 
+--fullwave-centre re-centres the drawn lengths on full-wave (3-D FDTD)
+runs of the copper, as verify solves it (--mesh, --memory): after each
+run whose best match is more than 0.3 % from f0 it maps the circuit
+model onto the full-wave result (a length offset per line and stub, and
+the S11 left over at f0), re-centres the lengths in the mapped model and
+solves the new copper again, at most three runs in all. report.json
+(fullwave_centre) and the notes give every run's best match and |S11| at
+f0 and the mapping applied; fullwave.s2p, fullwave-matched.s1p and the
+full-wave plots are the kept layout's. When no run comes within 0.3 %
+the build says so in a warning and keeps the run nearest f0. A band
+match is not centred. Each run takes as long as verify on that mesh.
+
 ` + cautionText(),
 		Example: `  stubcraft build -o out
-  stubcraft build design.toml -o out --force --page letter`,
+  stubcraft build design.toml -o out --force --page letter
+  stubcraft build design.toml -o out --fullwave-centre --mesh coarse`,
 		Args: cobra.MaximumNArgs(1),
 		RunE: func(cmd *cobra.Command, args []string) error {
 			path := ""
 			if len(args) == 1 {
 				path = args[0]
 			}
+			var fwOpt fdtd.Options
+			if fullwaveCentre {
+				var err error
+				if fwOpt, err = fullwaveOptions(meshArg, memMiB); err != nil {
+					return err
+				}
+			} else {
+				for _, name := range []string{"mesh", "memory"} {
+					if cmd.Flags().Changed(name) {
+						return fmt.Errorf("--%s sets the full-wave solve of --fullwave-centre; give --fullwave-centre too, or leave --%s out", name, name)
+					}
+				}
+			}
 			in, err := loadDesign(path, stackupArg)
 			if err != nil {
 				return err
+			}
+			if fullwaveCentre {
+				if err := fullwave.CanCentre(in); err != nil {
+					return inDesign(path, err)
+				}
 			}
 			out, err := openOutput(cmd, outDir, force, path, in.Design.StackupRef(), stackupArg, in.Design.Load.Touchstone)
 			if err != nil {
@@ -94,6 +128,21 @@ process N".
 				}
 				return inDesign(path, err)
 			}
+			var centred *fullwave.Centring
+			if fullwaveCentre {
+				co := fullwave.CentreOptions{Solve: fwOpt, Mesh: meshArg}
+				stop := centreProgress(&co)
+				centred, err = fullwave.Centre(cmd.Context(), in, co)
+				stop()
+				if err != nil {
+					var mismatch *synth.MismatchError
+					if errors.As(err, &mismatch) {
+						err = fmt.Errorf("%w; pass --accept-mismatch to write it anyway", err)
+					}
+					return inDesign(path, fullwaveError(err))
+				}
+				res = centred.Result
+			}
 			res.Notes = append(res.Notes, cacheNotes(cache)...)
 			created, err := creationTime()
 			if err != nil {
@@ -103,12 +152,23 @@ process N".
 			for _, f := range export.Files(res, export.FileOptions{Version: version, Created: created, Page: page.Size, Fit: page.Fit}) {
 				files = append(files, artefact{f.Name, f.Write})
 			}
+			if centred != nil {
+				files = append(files, fullwaveFiles(res, centred.Report, meshArg)...)
+			}
 			if err := out.write(cmd.Context(), files); err != nil {
 				return err
 			}
 			rep := export.NewReport(res, version)
+			if c := res.FullwaveCentre; c != nil && !c.Converged {
+				fmt.Fprintln(cmd.ErrOrStderr(), "warning:", res.Warnings[0])
+			}
 			if asJSON {
 				return export.WriteReport(cmd.OutOrStdout(), rep)
+			}
+			if centred != nil {
+				if err := printCentring(cmd.OutOrStdout(), rep.FullwaveCentre, centred.Result.FullwaveCentre); err != nil {
+					return err
+				}
 			}
 			return printSummary(cmd.OutOrStdout(), rep, outDir, files)
 		},
@@ -124,7 +184,13 @@ process N".
 	f.BoolVar(&asJSON, "json", false, "print the report JSON instead of the summary")
 	f.BoolVar(&acceptMismatch, "accept-mismatch", false, "write the files even when the layout does not match (|S11| at f0 above −10 dB)")
 	f.BoolVar(&acceptLoss, "accept-loss", false, "build a load even when the network would dissipate more than 3 dB at f0 or |Γ_load| is above 0.98")
+	f.BoolVar(&fullwaveCentre, "fullwave-centre", false, "re-centre the drawn lengths on up to three full-wave (3-D FDTD) solves, until the full-wave best match is within 0.3 % of f0")
+	f.StringVar(&meshArg, "mesh", "normal", "with --fullwave-centre: full-wave mesh density, coarse, normal or fine")
+	f.IntVar(&memMiB, "memory", 1024, "with --fullwave-centre: refuse a full-wave grid whose estimate exceeds this many MiB")
 	_ = cmd.RegisterFlagCompletionFunc("stackup", completeStackup)
+	_ = cmd.RegisterFlagCompletionFunc("mesh", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
+		return []string{"coarse", "normal", "fine"}, cobra.ShellCompDirectiveNoFileComp
+	})
 	_ = cmd.RegisterFlagCompletionFunc("page", func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
 		return []string{"a4", "letter"}, cobra.ShellCompDirectiveNoFileComp
 	})
@@ -193,6 +259,26 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 		fmt.Fprintln(w, "warning:", warn)
 	}
 	fmt.Fprintf(w, "\nwrote %d files and %s to %s\n\n%s", len(files), outdir.ManifestName, dir, cautionText())
+	return nil
+}
+
+// printCentring writes the account of build --fullwave-centre: one row
+// per full-wave run, and whether it converged.
+func printCentring(w io.Writer, c *export.ReportFullwaveCentre, rec *synth.FullwaveCentring) error {
+	if c.Converged {
+		fmt.Fprintf(w, "full-wave centring (%s mesh): converged, run %d of at most %d is within ±%.2g %% of f0\n", c.Mesh, c.KeptRun, c.MaxRuns, c.TolerancePct)
+	} else {
+		fmt.Fprintf(w, "full-wave centring (%s mesh): NOT CONVERGED after %d runs: none within ±%.2g %% of f0; the copper drawn is run %d's, the nearest\n", c.Mesh, len(c.Runs), c.TolerancePct, c.KeptRun)
+	}
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
+	fmt.Fprintln(tw, "run\tbest match (GHz)\tfrom f0 (%)\t|S11| at f0 (dB)\tmapped circuit best match (GHz)\tcells\tsteps\ttime (s)\t")
+	for i, r := range c.Runs {
+		fmt.Fprintf(tw, "%d\t%.4f\t%+.2f\t%.1f\t%.4f\t%d\t%d\t%.0f\t\n", r.Run, r.BestMatchHz/1e9, r.BestMatchOffsetPct, r.S11DBF0, r.CircuitBestMatchHz/1e9, r.Cells, r.Steps, rec.Runs[i].Seconds)
+	}
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	fmt.Fprintln(w)
 	return nil
 }
 

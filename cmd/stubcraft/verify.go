@@ -50,19 +50,9 @@ embedded demo. A run that does not converge writes nothing.`,
 			if len(args) == 1 {
 				path = args[0]
 			}
-			var mesh fdtd.MeshLevel
-			switch meshArg {
-			case "coarse":
-				mesh = fdtd.Coarse
-			case "normal":
-				mesh = fdtd.Normal
-			case "fine":
-				mesh = fdtd.Fine
-			default:
-				return fmt.Errorf("--mesh %q: want coarse, normal or fine", meshArg)
-			}
-			if memMiB <= 0 {
-				return fmt.Errorf("--memory %d: want a positive number of MiB", memMiB)
+			opt, err := fullwaveOptions(meshArg, memMiB)
+			if err != nil {
+				return err
 			}
 			in, err := loadDesign(path, "")
 			if err != nil {
@@ -84,44 +74,15 @@ embedded demo. A run that does not converge writes nothing.`,
 				}
 				return inDesign(path, err)
 			}
-			opt := fdtd.Options{Mesh: mesh.Params(), MemoryLimit: int64(memMiB) << 20}
 			stop := fullwaveProgress(&opt)
 			rep, err := fullwave.Verify(cmd.Context(), res, opt)
 			stop()
 			if err != nil {
-				var me *fdtd.MemoryError
-				if errors.As(err, &me) {
-					return fmt.Errorf("%w (or raise --memory)", err)
-				}
-				return err
+				return fullwaveError(err)
 			}
 			vr := verifyReport{Design: res.Design.Name, Mesh: meshArg, FrequencyHz: res.Design.Freq, Summary: rep.Summary}
-			z0 := res.Design.Z0
-			net := &physical.Touchstone{Ports: 2, Z0: z0, Freqs: rep.Freqs}
-			in1 := &physical.Touchstone{Ports: 1, Z0: z0, Freqs: rep.Freqs}
-			for k := range rep.Freqs {
-				s := rep.Network[k]
-				net.S = append(net.S, []complex128{s[0][0], s[0][1], s[1][0], s[1][1]})
-				in1.S = append(in1.S, []complex128{rep.Matched[k]})
-			}
-			comments := func(what string) []string {
-				c := export.TouchstoneComments(res, version, what)
-				return append(c, fmt.Sprintf("full-wave FDTD, %s mesh, %d cells, %d steps", meshArg, rep.Cells, rep.Steps))
-			}
-			curves := export.FullwaveCurves{Name: res.Design.Name, F0: res.Design.Freq, Z0: z0, Freqs: rep.Freqs,
-				Fullwave: rep.Matched, Circuit: rep.CircuitMatched}
-			files := []artefact{
-				{"fullwave.json", func(w io.Writer) error { return printJSON(w, vr) }},
-				{"fullwave.s2p", func(w io.Writer) error {
-					return export.WriteTouchstone(w, net, comments("the matching network, full-wave: port 1 the source side, port 2 the load port"))
-				}},
-				{"fullwave-matched.s1p", func(w io.Writer) error {
-					return export.WriteTouchstone(w, in1, comments("the input of the matched load, full-wave network"))
-				}},
-			}
-			for _, name := range export.FullwavePlotNames() {
-				files = append(files, artefact{name, func(w io.Writer) error { return export.WriteFullwavePlot(w, name, curves) }})
-			}
+			files := append([]artefact{{"fullwave.json", func(w io.Writer) error { return printJSON(w, vr) }}},
+				fullwaveFiles(res, rep, meshArg)...)
 			if err := out.write(cmd.Context(), files); err != nil {
 				return err
 			}
@@ -147,6 +108,69 @@ embedded demo. A run that does not converge writes nothing.`,
 	return cmd
 }
 
+// fullwaveOptions returns the solve options of --mesh and --memory, or
+// the refusal of a bad value.
+func fullwaveOptions(meshArg string, memMiB int) (fdtd.Options, error) {
+	var mesh fdtd.MeshLevel
+	switch meshArg {
+	case "coarse":
+		mesh = fdtd.Coarse
+	case "normal":
+		mesh = fdtd.Normal
+	case "fine":
+		mesh = fdtd.Fine
+	default:
+		return fdtd.Options{}, fmt.Errorf("--mesh %q: want coarse, normal or fine", meshArg)
+	}
+	if memMiB <= 0 {
+		return fdtd.Options{}, fmt.Errorf("--memory %d: want a positive number of MiB", memMiB)
+	}
+	return fdtd.Options{Mesh: mesh.Params(), MemoryLimit: int64(memMiB) << 20}, nil
+}
+
+// fullwaveError names the option that lowers a grid above the memory
+// limit.
+func fullwaveError(err error) error {
+	var me *fdtd.MemoryError
+	if errors.As(err, &me) {
+		return fmt.Errorf("%w (or raise --memory)", err)
+	}
+	return err
+}
+
+// fullwaveFiles are the full-wave records of rep, the check of res's
+// drawn copper: fullwave.s2p (the network alone, as network.s2p),
+// fullwave-matched.s1p and the plots that overlay the full-wave and the
+// circuit model.
+func fullwaveFiles(res *synth.Result, rep *fullwave.Report, meshArg string) []artefact {
+	z0 := res.Design.Z0
+	net := &physical.Touchstone{Ports: 2, Z0: z0, Freqs: rep.Freqs}
+	in1 := &physical.Touchstone{Ports: 1, Z0: z0, Freqs: rep.Freqs}
+	for k := range rep.Freqs {
+		s := rep.Network[k]
+		net.S = append(net.S, []complex128{s[0][0], s[0][1], s[1][0], s[1][1]})
+		in1.S = append(in1.S, []complex128{rep.Matched[k]})
+	}
+	comments := func(what string) []string {
+		c := export.TouchstoneComments(res, version, what)
+		return append(c, fmt.Sprintf("full-wave FDTD, %s mesh, %d cells, %d steps", meshArg, rep.Cells, rep.Steps))
+	}
+	curves := export.FullwaveCurves{Name: res.Design.Name, F0: res.Design.Freq, Z0: z0, Freqs: rep.Freqs,
+		Fullwave: rep.Matched, Circuit: rep.CircuitMatched}
+	files := []artefact{
+		{"fullwave.s2p", func(w io.Writer) error {
+			return export.WriteTouchstone(w, net, comments("the matching network, full-wave: port 1 the source side, port 2 the load port"))
+		}},
+		{"fullwave-matched.s1p", func(w io.Writer) error {
+			return export.WriteTouchstone(w, in1, comments("the input of the matched load, full-wave network"))
+		}},
+	}
+	for _, name := range export.FullwavePlotNames() {
+		files = append(files, artefact{name, func(w io.Writer) error { return export.WriteFullwavePlot(w, name, curves) }})
+	}
+	return files
+}
+
 // fullwaveProgress sets o.Progress to show, on stderr when it is a
 // terminal, which run the solve is in, the field energy's decay and an
 // estimate of the time left. The returned function ends the line.
@@ -154,19 +178,40 @@ func fullwaveProgress(o *fdtd.Options) (stop func()) {
 	if !isTerminal(os.Stderr) {
 		return func() {}
 	}
-	shown := false
-	o.Progress = func(p fdtd.Progress) {
-		eta := "?"
-		if p.EstimatedRemain > 0 {
-			eta = p.EstimatedRemain.Round(time.Second).String()
-		}
-		fmt.Fprintf(os.Stderr, "\rfull-wave run %d of %d: step %d, energy %.0f dB of %.0f dB, %s elapsed, about %s left   ",
-			p.Run, p.Runs, p.Step, p.EnergyDB, p.TargetDB, p.Elapsed.Round(time.Second), eta)
-		shown = true
+	var l progressLine
+	o.Progress = func(p fdtd.Progress) { l.show("", p) }
+	return l.end
+}
+
+// centreProgress sets o.Progress to show the same as fullwaveProgress,
+// after the centring run.
+func centreProgress(o *fullwave.CentreOptions) (stop func()) {
+	if !isTerminal(os.Stderr) {
+		return func() {}
 	}
-	return func() {
-		if shown {
-			fmt.Fprintln(os.Stderr)
-		}
+	var l progressLine
+	o.Progress = func(c fullwave.CentreProgress) {
+		l.show(fmt.Sprintf("centring run %d of at most %d, ", c.Run, c.MaxRuns), c.Progress)
+	}
+	return l.end
+}
+
+// progressLine is a line of full-wave progress on stderr, redrawn in
+// place.
+type progressLine struct{ shown bool }
+
+func (l *progressLine) show(head string, p fdtd.Progress) {
+	eta := "?"
+	if p.EstimatedRemain > 0 {
+		eta = p.EstimatedRemain.Round(time.Second).String()
+	}
+	fmt.Fprintf(os.Stderr, "\r%sfull-wave run %d of %d: step %d, energy %.0f dB of %.0f dB, %s elapsed, about %s left   ",
+		head, p.Run, p.Runs, p.Step, p.EnergyDB, p.TargetDB, p.Elapsed.Round(time.Second), eta)
+	l.shown = true
+}
+
+func (l *progressLine) end() {
+	if l.shown {
+		fmt.Fprintln(os.Stderr)
 	}
 }

@@ -88,8 +88,8 @@ type Centring struct {
 // refused (synth.ErrFullwaveMapBand). The tolerance analysis runs once, on
 // the kept layout.
 func Centre(ctx context.Context, in synth.BuildInput, o CentreOptions) (*Centring, error) {
-	if in.Design.Match != nil && in.Design.Match.HasBand() {
-		return nil, in.Design.KeyError("match.band", synth.ErrFullwaveMapBand)
+	if err := CanCentre(in); err != nil {
+		return nil, err
 	}
 	if o.MaxRuns <= 0 {
 		o.MaxRuns = DefaultCentreRuns
@@ -179,6 +179,15 @@ func Centre(ctx context.Context, in synth.BuildInput, o CentreOptions) (*Centrin
 	return &Centring{Result: res, Report: rep}, nil
 }
 
+// CanCentre returns Centre's refusal of in's design before any work: a
+// band match (synth.ErrFullwaveMapBand, naming match.band).
+func CanCentre(in synth.BuildInput) error {
+	if in.Design.Match != nil && in.Design.Match.HasBand() {
+		return in.Design.KeyError("match.band", synth.ErrFullwaveMapBand)
+	}
+	return nil
+}
+
 // nonConverged is the warning of a centring that did not reach the
 // tolerance.
 func nonConverged(f0 float64, rec *synth.FullwaveCentring) string {
@@ -196,7 +205,7 @@ func centreNotes(res *synth.Result, rec *synth.FullwaveCentring) []string {
 	f0 := res.Design.Freq
 	var notes []string
 	for i, r := range rec.Runs {
-		s := fmt.Sprintf("full-wave centring run %d of at most %d (%s mesh): best match %.4f GHz (%+.2f %% from f0), |S11| at f0 %.1f dB; the mapped circuit model gave %.4f GHz and %.1f dB",
+		s := fmt.Sprintf("full-wave centring run %d of at most %d (%s mesh): best match %.4f GHz (%+.2f %% from f0), |S11| at f0 %.1f dB; the mapped circuit model (its offsets; the residual it is aimed off by acts at f0 only) gave %.4f GHz and %.1f dB",
 			i+1, rec.MaxRuns, rec.Mesh, r.BestMatchHz/1e9, 100*r.Offset(f0), r.S11DBF0, r.CircuitBestMatchHz/1e9, r.CircuitS11DBF0)
 		if r.NextMap != nil {
 			s += fmt.Sprintf("; mapped the circuit model onto it by %s (RMS |ΔS| of the network within ±%.0f %% of f0 %.4f → %.4f), re-centred and redrawn",
