@@ -24,7 +24,7 @@ func openSpec() geom.Spec {
 
 // TestNetsOnParsedFiles reads the copper and drill files back and checks
 // that objects joined by copper or plated holes carry one net name
-// (5.6.13: the .N attribute names the net an object belongs to): every
+// (5.6.13, from memory: the .N attribute names the net an object belongs to): every
 // drill hit lands on a top flash and a bottom region of the same net, and
 // a shorted stub makes the RF copper and the plane one DC net.
 func TestNetsOnParsedFiles(t *testing.T) {
@@ -105,8 +105,8 @@ func TestNetsOnParsedFiles(t *testing.T) {
 }
 
 // TestPortPadAttributes: the port pads are surface pads defined by their
-// copper (5.6.10: "SMDPad,CuDef"; "ComponentPad" is for through-hole
-// pads) and carry the connector pin (5.6.14: .P with reference descriptor
+// copper (5.6.10, from memory: "SMDPad,CuDef"; "ComponentPad" is for through-hole
+// pads) and carry the connector pin (5.6.14, from memory: .P with reference descriptor
 // and pin number): J1 pin 1 at the source port (the right edge), J2 pin 1
 // at the load port (x = 0).
 func TestPortPadAttributes(t *testing.T) {
@@ -134,7 +134,7 @@ func TestPortPadAttributes(t *testing.T) {
 // TestExcellonAttributes reads the X2 attribute comments of the drill file
 // (XNC Format Specification, Ucamco: attributes as "; #@! " comments, from
 // memory; values from 5.6.3 .FileFunction and 5.6.10 .AperFunction of the
-// Gerber specification).
+// Gerber specification, section numbers from memory).
 func TestExcellonAttributes(t *testing.T) {
 	l := build(t, refSpec())
 	var b bytes.Buffer

@@ -50,7 +50,7 @@ func discOutsideBand(r, a float64) float64 {
 // Relength gives the same network as a Sim made afresh from the relengthed
 // board, and refuses a wrong number of lengths.
 func TestSimRelength(t *testing.T) {
-	sub := Substrate{Er: 3.48, Height: 0.508e-3, CopperThickness: 35e-6, LossTangent: 0.0037}
+	sub := Substrate{Er: 3.5, Height: 0.51e-3, CopperThickness: 35e-6, LossTangent: 0.004}
 	b := Board{Sub: sub, Through: []Trace{{1.1e-3, 5e-3}, {1.1e-3, 7e-3}}, Stubs: []Stub{{At: 0, Width: 1.1e-3, Length: 6e-3}}}
 	s, err := NewSim(b, MicrostripMaker)
 	if err != nil {

@@ -16,7 +16,7 @@ func TestWidebandDebye(t *testing.T) {
 		er, tanD, f float64
 	}{
 		{"FR-4 class at 1 GHz", 4.4, 0.02, 1e9},
-		{"hydrocarbon-ceramic class at 10 GHz", 3.48, 0.0037, 10e9},
+		{"hydrocarbon-ceramic class at 10 GHz", 3.5, 0.004, 10e9},
 		{"PTFE class at 10 GHz", 2.2, 0.0009, 10e9},
 	}
 	for _, c := range cases {

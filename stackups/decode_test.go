@@ -18,10 +18,10 @@ func baseFile() string {
 description = "test board"
 
 [dielectric]
-er = 3.48
+er = 3.5
 er_frequency = "10GHz"
-loss_tangent = 0.0037
-thickness = "0.508mm"
+loss_tangent = 0.004
+thickness = "0.51mm"
 
 [copper]
 thickness = "35um"
@@ -30,7 +30,7 @@ conductivity = 5.8e7
 
 [mask]
 thickness = "20um"
-er = 3.5
+er = 3.8
 loss_tangent = 0.02
 
 [spread]
@@ -54,9 +54,9 @@ func edit(t *testing.T, oldNew ...string) string {
 	return text
 }
 
-// near reports equality to within a few ulps: a quantity such as "0.508mm"
-// is 0.508 × 1e-3 in floating point, which may differ from the literal
-// 0.508e-3 in the last place.
+// near reports equality to within a few ulps: a quantity such as "0.51mm"
+// is 0.51 × 1e-3 in floating point, which may differ from the literal
+// 0.51e-3 in the last place.
 func near(got, want float64) bool {
 	return got == want || math.Abs(got-want) <= 4e-16*math.Abs(want)
 }
@@ -72,15 +72,15 @@ func TestDecodeBase(t *testing.T) {
 		name      string
 		got, want float64
 	}{
-		{"dielectric.er", s.Dielectric.Er, 3.48},
+		{"dielectric.er", s.Dielectric.Er, 3.5},
 		{"dielectric.er_frequency", s.Dielectric.ErFrequency, 10e9},
-		{"dielectric.loss_tangent", s.Dielectric.LossTangent, 0.0037},
-		{"dielectric.thickness", s.Dielectric.Thickness, 0.508e-3},
+		{"dielectric.loss_tangent", s.Dielectric.LossTangent, 0.004},
+		{"dielectric.thickness", s.Dielectric.Thickness, 0.51e-3},
 		{"copper.thickness", s.Copper.Thickness, 35e-6},
 		{"copper.roughness", s.Copper.Roughness, 1e-6},
 		{"copper.conductivity", s.Copper.Conductivity, 5.8e7},
 		{"mask.thickness", s.Mask.Thickness, 20e-6},
-		{"mask.er", s.Mask.Er, 3.5},
+		{"mask.er", s.Mask.Er, 3.8},
 		{"mask.loss_tangent", s.Mask.LossTangent, 0.02},
 		{"spread.er", s.Spread.ErRel, 0.05},
 		{"spread.thickness", s.Spread.ThicknessRel, 0.10},
@@ -185,13 +185,13 @@ func checkError(t *testing.T, tt errorRow, err error) {
 
 func TestDecodeExactMessage(t *testing.T) {
 	// The form of the message set out in the task brief.
-	_, err := Decode(strings.NewReader(edit(t, "er = 3.48", "er = 0.8")), "board.toml")
+	_, err := Decode(strings.NewReader(edit(t, "er = 3.5", "er = 0.8")), "board.toml")
 	want := "board.toml:5: dielectric.er = 0.8: relative permittivity must be at least 1"
 	if err == nil || err.Error() != want {
 		t.Errorf("got %v, want %s", err, want)
 	}
 	// The same with a byte-order mark and with CRLF line ends (both TOML).
-	for _, text := range []string{"\ufeff" + edit(t, "er = 3.48", "er = 0.8"), strings.ReplaceAll(edit(t, "er = 3.48", "er = 0.8"), "\n", "\r\n")} {
+	for _, text := range []string{"\ufeff" + edit(t, "er = 3.5", "er = 0.8"), strings.ReplaceAll(edit(t, "er = 3.5", "er = 0.8"), "\n", "\r\n")} {
 		if _, err := Decode(strings.NewReader(text), "board.toml"); err == nil || err.Error() != want {
 			t.Errorf("got %v, want %s", err, want)
 		}
@@ -218,31 +218,31 @@ func TestDecodeFieldErrors(t *testing.T) {
 	add("gap unit", "board\"\n\n", "board\"\nline = \"gcpw\"\ngap = \"2 furlongs\"\n", "gap", `"2 furlongs"`, 4, units.ErrUnit, "furlongs")
 	add("gap number", "board\"\n\n", "board\"\nline = \"gcpw\"\ngap = 0.2\n", "gap", "0.2", 4, ErrType, "unit")
 	// dielectric
-	add("er low", "er = 3.48", "er = 0.8", "dielectric.er", "0.8", 5, nil, "at least 1")
-	add("er high", "er = 3.48", "er = 31", "dielectric.er", "31", 5, nil, "at most 30")
-	add("er nan", "er = 3.48", "er = nan", "dielectric.er", "nan", 5, nil, "number from 1 to 30")
-	add("er inf", "er = 3.48", "er = inf", "dielectric.er", "inf", 5, nil, "at most 30")
-	add("er string", "er = 3.48", `er = "3.48"`, "dielectric.er", `"3.48"`, 5, ErrType, "number")
-	add("er table", "er = 3.48", `er = { value = 3.48 }`, "dielectric.er", "{value = 3.48}", 5, ErrType, "number")
-	add("er array", "er = 3.48", `er = [3.48]`, "dielectric.er", "[3.48]", 5, ErrType, "number")
-	add("er missing", "er = 3.48", "", "dielectric.er", "", 4, ErrMissing, "missing")
+	add("er low", "er = 3.5", "er = 0.8", "dielectric.er", "0.8", 5, nil, "at least 1")
+	add("er high", "er = 3.5", "er = 31", "dielectric.er", "31", 5, nil, "at most 30")
+	add("er nan", "er = 3.5", "er = nan", "dielectric.er", "nan", 5, nil, "number from 1 to 30")
+	add("er inf", "er = 3.5", "er = inf", "dielectric.er", "inf", 5, nil, "at most 30")
+	add("er string", "er = 3.5", `er = "3.5"`, "dielectric.er", `"3.5"`, 5, ErrType, "number")
+	add("er table", "er = 3.5", `er = { value = 3.5 }`, "dielectric.er", "{value = 3.5}", 5, ErrType, "number")
+	add("er array", "er = 3.5", `er = [3.5]`, "dielectric.er", "[3.5]", 5, ErrType, "number")
+	add("er missing", "er = 3.5", "", "dielectric.er", "", 4, ErrMissing, "missing")
 	add("er_frequency unit", `"10GHz"`, `"10 furlongs"`, "dielectric.er_frequency", `"10 furlongs"`, 6, units.ErrUnit, "frequency")
 	add("er_frequency bare", `"10GHz"`, `"10"`, "dielectric.er_frequency", `"10"`, 6, units.ErrNoUnit, "unit is needed")
 	add("er_frequency negative", `"10GHz"`, `"-1GHz"`, "dielectric.er_frequency", `"-1GHz"`, 6, nil, "positive")
 	add("er_frequency number", `"10GHz"`, `1e10`, "dielectric.er_frequency", "1e+10", 6, ErrType, "unit")
-	add("loss tangent negative", "loss_tangent = 0.0037", "loss_tangent = -0.1", "dielectric.loss_tangent", "-0.1", 7, nil, "at least 0")
-	add("loss tangent one", "loss_tangent = 0.0037", "loss_tangent = 1", "dielectric.loss_tangent", "1", 7, nil, "less than 1")
-	add("loss tangent missing", "loss_tangent = 0.0037", "", "dielectric.loss_tangent", "", 4, ErrMissing, "missing")
-	add("loss tangent string", "loss_tangent = 0.0037", `loss_tangent = "0.0037"`, "dielectric.loss_tangent", `"0.0037"`, 7, ErrType, "number")
-	add("thickness thin", `"0.508mm"`, `"5um"`, "dielectric.thickness", `"5um"`, 8, nil, "at least 10um")
-	add("thickness thick", `"0.508mm"`, `"25mm"`, "dielectric.thickness", `"25mm"`, 8, nil, "at most 20mm")
-	add("thickness zero", `"0.508mm"`, `"0mm"`, "dielectric.thickness", `"0mm"`, 8, nil, "at least")
-	add("thickness unit", `"0.508mm"`, `"3 furlongs"`, "dielectric.thickness", `"3 furlongs"`, 8, units.ErrUnit, "furlongs")
-	add("thickness overflow", `"0.508mm"`, `"1e999mm"`, "dielectric.thickness", `"1e999mm"`, 8, units.ErrNotFinite, "finite")
-	add("thickness bare", `"0.508mm"`, `"0.508"`, "dielectric.thickness", `"0.508"`, 8, units.ErrNoUnit, "unit")
-	add("thickness empty", `"0.508mm"`, `""`, "dielectric.thickness", `""`, 8, units.ErrSyntax, "not a number")
-	add("thickness number", `thickness = "0.508mm"`, `thickness = 0.508`, "dielectric.thickness", "0.508", 8, ErrType, "unit")
-	add("thickness missing", `thickness = "0.508mm"`, ``, "dielectric.thickness", "", 4, ErrMissing, "missing")
+	add("loss tangent negative", "loss_tangent = 0.004", "loss_tangent = -0.1", "dielectric.loss_tangent", "-0.1", 7, nil, "at least 0")
+	add("loss tangent one", "loss_tangent = 0.004", "loss_tangent = 1", "dielectric.loss_tangent", "1", 7, nil, "less than 1")
+	add("loss tangent missing", "loss_tangent = 0.004", "", "dielectric.loss_tangent", "", 4, ErrMissing, "missing")
+	add("loss tangent string", "loss_tangent = 0.004", `loss_tangent = "0.004"`, "dielectric.loss_tangent", `"0.004"`, 7, ErrType, "number")
+	add("thickness thin", `"0.51mm"`, `"5um"`, "dielectric.thickness", `"5um"`, 8, nil, "at least 10um")
+	add("thickness thick", `"0.51mm"`, `"25mm"`, "dielectric.thickness", `"25mm"`, 8, nil, "at most 20mm")
+	add("thickness zero", `"0.51mm"`, `"0mm"`, "dielectric.thickness", `"0mm"`, 8, nil, "at least")
+	add("thickness unit", `"0.51mm"`, `"3 furlongs"`, "dielectric.thickness", `"3 furlongs"`, 8, units.ErrUnit, "furlongs")
+	add("thickness overflow", `"0.51mm"`, `"1e999mm"`, "dielectric.thickness", `"1e999mm"`, 8, units.ErrNotFinite, "finite")
+	add("thickness bare", `"0.51mm"`, `"0.51"`, "dielectric.thickness", `"0.51"`, 8, units.ErrNoUnit, "unit")
+	add("thickness empty", `"0.51mm"`, `""`, "dielectric.thickness", `""`, 8, units.ErrSyntax, "not a number")
+	add("thickness number", `thickness = "0.51mm"`, `thickness = 0.51`, "dielectric.thickness", "0.51", 8, ErrType, "unit")
+	add("thickness missing", `thickness = "0.51mm"`, ``, "dielectric.thickness", "", 4, ErrMissing, "missing")
 	// copper
 	add("copper thick", `"35um"`, `"600um"`, "copper.thickness", `"600um"`, 11, nil, "at most 0.5mm")
 	add("copper negative", `"35um"`, `"-1um"`, "copper.thickness", `"-1um"`, 11, nil, "at least 0")
@@ -263,8 +263,8 @@ func TestDecodeFieldErrors(t *testing.T) {
 	add("mask thick", `thickness = "20um"`, `thickness = "300um"`, "mask.thickness", `"300um"`, 16, nil, "at most 0.2mm")
 	add("mask zero", `thickness = "20um"`, `thickness = "0um"`, "mask.thickness", `"0um"`, 16, nil, "positive")
 	add("mask thickness missing", `thickness = "20um"`, ``, "mask.thickness", "", 15, ErrMissing, "missing")
-	add("mask er low", "er = 3.5", "er = 0.5", "mask.er", "0.5", 17, nil, "at least 1")
-	add("mask er missing", "er = 3.5", "", "mask.er", "", 15, ErrMissing, "missing")
+	add("mask er low", "er = 3.8", "er = 0.5", "mask.er", "0.5", 17, nil, "at least 1")
+	add("mask er missing", "er = 3.8", "", "mask.er", "", 15, ErrMissing, "missing")
 	add("mask loss tangent", "loss_tangent = 0.02", "loss_tangent = 1.5", "mask.loss_tangent", "1.5", 18, nil, "less than 1")
 	// spread
 	add("spread er high", `er = "5%"`, `er = "60%"`, "spread.er", `"60%"`, 21, nil, "at most 50%")
@@ -284,14 +284,14 @@ func TestDecodeFieldErrors(t *testing.T) {
 }
 
 func TestDecodeTableErrors(t *testing.T) {
-	noDielectric := edit(t, "[dielectric]\ner = 3.48\ner_frequency = \"10GHz\"\nloss_tangent = 0.0037\nthickness = \"0.508mm\"\n", "\n\n\n\n\n")
+	noDielectric := edit(t, "[dielectric]\ner = 3.5\ner_frequency = \"10GHz\"\nloss_tangent = 0.004\nthickness = \"0.51mm\"\n", "\n\n\n\n\n")
 	rows := []errorRow{
 		{"dielectric missing", noDielectric, "dielectric", "", 0, ErrMissing, "[dielectric]"},
 		{"dielectric not a table", strings.Replace(noDielectric, "test board\"\n", "test board\"\ndielectric = 5\n", 1), "dielectric", "", 3, ErrType, "table"},
 		{"dielectric array of tables", edit(t, "[dielectric]", "[[dielectric]]"), "dielectric", "", 4, ErrType, "not an array of tables"},
 		{"copper missing", edit(t, "[copper]\nthickness = \"35um\"\nroughness = \"1um\"\nconductivity = 5.8e7\n", ""), "copper", "", 0, ErrMissing, "[copper]"},
-		{"mask not a table", edit(t, "[mask]\nthickness = \"20um\"\ner = 3.5\nloss_tangent = 0.02\n", "[spread.x]\n"), "spread.x", "", 15, ErrUnknownKey, "unknown"},
-		{"mask a string", edit(t, "test board\"\n", "test board\"\nmask = \"thin\"\n", "[mask]\nthickness = \"20um\"\ner = 3.5\nloss_tangent = 0.02\n", ""),
+		{"mask not a table", edit(t, "[mask]\nthickness = \"20um\"\ner = 3.8\nloss_tangent = 0.02\n", "[spread.x]\n"), "spread.x", "", 15, ErrUnknownKey, "unknown"},
+		{"mask a string", edit(t, "test board\"\n", "test board\"\nmask = \"thin\"\n", "[mask]\nthickness = \"20um\"\ner = 3.8\nloss_tangent = 0.02\n", ""),
 			"mask", "", 3, ErrType, "must be a table, not a string"},
 	}
 	for _, tt := range rows {
@@ -303,18 +303,18 @@ func TestDecodeTableErrors(t *testing.T) {
 func TestDecodeUnknownKeys(t *testing.T) {
 	rows := []errorRow{
 		{"top level", edit(t, "test board\"\n\n", "test board\"\ncolour = \"green\"\n"), "colour", "", 3, ErrUnknownKey, "the top level of a stackup takes name"},
-		{"in a table", edit(t, "\"0.508mm\"\n\n", "\"0.508mm\"\nthicknes = \"1mm\"\n"), "dielectric.thicknes", "", 9, ErrUnknownKey, "[dielectric] takes er"},
-		{"case differs", edit(t, "er = 3.5\n", "ER = 3.5\n"), "mask.ER", "", 17, ErrUnknownKey, "[mask] takes"},
+		{"in a table", edit(t, "\"0.51mm\"\n\n", "\"0.51mm\"\nthicknes = \"1mm\"\n"), "dielectric.thicknes", "", 9, ErrUnknownKey, "[dielectric] takes er"},
+		{"case differs", edit(t, "er = 3.8\n", "ER = 3.8\n"), "mask.ER", "", 17, ErrUnknownKey, "[mask] takes"},
 		{"unknown table", edit(t, "[mask]", "[solder]"), "solder", "", 15, ErrUnknownKey, "unknown key"},
 		{"sub-table", edit(t, "\"10%\"\n", "\"10%\"\n[copper.plating]\nthickness = \"5um\"\n"), "copper.plating", "", 23, ErrUnknownKey, "[copper] takes"},
 		{"dotted at top", edit(t, "test board\"\n\n", "test board\"\nmask.shine = 1\n"), "mask.shine", "", 3, ErrUnknownKey, "[mask] takes"},
 		// The same key inside a string on line 3 must not be taken for it.
 		{"after a multi-line string", edit(t, "description = \"test board\"\n", "description = \"\"\"\nshade = 1 ''' \\\"\"\"\"\nshade = 2\n"), "shade", "", 4, ErrUnknownKey, "unknown"},
 		{"after a multi-line literal", edit(t, "description = \"test board\"\n", "description = '''\nshade = 1 \"\"\" \\\n'''\nshade = 2\n"), "shade", "", 5, ErrUnknownKey, "unknown"},
-		{"after a multi-line array", edit(t, "\"0.508mm\"\n\n", "\"0.508mm\"\nlist = [\n \"x = 1\",\n 2 ]\n"), "dielectric.list", "", 9, ErrUnknownKey, "unknown"},
-		{"inline table", edit(t, "test board\"\n\n", "test board\"\nmask = { thickness = \"20um\", er = 3.5, shine = 1 }\n",
-			"[mask]\nthickness = \"20um\"\ner = 3.5\nloss_tangent = 0.02\n", ""), "mask.shine", "", 3, ErrUnknownKey, "[mask] takes"},
-		{"quoted key", edit(t, "er = 3.48\n", "er = 3.48\n\"e r\" = 1\n"), `dielectric."e r"`, "", 6, ErrUnknownKey, "unknown"},
+		{"after a multi-line array", edit(t, "\"0.51mm\"\n\n", "\"0.51mm\"\nlist = [\n \"x = 1\",\n 2 ]\n"), "dielectric.list", "", 9, ErrUnknownKey, "unknown"},
+		{"inline table", edit(t, "test board\"\n\n", "test board\"\nmask = { thickness = \"20um\", er = 3.8, shine = 1 }\n",
+			"[mask]\nthickness = \"20um\"\ner = 3.8\nloss_tangent = 0.02\n", ""), "mask.shine", "", 3, ErrUnknownKey, "[mask] takes"},
+		{"quoted key", edit(t, "er = 3.5\n", "er = 3.5\n\"e r\" = 1\n"), `dielectric."e r"`, "", 6, ErrUnknownKey, "unknown"},
 		{"array of tables", edit(t, "[spread]", "[[extra]]\nx = 1\n[spread]"), "extra", "", 20, ErrUnknownKey, "unknown"},
 	}
 	for _, tt := range rows {
@@ -329,9 +329,9 @@ func TestDecodeSyntaxErrors(t *testing.T) {
 		text string
 		line int
 	}{
-		{"double equals", edit(t, "er = 3.48", "er = = 3.48"), 5},
+		{"double equals", edit(t, "er = 3.5", "er = = 3.5"), 5},
 		{"unterminated string", edit(t, `thickness = "35um"`, `thickness = "35um`), 11},
-		{"duplicate key", edit(t, "er = 3.48\n", "er = 3.48\ner = 3.5\n"), 6},
+		{"duplicate key", edit(t, "er = 3.5\n", "er = 3.5\ner = 3.5\n"), 6},
 		{"bad header", edit(t, "[copper]", "[copper"), 10}, // the library says 11, the line after the newline at fault
 
 		{"bare value", edit(t, "roughness = \"1um\"", "roughness"), 12},
@@ -366,7 +366,7 @@ func TestDecodeReadError(t *testing.T) {
 }
 
 func TestDecodeKeepsNumError(t *testing.T) {
-	_, err := Decode(strings.NewReader(edit(t, `"0.508mm"`, `"3 furlongs"`)), "board.toml")
+	_, err := Decode(strings.NewReader(edit(t, `"0.51mm"`, `"3 furlongs"`)), "board.toml")
 	var ne *units.NumError
 	if !errors.As(err, &ne) || ne.Text != "3 furlongs" {
 		t.Errorf("got %v, want it to wrap the *units.NumError for \"3 furlongs\"", err)
@@ -384,14 +384,14 @@ func TestSubstrate(t *testing.T) {
 		name      string
 		got, want float64
 	}{
-		{"Er", sub.Er, 3.48},
-		{"Height", sub.Height, 0.508e-3},
-		{"LossTangent", sub.LossTangent, 0.0037},
+		{"Er", sub.Er, 3.5},
+		{"Height", sub.Height, 0.51e-3},
+		{"LossTangent", sub.LossTangent, 0.004},
 		{"CopperThickness", sub.CopperThickness, 35e-6},
 		{"Conductivity", sub.Conductivity, 5.8e7},
 		{"Roughness", sub.Roughness, 1e-6},
 		{"MaskThickness", sub.MaskThickness, 20e-6},
-		{"MaskEr", sub.MaskEr, 3.5},
+		{"MaskEr", sub.MaskEr, 3.8},
 		{"MaskLossTangent", sub.MaskLossTangent, 0.02},
 	}
 	for _, tt := range tests {
@@ -403,7 +403,7 @@ func TestSubstrate(t *testing.T) {
 	if sub := s.Substrate(); sub.MaskThickness != 0 || sub.MaskEr != 0 || sub.MaskLossTangent != 0 {
 		t.Errorf("Substrate() without a mask = %+v, want no mask", sub)
 	}
-	if !reflect.DeepEqual(s.Substrate().Er, 3.48) {
+	if !reflect.DeepEqual(s.Substrate().Er, 3.5) {
 		t.Errorf("Substrate().Er changed when the mask was removed")
 	}
 }

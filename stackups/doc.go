@@ -12,10 +12,10 @@
 //	gap = "0.25mm"                           # gcpw only: strip-to-ground gap
 //
 //	[dielectric]
-//	er = 3.48                 # relative permittivity at er_frequency
+//	er = 3.5                  # relative permittivity at er_frequency
 //	er_frequency = "10GHz"    # optional
-//	loss_tangent = 0.0037
-//	thickness = "0.508mm"
+//	loss_tangent = 0.004
+//	thickness = "0.51mm"
 //
 //	[copper]
 //	thickness = "35um"        # or weight = "1oz", exactly one of the two

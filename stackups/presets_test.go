@@ -169,7 +169,7 @@ func TestLoad(t *testing.T) {
 		t.Fatal(err)
 	}
 	broken := filepath.Join(dir, "broken.toml")
-	if err := os.WriteFile(broken, []byte(strings.Replace(baseFile(), "er = 3.48", "er = 0.8", 1)), 0o644); err != nil {
+	if err := os.WriteFile(broken, []byte(strings.Replace(baseFile(), "er = 3.5", "er = 0.8", 1)), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	want, _ := Decode(strings.NewReader(baseFile()), "x")
