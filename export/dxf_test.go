@@ -50,6 +50,7 @@ func TestDXFAgainstGerber(t *testing.T) {
 	for _, c := range []struct{ name, path string }{
 		{"demo", ""},
 		{"shorted, legend, layer pair", "../testdata/designs/sensor-antenna-by-hand.toml"},
+		{"edge launch, via fence", "../testdata/designs/edge-launch-fence.toml"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			res, files := buildFiles(t, c.path)

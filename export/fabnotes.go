@@ -138,13 +138,26 @@ func NewFabNotes(res *synth.Result, rep Report, lay geom.Layout) FabNotes {
 	}
 
 	clr := geom.Nanometres(res.Design.Layout.EdgeClearance)
+	launch := res.GeomSpec().Launch
+	pads := "its port pads (J1, J2)"
+	if launch != nil {
+		pads = "its signal pads (J1 and J2 pin 1)"
+	}
 	n.Rules = append(n.Rules,
 		fmt.Sprintf("Impedance control: hold each width of the table to its target Z0 ±%.0f %% on the material above; adjust the width only, and say so before changing it.", 100*ImpedanceTolerance),
-		fmt.Sprintf("Edge clearance: all copper is pulled back %s mm from the routed outline, except the signal line and its port pads (J1, J2), which run to the board edge at the two ports for an edge-launch connector. Do not pull back further and do not trim the port copper.", mmText(clr)),
+		fmt.Sprintf("Edge clearance: all copper is pulled back %s mm from the routed outline, except the signal line and %s, which run to the board edge at the two ports for an edge-launch connector. Do not pull back further and do not trim the port copper.", mmText(clr), pads),
 	)
-	if lay.ShortedToGround() {
+	if launch != nil {
+		n.Rules = append(n.Rules, fmt.Sprintf("Edge launch: each port (J1, J2) has a landing for an edge-launch connector (no part specified): the signal pad (pin 1, %s × %s mm) at the board edge, and %s mm from it on each side a ground pad (pins 2 and 3, %s × %s mm, net GND) with %d plated vias to the plane; all landing pads are open in the solder mask.",
+			mmText(geom.Nanometres(launch.PadLength)), mmText(geom.Nanometres(launch.PadWidth)), mmText(geom.Nanometres(launch.Gap)),
+			mmText(geom.Nanometres(launch.GroundLength)), mmText(geom.Nanometres(launch.GroundWidth)), geom.LaunchViaCount(*launch)))
+	}
+	switch {
+	case lay.ShortedToGround():
 		n.Rules = append(n.Rules, "Netlist: a shorted stub's via joins the signal copper to the ground plane, so RF and GND are one DC net, "+geom.NetRFGround+": an electrical test finds the signal pins J1 and J2 shorted to ground, by design.")
-	} else {
+	case launch != nil:
+		n.Rules = append(n.Rules, "Netlist: net RF (the signal copper, J1 and J2 pin 1) and net GND (the plane and the landings' ground pads, J1 and J2 pins 2 and 3) are not connected.")
+	default:
 		n.Rules = append(n.Rules, "Netlist: net RF (the signal copper, pins J1 and J2) and net GND (the plane) are not connected.")
 	}
 	if len(lay.Vias) == 0 {

@@ -33,6 +33,12 @@ var gerbvNoise = regexp.MustCompile(`^\*\* \(process:\d+\): CRITICAL \*\*: [0-9:
 // attribute command in the files.
 func render(t *testing.T, files map[string][]byte, order ...string) image.Image {
 	t.Helper()
+	return renderDPI(t, dpi, files, order...)
+}
+
+// renderDPI is render at the given resolution, dots per inch.
+func renderDPI(t *testing.T, dpi int, files map[string][]byte, order ...string) image.Image {
+	t.Helper()
 	bin, err := exec.LookPath("gerbv")
 	if err != nil {
 		t.Skip("gerbv not on PATH (apt-get install gerbv): skipping the independent-reader check")

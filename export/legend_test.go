@@ -48,6 +48,7 @@ func TestLegendOffPadsAndOpenings(t *testing.T) {
 		{"demo", ""},
 		{"shorted, masked", "../testdata/designs/sensor-antenna-by-hand.toml"},
 		{"coplanar", "../testdata/designs/gcpw-probe.toml"},
+		{"edge launch, via fence", "../testdata/designs/edge-launch-fence.toml"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			res, files := buildFiles(t, c.path)

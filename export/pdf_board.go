@@ -456,8 +456,16 @@ func (b boardModel) pourGap() (x, lo, hi float64, ok bool) {
 
 // stitchPitch finds the longest straight row of stitching vias and returns
 // the centres of its first two, ordered along the row; vertical says the
-// row runs along y.
+// row runs along y. Only a board with a coplanar pour has stitching vias
+// (the ground vias of an edge-launch landing or a via fence are not).
 func (b boardModel) stitchPitch() (p, q ptMM, vertical, ok bool) {
+	pour := false
+	for _, isPour := range b.pour {
+		pour = pour || isPour
+	}
+	if !pour {
+		return ptMM{}, ptMM{}, false, false
+	}
 	rows := map[[2]float64][]ptMM{} // (axis, coordinate) → centres
 	for _, v := range b.vias {
 		if v.ground {

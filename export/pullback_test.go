@@ -24,6 +24,7 @@ func TestPullBackOnParsedGerber(t *testing.T) {
 	for _, c := range []struct{ name, path string }{
 		{"demo", ""},
 		{"coplanar, shorted", "../testdata/designs/gcpw-probe.toml"},
+		{"edge launch", "../testdata/designs/edge-launch-fence.toml"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			var in synth.BuildInput

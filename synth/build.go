@@ -207,6 +207,9 @@ func Build(ctx context.Context, in BuildInput) (*Result, error) {
 	}
 	r.Layout = lay
 	r.Notes = append(r.Notes, r.LayoutNotes(lay)...)
+	if _, w := r.LaunchNote(); w != "" {
+		r.Warnings = append(r.Warnings, w)
+	}
 	if r.Structures, err = r.structures(); err != nil {
 		return nil, d.KeyError("panel.structures", err)
 	}

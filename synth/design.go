@@ -194,6 +194,10 @@ type LayoutSpec struct {
 	// longer than its design length, with ticks every TrimTickPitch on the
 	// legend layer and in the drawing, to be cut back at the bench.
 	Trim float64
+	// Port is how the ports are drawn: PortPad (the default) or PortEdge,
+	// an edge-launch landing sized by Launch.
+	Port   PortKind
+	Launch LaunchSizes
 }
 
 // PanelSpec holds what is made beside the board on its panel.
@@ -284,7 +288,7 @@ func (l LayoutSpec) ViaRowPitch() float64 {
 // DefaultLayout returns the layout used when a design file has none.
 func DefaultLayout() LayoutSpec {
 	return LayoutSpec{FeedLength: 5e-3, StubSide: StubUp, Margin: 5e-3, Mask: MaskAuto, ViaDrill: 0.3e-3, ViaPad: 0.6e-3,
-		EdgeClearance: DefaultEdgeClearance}
+		EdgeClearance: DefaultEdgeClearance, Port: PortPad}
 }
 
 // DefaultFab returns the board maker's limits used when a design file

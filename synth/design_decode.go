@@ -87,6 +87,15 @@ type designRawLayout struct {
 	ViaPitch   any `toml:"via_pitch"`
 	EdgeClear  any `toml:"edge_clearance"`
 	Trim       any `toml:"trim"`
+	Port       any `toml:"port"`
+	LaunchPadW any `toml:"launch_pad_width"`
+	LaunchPadL any `toml:"launch_pad_length"`
+	LaunchGap  any `toml:"launch_gap"`
+	LaunchGndW any `toml:"launch_ground_width"`
+	LaunchGndL any `toml:"launch_ground_length"`
+	LaunchDrl  any `toml:"launch_via_drill"`
+	LaunchPad  any `toml:"launch_via_pad"`
+	LaunchPtch any `toml:"launch_via_pitch"`
 }
 
 type designRawFab struct {
@@ -283,6 +292,11 @@ func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) De
 		designRead(dd, "layout.via_pitch", l.ViaPitch, designLength, &d.Layout.ViaPitch, "")
 		designRead(dd, "layout.edge_clearance", l.EdgeClear, designLength, &d.Layout.EdgeClearance, "")
 		designRead(dd, "layout.trim", l.Trim, designLength, &d.Layout.Trim, "")
+		designRead(dd, "layout.port", l.Port, designWord[PortKind], &d.Layout.Port, "")
+		for i, v := range []any{l.LaunchPadW, l.LaunchPadL, l.LaunchGap, l.LaunchGndW, l.LaunchGndL, l.LaunchDrl, l.LaunchPad, l.LaunchPtch} {
+			k := d.Layout.Launch.launchKeys()[i]
+			designRead(dd, k.key, v, designLength, k.v, "")
+		}
 	}
 	d.Fab = DefaultFab()
 	if f := tb.Fab; f != nil {

@@ -239,6 +239,10 @@ func TestDecodeDesignFaults(t *testing.T) {
 		{"layout max board zero", designBase + "[layout]\nmax_board = [\"60mm\", \"0mm\"]\n", 11, "layout.max_board", nil, "from 1 mm to 1000 mm"},
 		{"layout via pad small", designBase + "[layout]\nvia_drill = \"0.5mm\"\nvia_pad = \"0.4mm\"\n", 12, "layout.via_pad", nil, "larger than the drill"},
 		{"layout via drill", designBase + "[layout]\nvia_drill = \"0mm\"\n", 11, "layout.via_drill", nil, "from 0.05 mm to 5 mm"},
+		{"layout port", designBase + "[layout]\nport = \"sma\"\n", 11, "layout.port", nil, "edge-launch landing"},
+		{"layout launch without edge", designBase + "[layout]\nlaunch_gap = \"0.4mm\"\n", 11, "layout.launch_gap", nil, "port = \"edge\""},
+		{"layout launch zero", designBase + "[layout]\nport = \"edge\"\nlaunch_ground_width = \"-1mm\"\n", 12, "layout.launch_ground_width", ErrOutOfRange, "more than 0 mm"},
+		{"layout launch pad past feed", designBase + "[layout]\nport = \"edge\"\nfeed_length = \"1mm\"\n", 12, "layout.feed_length", nil, "launch_pad_length"},
 		{"fab min width", designBase + "[fab]\nmin_width = \"0um\"\n", 11, "fab.min_width", nil, "from 0.01 mm to 5 mm"},
 		{"sweep span and start", designBase + "[sweep]\nspan = \"20%\"\nstart = \"2GHz\"\nstop = \"3GHz\"\n", 11, "sweep.span", nil, "not both"},
 		{"sweep start alone", designBase + "[sweep]\nstart = \"2GHz\"\n", 10, "sweep", ErrMissingKey, "together"},
@@ -514,8 +518,16 @@ func BenchmarkDecodeDesign(b *testing.B) {
 // Every key the decoder reads is in the schema that refuses unknown keys:
 // a design writing each optional key of [layout] decodes.
 func TestDesignSchemaTakesEveryLayoutKey(t *testing.T) {
-	text := designBase + "[layout]\nfeed_length = \"5mm\"\nstub_side = \"up\"\nmargin = \"5mm\"\nedge_clearance = \"0.3mm\"\n"
-	if _, err := DecodeDesign(strings.NewReader(text), "d.toml", ""); err != nil {
+	text := designBase + "[layout]\nfeed_length = \"5mm\"\nstub_side = \"up\"\nmargin = \"5mm\"\nedge_clearance = \"0.3mm\"\n" +
+		"port = \"edge\"\nlaunch_pad_width = \"3mm\"\nlaunch_pad_length = \"1.5mm\"\nlaunch_gap = \"0.5mm\"\nlaunch_ground_width = \"1.5mm\"\n" +
+		"launch_ground_length = \"2.5mm\"\nlaunch_via_drill = \"0.3mm\"\nlaunch_via_pad = \"0.6mm\"\nlaunch_via_pitch = \"1mm\"\n"
+	d, err := DecodeDesign(strings.NewReader(text), "d.toml", "")
+	if err != nil {
 		t.Fatal(err)
+	}
+	// The file's quantities in metres (exact SI prefixes).
+	want := LaunchSizes{PadWidth: 3e-3, PadLength: 1.5e-3, Gap: 0.5e-3, GroundWidth: 1.5e-3, GroundLength: 2.5e-3, ViaDrill: 0.3e-3, ViaPad: 0.6e-3, ViaPitch: 1e-3}
+	if d.Layout.Port != PortEdge || d.Layout.Launch != want {
+		t.Errorf("port %q, launch %+v; want edge, %+v", d.Layout.Port, d.Layout.Launch, want)
 	}
 }

@@ -235,6 +235,10 @@ func (c *designCheck) checkLayout(l LayoutSpec) {
 	if _, err := ParseMaskMode(l.Mask.String()); err != nil {
 		c.failErr("layout.mask", strconv.Quote(l.Mask.String()), err)
 	}
+	if _, err := ParsePortKind(l.Port.String()); err != nil {
+		c.failErr("layout.port", strconv.Quote(l.Port.String()), err)
+	}
+	c.checkLaunch(l)
 	if l.MaxBoard != [2]float64{} {
 		for i, v := range l.MaxBoard {
 			if !(v >= MinBoardSide && v <= MaxBoardSide) {

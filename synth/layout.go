@@ -77,7 +77,22 @@ func (r *Result) GeomSpec() geom.Spec {
 	if d.Layout.FeedLength >= PortPadLength {
 		s.PortPad = geom.PadSpec{Width: portWidth, Length: PortPadLength}
 	}
+	if d.Layout.Port == PortEdge {
+		g := d.Layout.Launch.Resolve(d.Layout, portWidth)
+		s.Launch = &g
+	}
 	return s
+}
+
+// portWidth returns the width of the port line (the first through
+// element), m.
+func (r *Result) portWidth() float64 {
+	for _, e := range r.Physical.Elements {
+		if e.Role != RoleStub {
+			return e.Width
+		}
+	}
+	return 0
 }
 
 // LayoutNotes returns a note for each stub that l, the layout of
@@ -103,6 +118,9 @@ func (r *Result) LayoutNotes(l geom.Layout) []string {
 	}
 	for _, t := range l.Marks.Trims {
 		notes = append(notes, r.TrimNote(t))
+	}
+	if n, _ := r.LaunchNote(); n != "" {
+		notes = append(notes, n)
 	}
 	return notes
 }

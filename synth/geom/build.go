@@ -29,6 +29,12 @@ const KeepOutHeights = 3.0
 // Build lays out the network described by s. Every length is rounded once
 // to whole nanometres. A malformed Spec returns a *SpecError and no layout.
 func Build(s Spec) (Layout, error) {
+	if s.Launch != nil {
+		if err := checkLaunch(*s.Launch); err != nil {
+			return Layout{}, err
+		}
+		s.PortPad = PadSpec{Width: s.Launch.PadWidth, Length: s.Launch.PadLength}
+	}
 	if err := check(s); err != nil {
 		return Layout{}, err
 	}
@@ -49,6 +55,12 @@ func Build(s Spec) (Layout, error) {
 	boardX := x
 	padW, padL := Nanometres(s.PortPad.Width), Nanometres(s.PortPad.Length)
 	hasPad := padW > 0
+	// landX is how far from each board edge the port's copper keeps the
+	// stubs away: the port pad, or the edge-launch landing with its gap.
+	landX := padL
+	if s.Launch != nil {
+		landX = landingLength(*s.Launch, Nanometres(s.EdgeClearance))
+	}
 
 	up, down := int64(0), int64(0) // copper extent above and below y = 0
 	for _, g := range segs {
@@ -56,6 +68,10 @@ func Build(s Spec) (Layout, error) {
 	}
 	if hasPad {
 		up, down = maxI(up, -(padW/2)+padW), maxI(down, padW/2)
+	}
+	if s.Launch != nil {
+		e := landingExtent(*s.Launch, padW)
+		up, down = maxI(up, e), maxI(down, e+padW/2-(padW-padW/2))
 	}
 
 	base := [2]int64{up, down} // the through line's and port pads' extent, before the stubs
@@ -88,10 +104,14 @@ func Build(s Spec) (Layout, error) {
 				"stub %q (x %s..%s mm) reaches beyond segments %q and %q (x %s..%s mm)",
 				t.ID, mm(st.xs[0]), mm(st.xs[1]), s.Segments[t.At].ID, s.Segments[t.At+1].ID, mm(a.x0), mm(b.x1))
 		}
-		if hasPad && (st.xs[0] < padL || st.xs[1] > boardX-padL) {
+		if hasPad && (st.xs[0] < landX || st.xs[1] > boardX-landX) {
+			what := "a port pad"
+			if s.Launch != nil {
+				what = "an edge-launch landing with its gap"
+			}
 			return Layout{}, specErr(field, ErrOverlap,
-				"stub %q (x %s..%s mm) overlaps a port pad (x 0..%s and %s..%s mm)",
-				t.ID, mm(st.xs[0]), mm(st.xs[1]), mm(padL), mm(boardX-padL), mm(boardX))
+				"stub %q (x %s..%s mm) overlaps %s (x 0..%s and %s..%s mm)",
+				t.ID, mm(st.xs[0]), mm(st.xs[1]), what, mm(landX), mm(boardX-landX), mm(boardX))
 		}
 		for j := 0; j < k; j++ {
 			if s.Stubs[j].Side != t.Side {
@@ -119,7 +139,7 @@ func Build(s Spec) (Layout, error) {
 		var ext [2]int64
 		var err error
 		bends, ext, err = planBends(s, segs, stubs, base, [2]int64{up, down},
-			bendRules{boardX: boardX, padL: padL, margin: margin, maxY: my})
+			bendRules{boardX: boardX, padL: landX, margin: margin, maxY: my})
 		if err != nil {
 			return Layout{}, err
 		}
@@ -222,6 +242,13 @@ func Build(s Spec) (Layout, error) {
 	}
 	mask = append(mask, padRects...)
 	keep = append(keep, padRects...)
+	var ground []Rect // the landing's ground pads
+	if s.Launch != nil {
+		var err error
+		if ground, err = l.addLanding(*s.Launch, boardX, yc, padW, Nanometres(s.EdgeClearance), keep); err != nil {
+			return Layout{}, err
+		}
+	}
 	if hasPour {
 		if err := l.addCoplanar(s, mask, inner, cpw); err != nil {
 			return Layout{}, err
@@ -230,6 +257,8 @@ func Build(s Spec) (Layout, error) {
 	if s.Mask == "cover" {
 		mask = padRects
 	}
+	mask = append(mask, ground...)
+	keep = append(keep, ground...)
 	l.MaskOpenings = grownUnion(mask, maskGrowth(s, cpw, hasPour), board)
 	ko := margin
 	if s.Height > 0 {

@@ -11,6 +11,10 @@ type Spec struct {
 	// PortPad is a rectangular pad flashed at each port end of the through
 	// line; the zero value means none.
 	PortPad PadSpec
+	// Launch, when not nil, draws an edge-launch landing at each port: its
+	// signal pad replaces PortPad, and ground pads with vias to the plane
+	// flank it (see LaunchSpec).
+	Launch *LaunchSpec
 	// Margin is the board margin around the copper in ±y. In x the through
 	// line's ends touch the board edge (edge launch).
 	Margin float64
