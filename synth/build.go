@@ -52,6 +52,11 @@ type BuildInput struct {
 	Lines physical.LineMaker
 	// SkipTolerance turns the Monte Carlo analysis off.
 	SkipTolerance bool
+	// SkipSensitivity leaves Result.Sensitivity empty, for a caller that
+	// prints no bench figures (compare): the sensitivities cost a
+	// best-match search per quantity, more than the tolerance analysis.
+	// A Build needs them (the trim note) and ignores this.
+	SkipSensitivity bool
 	// AcceptMismatch lets Build return a layout whose |S11| at f0 is above
 	// MismatchLimitDB instead of refusing it with a *MismatchError.
 	AcceptMismatch bool
@@ -190,6 +195,7 @@ func boardSize(lay geom.Layout) (w, h float64) {
 // naming the design file; find them with errors.As. The result is what the
 // writers of package export take.
 func Build(ctx context.Context, in BuildInput) (*Result, error) {
+	in.SkipSensitivity = false
 	r, err := Simulate(ctx, in)
 	if err != nil {
 		return nil, err
@@ -325,8 +331,10 @@ func Simulate(ctx context.Context, in BuildInput) (*Result, error) {
 		return nil, err
 	}
 	r.load, r.benchLines = in.Load, tmk
-	if err := r.sensitivities(ctx); err != nil {
-		return nil, err
+	if !in.SkipSensitivity {
+		if err := r.sensitivities(ctx); err != nil {
+			return nil, err
+		}
 	}
 	if !in.SkipTolerance && d.Tolerance.Samples > 0 {
 		t, err := Analyse(ctx, r.Physical.Board, sub, tmk, zl, f0, z0, d.Tolerance)

@@ -472,3 +472,36 @@ func TestLongFeedMovesManyHalfWaves(t *testing.T) {
 		}
 	}
 }
+
+// SkipSensitivity (compare) drops the sensitivities and nothing else;
+// Build ignores it, since the trim note needs them.
+func TestSkipSensitivity(t *testing.T) {
+	in, err := LoadDemo(LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	in.Design.Tolerance.Samples = 100
+	full, err := Simulate(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	in.SkipSensitivity = true
+	skip, err := Simulate(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(full.Sensitivity) == 0 || len(skip.Sensitivity) != 0 {
+		t.Fatalf("%d sensitivities in full, %d with SkipSensitivity; want some and none", len(full.Sensitivity), len(skip.Sensitivity))
+	}
+	if skip.S11F0 != full.S11F0 || skip.Tolerance.P50 != full.Tolerance.P50 || skip.Tolerance.P90 != full.Tolerance.P90 || skip.LossF0DB != full.LossF0DB {
+		t.Errorf("skipping the sensitivities changed the figures: S11 %v/%v, p50 %v/%v, p90 %v/%v",
+			skip.S11F0, full.S11F0, skip.Tolerance.P50, full.Tolerance.P50, skip.Tolerance.P90, full.Tolerance.P90)
+	}
+	built, err := Build(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(built.Sensitivity) != len(full.Sensitivity) {
+		t.Errorf("Build with SkipSensitivity: %d sensitivities, want %d", len(built.Sensitivity), len(full.Sensitivity))
+	}
+}

@@ -90,6 +90,7 @@ meets the fab minimum. Nothing is written to disk.`,
 			for _, st := range sts {
 				in := in
 				in.Stackup, in.Lines, in.SkipTolerance = st, synth.LineMakerFor(cmd.Context(), st, cache), noTolerance
+				in.SkipSensitivity = true // compare prints no bench figures
 				rows = append(rows, compareOne(cmd.Context(), in, minWidth))
 				if err := cmd.Context().Err(); err != nil {
 					stop()
