@@ -1,9 +1,11 @@
 package synth
 
 import (
+	"fmt"
 	"math"
 
 	"stubcraft/physical"
+	"stubcraft/physical/fieldsolve"
 )
 
 // ApproximateModel is a line model computed numerically to a stated
@@ -59,12 +61,33 @@ func widthMapped(mk LineMaker, sub physical.Substrate, z0, freq float64) (r Widt
 			return math.Exp(b.lnK + t*(b.lnK-a.lnK))
 		}
 	}
+	// gcpw is set once the first solve shows a grounded coplanar line:
+	// from then on the map is the conformal-mapping GCPW, whose ratio to
+	// the solver varies far less with the width than the microstrip's.
+	var gcpw *fieldsolve.CrossSection
 	closed := func(w float64, s physical.Substrate) (physical.LineModel, error) {
+		if gcpw != nil {
+			z, err := conformalGCPW(w, gcpw.Gap, gcpw.Height, gcpw.Er)
+			if err != nil {
+				return nil, err
+			}
+			return mapLine{z: z * ratio(w), w: w, sub: s}, nil
+		}
 		m, err := physical.NewMicrostrip(w, s)
 		if err != nil {
 			return nil, err
 		}
 		return scaledLine{m, lineRatio{z: ratio(w), e: 1, ac: 1, ad: 1}}, nil
+	}
+	base := func(w float64) (float64, error) {
+		if gcpw != nil {
+			return conformalGCPW(w, gcpw.Gap, gcpw.Height, gcpw.Er)
+		}
+		cf, err := physical.NewMicrostrip(w, bare)
+		if err != nil {
+			return 0, err
+		}
+		return cf.At(freq).Z0, nil
 	}
 	var best WidthResult
 	bestErr := math.Inf(1)
@@ -83,8 +106,18 @@ func widthMapped(mk LineMaker, sub physical.Substrate, z0, freq float64) (r Widt
 			return WidthResult{}, false, nil
 		}
 		p := m.At(freq)
-		cf, err := physical.NewMicrostrip(w, bare)
-		if err != nil || !(p.Z0 > 0) {
+		if !(p.Z0 > 0) {
+			return WidthResult{}, false, nil
+		}
+		if cm, ok := m.(interface {
+			CrossSection() fieldsolve.CrossSection
+		}); ok && gcpw == nil && len(pts) == 0 {
+			if cs := cm.CrossSection(); cs.Geometry == fieldsolve.GCPW && cs.Gap > 0 && cs.Height > 0 {
+				gcpw = &cs
+			}
+		}
+		zb, err := base(w)
+		if err != nil || !(zb > 0) {
 			return WidthResult{}, false, nil
 		}
 		zs, es := m.Static()
@@ -97,7 +130,62 @@ func widthMapped(mk LineMaker, sub physical.Substrate, z0, freq float64) (r Widt
 			best.Warnings = best.Model.Warnings(freq)
 			return best, true, nil
 		}
-		pts = append(pts, point{math.Log(w), math.Log(p.Z0 / cf.At(freq).Z0)})
+		pts = append(pts, point{math.Log(w), math.Log(p.Z0 / zb)})
 	}
 	return WidthResult{}, false, nil
+}
+
+// mapLine is the GCPW map of widthMapped: a line that has only an
+// impedance.
+type mapLine struct {
+	z, w float64
+	sub  physical.Substrate
+}
+
+func (l mapLine) At(float64) physical.LineParams { return physical.LineParams{Z0: l.z, EpsEff: 1} }
+func (l mapLine) Static() (z0, epsEff float64)   { return l.z, 1 }
+func (l mapLine) Warnings(float64) []string      { return nil }
+func (l mapLine) Strip() (float64, physical.Substrate) {
+	return l.w, l.sub
+}
+func (l mapLine) Name() string { return "conformal-mapping GCPW (width search map)" }
+
+// conformalGCPW is the quasi-static impedance of a conductor-backed
+// coplanar waveguide of zero thickness with infinitely wide side grounds,
+// by conformal mapping with the partial-capacitance split at the strip
+// plane (G. Ghione and C. Naldi, 1987; from memory): with a = w/2,
+// b = w/2 + gap, k = a/b and k1 = tanh(πa/2h)/tanh(πb/2h),
+// q = [K(k1)/K(k1′)]/[K(k)/K(k′)], εeff = (1 + εr·q)/(1 + q) and
+// Z0 = η0 / (2√εeff · (K(k)/K(k′) + K(k1)/K(k1′))). It serves only as the
+// map of the width search: the field solver corrects it, so its error
+// (thickness, finite grounds, the split) costs at most a solve, never
+// accuracy.
+func conformalGCPW(w, gap, h, er float64) (float64, error) {
+	a, b := w/2, w/2+gap
+	k := a / b
+	k1 := math.Tanh(math.Pi*a/(2*h)) / math.Tanh(math.Pi*b/(2*h))
+	if !(k > 0 && k < 1 && k1 > 0 && k1 < 1) {
+		return 0, fmt.Errorf("conformal GCPW: no map for width %g m, gap %g m, height %g m", w, gap, h)
+	}
+	rk, rk1 := ellipticKRatio(k), ellipticKRatio(k1)
+	q := rk1 / rk
+	epsEff := (1 + er*q) / (1 + q)
+	return physical.Eta0 / (2 * math.Sqrt(epsEff) * (rk + rk1)), nil
+}
+
+// ellipticKRatio is K(k)/K(k′), k′ = √(1−k²), K the complete elliptic
+// integral of the first kind, each by the arithmetic-geometric mean
+// K(k) = π / (2·AGM(1, k′)) (Abramowitz and Stegun 17.6).
+func ellipticKRatio(k float64) float64 {
+	kp := math.Sqrt(1 - k*k)
+	return agmK(kp) / agmK(k)
+}
+
+// agmK is K(k) given k′ (π / (2·AGM(1, k′))).
+func agmK(kp float64) float64 {
+	a, b := 1.0, kp
+	for i := 0; i < 60 && math.Abs(a-b) > 1e-15*a; i++ {
+		a, b = (a+b)/2, math.Sqrt(a*b)
+	}
+	return math.Pi / (2 * a)
 }
