@@ -29,11 +29,12 @@ import json, sys
 d, j = sys.argv[1], json.loads(sys.argv[2])
 name = d.split('/')[-1].removesuffix('.toml')
 c = j['fullwave_centre']
+fit = lambda r, k: '%.4f' % r[k] if k in r else '-'  # no fit after the last run
 for r in c['runs']:
     print('\t'.join([name, c['mesh'], '%.6g' % j['frequency_hz'], str(r['run']), '%.7g' % r['best_match_hz'],
                      '%.3f' % r['best_match_offset_pct'], '%.2f' % r['s11_db_f0'], '%.7g' % r['circuit_best_match_hz'],
                      '%.4f' % r['max_s_difference'],
-                     '%.4f' % r.get('fit_rms_s_difference_before', float('nan')), '%.4f' % r.get('fit_rms_s_difference_after', float('nan')),
+                     fit(r, 'fit_rms_s_difference_before'), fit(r, 'fit_rms_s_difference_after'),
                      str(r['cells']), str(r['steps']), str(c['converged']).lower(), str(c['kept_run'])]))
 PY
   else
