@@ -461,7 +461,10 @@ func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
 	r.sim = sim
 	r.S11F0 = sim.InputReflection(f0, zl, z0)
 	r.LossF0DB = sim.Loss(f0, zl, z0)
-	if err := checkLoss(LoadGamma(zl, z0), r.LossF0DB, f0); err != nil && !in.AcceptLoss {
+	// The rule weighs what the network burns of the source's power: for a
+	// matching network its own loss, for a hand-entered one that reflects
+	// by design (a notch) far less.
+	if err := checkLoss(LoadGamma(zl, z0), availableLossDB(r.S11F0, r.LossF0DB), f0); err != nil && !in.AcceptLoss {
 		return nil, d.KeyError(loadKey(d), err)
 	}
 	if err := r.sweep(sim, in.Load); err != nil {

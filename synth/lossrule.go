@@ -71,6 +71,25 @@ func CheckLoadGamma(zLoad complex128, z0 float64) error {
 	return nil
 }
 
+// availableLossDB returns the share of the available power (what a z0
+// source offers) that a network dissipates, as 10·log10(1/(1 − share)),
+// from its |S11| and its own loss lossDB (dissipation of the power that
+// enters, Sim.Loss): share = (1 − |S11|²)·(1 − 10^(−lossDB/10)). For a
+// matched network it is lossDB; for one that reflects by design (a
+// hand-entered notch: little power enters, and nearly all of that is
+// lost, 18.7 dB "lost" of almost nothing) it is what the board burns.
+func availableLossDB(s11 complex128, lossDB float64) float64 {
+	accepted := 1 - real(s11)*real(s11) - imag(s11)*imag(s11)
+	if !(accepted > 0) {
+		return 0
+	}
+	lost := 1.0
+	if !math.IsInf(lossDB, 1) {
+		lost = 1 - math.Pow(10, -lossDB/10)
+	}
+	return -10 * math.Log10(1-accepted*lost)
+}
+
 // checkLoss applies the loss rule to a built network: |Γ_load| above
 // MaxLoadGamma or a dissipation above MaxNetworkLossDB is refused.
 func checkLoss(gamma, lossDB, f0 float64) error {
