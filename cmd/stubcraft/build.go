@@ -183,7 +183,7 @@ match is not centred. Each run takes as long as verify on that mesh.
 	f.StringVar(&scaleArg, "fit", "scale", `when the board does not fit the page at 1:1: "scale" (a stated smaller scale) or "tile" (1:1 across pages)`)
 	f.BoolVar(&asJSON, "json", false, "print the report JSON instead of the summary")
 	f.BoolVar(&acceptMismatch, "accept-mismatch", false, "write the files even when the layout does not match (|S11| at f0 above −10 dB)")
-	f.BoolVar(&acceptLoss, "accept-loss", false, "build a load even when the network would dissipate more than 3 dB at f0 or |Γ_load| is above 0.98")
+	f.BoolVar(&acceptLoss, "accept-loss", false, "build a load even when the network would burn more than half the source's power (3 dB) at f0 or |Γ_load| is above 0.98")
 	f.BoolVar(&fullwaveCentre, "fullwave-centre", false, "re-centre the drawn lengths on up to three full-wave (3-D FDTD) solves, until the full-wave best match is within 0.3 % of f0")
 	f.StringVar(&meshArg, "mesh", "normal", "with --fullwave-centre: full-wave mesh density, coarse, normal or fine")
 	f.IntVar(&memMiB, "memory", 1024, "with --fullwave-centre: refuse a full-wave grid whose estimate exceeds this many MiB")
