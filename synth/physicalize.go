@@ -35,7 +35,7 @@ type Element struct {
 	ElectricalDeg float64 // at f0, of the electrical solution
 	LineLength    float64 // the length of this width with ElectricalDeg at f0, m
 	OpenEnd       float64 // open-end shortening (Kirschning-Jansen-Koster), m
-	Tee           float64 // T-junction compensation (Hammerstad), m
+	Tee           float64 // T-junction compensation (physical.Tee: Hammerstad, fitted to full-wave), m
 	Via           float64 // via-inductance compensation (Goldfarb-Pucel), m
 	Step          float64 // width-step compensation (Gupta, Garg, Bahl and Bhartia), m
 	Recentre      float64 // change made by the re-centring optimiser, m
@@ -89,7 +89,7 @@ func (p Physical) ThroughIndex() []int {
 // ToPhysical turns an electrical network, listed from the load toward the
 // source, into drawn copper on sub at f0: a width for each impedance, a
 // length for each electrical length with dispersion, and the corrections
-// for the T-junctions (Hammerstad 1981), open ends (Kirschning, Jansen and
+// for the T-junctions (Hammerstad 1981, fitted to the full-wave tee sweep), open ends (Kirschning, Jansen and
 // Koster 1981) and vias (Goldfarb and Pucel 1991).
 //
 // A feed line of opt.FeedLength joins each port. On the load side the feed
@@ -359,8 +359,8 @@ func (p *Physical) makeRoom(through, stubs []Element) error {
 // a through line of width throughW (the wider of the two arms, whose edge
 // the stub's drawn length starts from). The tee's susceptance and turns ratio
 // are compensated exactly at f0: the stub is given the length whose
-// admittance, seen through the n:1 transformer and beside jB, equals the
-// ideal stub's.
+// admittance, seen through the transformer (n²·y) and beside jB, equals
+// the ideal stub's.
 func (p *Physical) correctStub(st *Element, tee physical.TeeParams, throughW float64, sub physical.Substrate, f0 float64, via physical.Via) error {
 	beta := st.Params.Beta()
 	zs := st.Z0
@@ -371,8 +371,8 @@ func (p *Physical) correctStub(st *Element, tee physical.TeeParams, throughW flo
 	} else {
 		bIdeal = math.Tan(theta) / zs
 	}
-	// At the node the stub appears as y/n² beside jB.
-	bRef := (bIdeal - tee.B) * tee.N * tee.N
+	// At the node the stub appears as n²·y beside jB.
+	bRef := (bIdeal - tee.B) / (tee.N * tee.N)
 	// The angle a stub with an ideal end needs to present jbRef.
 	var thetaRef float64
 	if st.End == Short {

@@ -236,10 +236,11 @@ func TestFullwaveMapMovesModelNotCopper(t *testing.T) {
 }
 
 // TestCentreCoarseFDTD is the whole procedure on the full-wave solver, on
-// the coarse mesh: the demo drawn from a circuit model deliberately 3 %
-// too long (a mapping that lengthens every line and stub by 3 % of its
-// length, so the copper comes out about 3 % short and the full-wave best
-// match about 3.8 % high). The centring must bring the full-wave best match
+// the coarse mesh: the demo drawn from a circuit model deliberately 4 %
+// too long (a mapping that lengthens every line and stub by 4 % of its
+// length, so the copper comes out about 4 % short; the plain demo's
+// full-wave best match sits 0.65 % below f0 on this mesh with the
+// T-junction fitted to the full-wave sweep, so run 1 lands about 2 % high). The centring must bring the full-wave best match
 // within 0.3 % of f0 in at most three runs; the best match is re-read here
 // from the raw full-wave network with the load attached independently.
 // About 20 s on an idle 2-core machine (two or three coarse solves).
@@ -255,7 +256,7 @@ func TestCentreCoarseFDTD(t *testing.T) {
 	wrong := &synth.FullwaveMapping{Offsets: map[string]float64{}}
 	for _, e := range plain.Physical.Elements {
 		if e.Role != synth.RoleFeed {
-			wrong.Offsets[e.ID] = 0.03 * e.Drawn()
+			wrong.Offsets[e.ID] = 0.04 * e.Drawn()
 		}
 	}
 	in.FullwaveMap = wrong
