@@ -6,17 +6,20 @@
 # match within 0.3 % of f0 after at most three full-wave runs.
 # TestRecordedCentring (synth/fullwave) checks the record.
 # Usage: testdata/fdtd/centre.sh [design.toml|demo ...]   (from the repository root; slow)
+# With APPEND=1 the runs are added to the record under their own "# made by:"
+# line instead of replacing it; OUT=FILE writes FILE instead of centre.tsv.
 set -euo pipefail
 cd "$(dirname "$0")/../.."
 mesh=${MESH:-normal}
 bin=$(mktemp -d)/stubcraft
 go build -o "$bin" ./cmd/stubcraft
-out=testdata/fdtd/centre.tsv
+out=${OUT:-testdata/fdtd/centre.tsv}
 tmp=$(mktemp)
+if [ "${APPEND:-}" = 1 ] && [ -f "$out" ]; then cp "$out" "$tmp"; fi
 {
   echo "# made by: MESH=$mesh testdata/fdtd/centre.sh $* ($(git rev-parse --short HEAD)), $(date -u +%Y-%m-%dT%H:%MZ)"
   printf 'design\tmesh\tf0_hz\trun\tbest_match_hz\tbest_match_offset_pct\ts11_db_f0\tcircuit_best_match_hz\tmax_s_difference\tfit_rms_before\tfit_rms_after\tcells\tsteps\tconverged\tkept_run\n'
-} > "$tmp"
+} >> "$tmp"
 designs=("$@")
 [ ${#designs[@]} -gt 0 ] || designs=(demo testdata/designs/compact-bent-stub.toml testdata/designs/double-stub-sections.toml)
 for d in "${designs[@]}"; do
