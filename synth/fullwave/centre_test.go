@@ -179,8 +179,9 @@ func TestCentreNotConvergedSaysSo(t *testing.T) {
 	}
 }
 
-// TestCentreRefusals: a band match, a cancelled context and a grid above
-// the memory limit each stop the centring with their own error.
+// TestCentreRefusals: a band match, a context cancelled before the start
+// or after the first run, and a grid above the memory limit each stop the
+// centring with their own error.
 func TestCentreRefusals(t *testing.T) {
 	band, err := synth.LoadDesign("../../testdata/designs/band-double-stub.toml", synth.LoadOptions{})
 	if err != nil {
@@ -194,6 +195,19 @@ func TestCentreRefusals(t *testing.T) {
 	cancel()
 	if _, err := Centre(ctx, demoInput(t), CentreOptions{Solver: scaledSolver(func(int) float64 { return 1 })}); !errors.Is(err, context.Canceled) {
 		t.Errorf("cancelled: err = %v, want context.Canceled", err)
+	}
+	// Cancelled after the first full-wave run: the fit of the mapping
+	// stops with the context's error.
+	ctx, cancel = context.WithCancel(context.Background())
+	defer cancel()
+	solve := scaledSolver(func(int) float64 { return 1.03 })
+	first := func(ctx context.Context, res *synth.Result) (*Report, error) {
+		rep, err := solve(ctx, res)
+		cancel()
+		return rep, err
+	}
+	if _, err := Centre(ctx, demoInput(t), CentreOptions{Solver: first}); !errors.Is(err, context.Canceled) {
+		t.Errorf("cancelled after run 1: err = %v, want context.Canceled", err)
 	}
 	var me *fdtd.MemoryError
 	_, err = Centre(context.Background(), demoInput(t), CentreOptions{Solve: fdtd.Options{Mesh: fdtd.Coarse.Params(), MemoryLimit: 1 << 20}})
