@@ -42,10 +42,10 @@ func Files(res *synth.Result, opt FileOptions) []Artefact {
 	files := []Artefact{
 		{"report.json", func(w io.Writer) error { return WriteReport(w, rep) }},
 		{"network.s2p", func(w io.Writer) error {
-			return WriteTouchstone(w, NetworkTouchstone(res), TouchstoneComments(res, opt.Version, "the matching network: port 1 the source side, port 2 the load port"))
+			return writeTouchstone(w, networkRecords(res), TouchstoneComments(res, opt.Version, "the matching network: port 1 the source side, port 2 the load port"))
 		}},
 		{"matched.s1p", func(w io.Writer) error {
-			return WriteTouchstone(w, InputTouchstone(res), TouchstoneComments(res, opt.Version, "the input of the matched load"))
+			return writeTouchstone(w, inputRecords(res), TouchstoneComments(res, opt.Version, "the input of the matched load"))
 		}},
 	}
 	fabFrom := len(files) // the fab archive holds the files from here to the notes
@@ -126,6 +126,28 @@ func NetworkTouchstone(res *synth.Result) *physical.Touchstone {
 		t.S = append(t.S, []complex128{s[0][0], s[0][1], s[1][0], s[1][1]})
 	}
 	return t
+}
+
+// networkRecords are NetworkTouchstone's records read straight from the
+// sweep: a long sweep is not copied before it is written.
+func networkRecords(res *synth.Result) touchRecords {
+	sw := res.Sweep
+	return touchRecords{ports: 2, z0: res.Design.Z0, freqs: sw.Freqs, n: len(sw.Network),
+		row: func(k int, dst []complex128) []complex128 {
+			s := sw.Network[k]
+			dst[0], dst[1], dst[2], dst[3] = s[0][0], s[0][1], s[1][0], s[1][1]
+			return dst
+		}}
+}
+
+// inputRecords are InputTouchstone's records read straight from the sweep.
+func inputRecords(res *synth.Result) touchRecords {
+	sw := res.Sweep
+	return touchRecords{ports: 1, z0: res.Design.Z0, freqs: sw.Freqs, n: len(sw.S11),
+		row: func(k int, dst []complex128) []complex128 {
+			dst[0] = sw.S11[k]
+			return dst
+		}}
 }
 
 // InputTouchstone returns the input of the matched load as a one-port

@@ -20,6 +20,26 @@ import (
 // written in the shortest form that reads back to the same float64, so a
 // file read with physical.ReadTouchstone gives t back exactly.
 func WriteTouchstone(w io.Writer, t *physical.Touchstone, comments []string) error {
+	if t == nil {
+		return fmt.Errorf("touchstone: no network")
+	}
+	return writeTouchstone(w, touchRecords{ports: t.Ports, z0: t.Z0, freqs: t.Freqs, n: len(t.S),
+		row: func(k int, _ []complex128) []complex128 { return t.S[k] }}, comments)
+}
+
+// touchRecords is what a Touchstone file holds: n matrices of ports²
+// values at freqs, row k written into (or returned instead of) dst, so
+// that a caller can write a sweep without copying it first.
+type touchRecords struct {
+	ports int
+	z0    float64
+	freqs []float64
+	n     int
+	row   func(k int, dst []complex128) []complex128
+}
+
+// writeTouchstone is WriteTouchstone on records.
+func writeTouchstone(w io.Writer, t touchRecords, comments []string) error {
 	if err := checkTouchstone(t); err != nil {
 		return fmt.Errorf("touchstone: %w", err)
 	}
@@ -29,13 +49,14 @@ func WriteTouchstone(w io.Writer, t *physical.Touchstone, comments []string) err
 			bw.WriteString("! " + strings.TrimRight(line, "\r") + "\n")
 		}
 	}
-	fmt.Fprintf(bw, "# Hz S RI R %s\n", touchNum(t.Z0))
-	n := t.Ports
+	fmt.Fprintf(bw, "# Hz S RI R %s\n", touchNum(t.z0))
+	n := t.ports
 	// One record at a time into line, with strconv.AppendFloat: no string
 	// per number.
 	var line []byte
-	for k, f := range t.Freqs {
-		s := t.S[k]
+	buf := make([]complex128, n*n)
+	for k, f := range t.freqs {
+		s := t.row(k, buf)
 		line = strconv.AppendFloat(line[:0], f, 'f', -1, 64) // plain Hz, shortest exact
 		switch n {
 		case 1:
@@ -63,27 +84,26 @@ func WriteTouchstone(w io.Writer, t *physical.Touchstone, comments []string) err
 }
 
 // checkTouchstone rejects a value that would not make a readable file.
-func checkTouchstone(t *physical.Touchstone) error {
-	if t == nil {
-		return fmt.Errorf("no network")
+func checkTouchstone(t touchRecords) error {
+	if t.ports < 1 {
+		return fmt.Errorf("port count %d, need at least 1", t.ports)
 	}
-	if t.Ports < 1 {
-		return fmt.Errorf("port count %d, need at least 1", t.Ports)
+	if !(t.z0 > 0) || math.IsInf(t.z0, 0) {
+		return fmt.Errorf("reference impedance %g ohm, need a positive finite value", t.z0)
 	}
-	if !(t.Z0 > 0) || math.IsInf(t.Z0, 0) {
-		return fmt.Errorf("reference impedance %g ohm, need a positive finite value", t.Z0)
+	if len(t.freqs) == 0 || len(t.freqs) != t.n {
+		return fmt.Errorf("%d frequencies and %d matrices, need as many and at least one", len(t.freqs), t.n)
 	}
-	if len(t.Freqs) == 0 || len(t.Freqs) != len(t.S) {
-		return fmt.Errorf("%d frequencies and %d matrices, need as many and at least one", len(t.Freqs), len(t.S))
-	}
-	for k, f := range t.Freqs {
-		if math.IsNaN(f) || math.IsInf(f, 0) || f < 0 || (k > 0 && !(f > t.Freqs[k-1])) {
+	buf := make([]complex128, t.ports*t.ports)
+	for k, f := range t.freqs {
+		if math.IsNaN(f) || math.IsInf(f, 0) || f < 0 || (k > 0 && !(f > t.freqs[k-1])) {
 			return fmt.Errorf("frequency %d (%g Hz) is not finite, non-negative and increasing", k, f)
 		}
-		if len(t.S[k]) != t.Ports*t.Ports {
-			return fmt.Errorf("frequency %d has %d S values, want %d", k, len(t.S[k]), t.Ports*t.Ports)
+		s := t.row(k, buf)
+		if len(s) != t.ports*t.ports {
+			return fmt.Errorf("frequency %d has %d S values, want %d", k, len(s), t.ports*t.ports)
 		}
-		for _, v := range t.S[k] {
+		for _, v := range s {
 			if math.IsNaN(real(v)) || math.IsNaN(imag(v)) || math.IsInf(real(v), 0) || math.IsInf(imag(v), 0) {
 				return fmt.Errorf("frequency %d (%g Hz) has a value that is not finite", k, f)
 			}

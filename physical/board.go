@@ -204,7 +204,7 @@ func (s *Sim) ABCD(freq float64) ABCD {
 	for k, m := range s.stubs {
 		stubs[k] = m.At(freq)
 	}
-	return s.abcd(freq, params, stubs, make([]*junction, n))
+	return s.abcd(freq, params, stubs, make([]junction, n))
 }
 
 // lineSweeper is a line model that evaluates many frequencies at once,
@@ -249,7 +249,7 @@ func (s *Sim) abcdRange(freqs []float64, out []ABCD) {
 	stubs := make([][]LineParams, len(s.stubs))
 	params := make([]LineParams, n)
 	stubAt := make([]LineParams, len(s.stubs))
-	juncs := make([]*junction, n)
+	juncs := make([]junction, n)
 	eval := func(m LineModel, block []float64, buf []LineParams) []LineParams {
 		if sw, ok := m.(lineSweeper); ok {
 			return sw.Sweep(block, buf[:0])
@@ -275,15 +275,15 @@ func (s *Sim) abcdRange(freqs []float64, out []ABCD) {
 			for k := range stubAt {
 				stubAt[k] = stubs[k][j]
 			}
-			clear(juncs)
 			out[lo+j] = s.abcd(f, params, stubAt, juncs)
 		}
 	}
 }
 
 // abcd is ABCD at freq with the through lines' properties params and the
-// stubs' stubs; juncs is scratch space of len(params), all nil.
-func (s *Sim) abcd(freq float64, params, stubs []LineParams, juncs []*junction) ABCD {
+// stubs' stubs; juncs is scratch space of len(params), filled where a
+// stub hangs (s.stubAt[i] >= 0).
+func (s *Sim) abcd(freq float64, params, stubs []LineParams, juncs []junction) ABCD {
 	b := s.board
 	n := len(b.Through)
 	// Tee at the boundary after Through[i], if any.
@@ -297,13 +297,13 @@ func (s *Sim) abcd(freq float64, params, stubs []LineParams, juncs []*junction) 
 	m := Identity()
 	for i := n - 1; i >= 0; i-- {
 		l := b.Through[i].Length
-		if juncs[i] != nil {
+		if s.stubAt[i] >= 0 {
 			l -= juncs[i].tee.ThroughShift
 		}
-		if i > 0 && juncs[i-1] != nil {
+		if i > 0 && s.stubAt[i-1] >= 0 {
 			l -= juncs[i-1].tee.ThroughShift
 		}
-		if i < n-1 && juncs[i] != nil {
+		if i < n-1 && s.stubAt[i] >= 0 {
 			m = m.Mul(juncs[i].tee.ThroughWithStub(juncs[i].y))
 		}
 		if s.steps[i] != nil {
@@ -316,7 +316,7 @@ func (s *Sim) abcd(freq float64, params, stubs []LineParams, juncs []*junction) 
 
 // junction evaluates stub k, whose line has properties sp, hung on a
 // through line with properties tp.
-func (s *Sim) junction(k int, tp, sp LineParams, freq float64) *junction {
+func (s *Sim) junction(k int, tp, sp LineParams, freq float64) junction {
 	st := s.board.Stubs[k]
 	// The stub is drawn from the edge of the wider through arm.
 	throughW := max(s.board.Through[st.At].Width, s.board.Through[st.At+1].Width)
@@ -331,7 +331,7 @@ func (s *Sim) junction(k int, tp, sp LineParams, freq float64) *junction {
 		dl, _ := OpenEndExtension(st.Width, s.board.Sub.Height, s.board.Sub.Er, sp.EpsEff, freq)
 		z = InputImpedanceOfLine(sp, l+dl, cmplx.Inf())
 	}
-	return &junction{tee: tee, y: 1 / z}
+	return junction{tee: tee, y: 1 / z}
 }
 
 // ViaToGround returns the impedance from the via pad at the end of a
