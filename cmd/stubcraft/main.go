@@ -7,12 +7,24 @@ import (
 	"fmt"
 	"os"
 	"os/signal"
+	"runtime/debug"
 	"syscall"
 )
 
 func main() {
+	if os.Getenv("GOGC") == "" {
+		// A command's heap is mostly a few large arrays of numbers (a
+		// sweep, a solver grid), cheap to mark: collecting at 50 %
+		// growth instead of Go's 100 % keeps the peak of a 100,001-point
+		// build inside 64 MiB at no CPU cost measured (BenchmarkCommands
+		// and /usr/bin/time user time). GOGC set by the user wins.
+		debug.SetGCPercent(gcPercent)
+	}
 	os.Exit(run())
 }
+
+// gcPercent is the collector's target heap growth, see main.
+const gcPercent = 50
 
 // run executes the command line and returns the exit status: 0, 1 for an
 // error, 130 after SIGINT and 143 after SIGTERM (128 + the signal number,
