@@ -50,12 +50,15 @@ type Result struct {
 	// effective permittivity (from γ) as measured in the run, per frequency.
 	Z0, EpsEff [2][]complex128
 	Zref       float64
-	Cells      int
-	Steps      int // time steps summed over both runs
-	Seconds    float64
-	Dt         float64 // time step, s
-	Grid       *Grid
-	Warnings   []string
+	Cells      int // cells of the board's grid
+	Steps      int // time steps summed over every run, the port-line calibrations included
+	// CellUpdates is cells × steps summed over every run (a calibration
+	// runs on its own, smaller grid).
+	CellUpdates int64
+	Seconds     float64
+	Dt          float64 // time step, s
+	Grid        *Grid
+	Warnings    []string
 }
 
 // ErrNotConverged is returned when a run reached its step limit before the
@@ -136,8 +139,9 @@ func Solve(ctx context.Context, s Structure, o Options) (*Result, error) {
 			lines[1] = lines[0]
 			break
 		}
-		ld, steps, err := calibrate(ctx, s, s.Ports[q].Width, g.EdgeCell, o, q, runs, start)
+		ld, steps, cells, err := calibrate(ctx, s, s.Ports[q].Width, g.EdgeCell, o, q, runs, start)
 		res.Steps += steps
+		res.CellUpdates += int64(steps) * int64(cells)
 		if err != nil {
 			return nil, err
 		}
@@ -147,6 +151,7 @@ func Solve(ctx context.Context, s Structure, o Options) (*Result, error) {
 	for run := 0; run < 2; run++ {
 		r, steps, err := runOnce(ctx, g, s, o, run, runs-2+run, runs, start)
 		res.Steps += steps
+		res.CellUpdates += int64(steps) * int64(g.Cells())
 		if err != nil {
 			return nil, err
 		}
@@ -169,7 +174,8 @@ type lineData struct{ gamma, z0 []complex128 }
 // line's ABCD matrix with A = D and AD − BC = 1), and Z0 is V/I averaged
 // over both planes (the line is matched at both ends, so one wave
 // dominates).
-func calibrate(ctx context.Context, s Structure, width int64, edge float64, o Options, q, runs int, start time.Time) (lineData, int, error) {
+// It returns the line data, the run's steps and its grid's cells.
+func calibrate(ctx context.Context, s Structure, width int64, edge float64, o Options, q, runs int, start time.Time) (lineData, int, int, error) {
 	// The two planes are about 0.35 of the shortest guided wavelength apart
 	// (taken with εr, so shorter than the truth): long enough that the
 	// near fields of the source leave cosh(γL) alone, short enough that γL
@@ -184,11 +190,11 @@ func calibrate(ctx context.Context, s Structure, width int64, edge float64, o Op
 		Ports:  [2]Port{{Side: Left, Y: 0, Width: width}, {Side: Right, Y: 0, Width: width}}}
 	g, err := newGrid(c, o.Mesh, edge)
 	if err != nil {
-		return lineData{}, 0, err
+		return lineData{}, 0, 0, err
 	}
 	rec, steps, err := runOnce(ctx, g, c, o, 0, q, runs, start)
 	if err != nil {
-		return lineData{}, steps, err
+		return lineData{}, steps, g.Cells(), err
 	}
 	nf := len(s.Freqs)
 	ld := lineData{gamma: make([]complex128, nf), z0: make([]complex128, nf)}
@@ -226,7 +232,7 @@ func calibrate(ctx context.Context, s Structure, width int64, edge float64, o Op
 		}
 		ld.gamma[f], ld.z0[f] = g, z
 	}
-	return ld, steps, nil
+	return ld, steps, g.Cells(), nil
 }
 
 // runOnce drives port p and records every port's probes.

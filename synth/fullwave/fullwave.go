@@ -121,6 +121,7 @@ type Report struct {
 	CircuitMatched []complex128       // the circuit model's S11 with the load
 	Zref           float64            // ohm
 	MatchedF0      complex128         // full-wave S11 with the load at f0, interpolated as S11DBF0
+	CellUpdates    int64              // cells × steps summed over the solver's runs (Verify only)
 	Summary
 }
 
@@ -157,6 +158,7 @@ func Verify(ctx context.Context, res *synth.Result, o fdtd.Options) (*Report, er
 		return nil, err
 	}
 	rep.Zref, rep.Cells, rep.Steps, rep.Seconds = r.Zref, r.Cells, r.Steps, r.Seconds
+	rep.CellUpdates = r.CellUpdates
 	rep.Notes = append(append([]string(nil), r.Warnings...), rep.Notes...)
 	return rep, nil
 }
