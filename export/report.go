@@ -58,13 +58,13 @@ type ReportBand struct {
 	WorstS11DB float64  `json:"worst_s11_db"`
 	// BodeFanoS11DB is the Bode-Fano limit of the fitted load, null unless
 	// BodeFanoStatus is "quoted": "below_floor" (a limit below −60 dB, no
-	// practical limit), "poor_fit" (no two-element circuit fits the load
+	// practical limit), "poor_fit" (no RC, RL or RLC circuit fits the load
 	// within 5 %, no limit quoted) or "no_reactance" (nothing limits the
 	// match). BodeFanoNote says the same in words.
 	BodeFanoS11DB  *float64 `json:"bode_fano_s11_db"`
 	BodeFanoStatus string   `json:"bode_fano_status"`
 	BodeFanoNote   string   `json:"bode_fano_note"`
-	// LoadFit describes the two-element fit; LoadFitCircuit names it
+	// LoadFit describes the load fit; LoadFitCircuit names it
 	// ("series RC", …, "resistance", or "" when none fits) and
 	// LoadFitMisfitPct is its worst misfit across the band, % of |Z|.
 	LoadFit          string            `json:"load_fit"`

@@ -8,16 +8,21 @@ import (
 	"stubcraft/physical/units"
 )
 
-// Circuit is a two-element load model: a resistance with a capacitance or
-// an inductance, in series or in parallel.
+// Circuit is a load model: a resistance with a capacitance, an inductance
+// or both, all in series or all in parallel.
 type Circuit int
 
-// The load models the Bode-Fano limit is known for in closed form.
+// The load models the Bode-Fano limit is known for in closed form. The
+// three-element ones are a resonance (an antenna near it): each reactive
+// element brings its own constraint of the two-element circuit it shares
+// with R, and both hold.
 const (
 	SeriesRC Circuit = iota + 1
 	ParallelRC
 	SeriesRL
 	ParallelRL
+	SeriesRLC
+	ParallelRLC
 )
 
 // String names the circuit as the report writes it.
@@ -31,12 +36,16 @@ func (c Circuit) String() string {
 		return "series RL"
 	case ParallelRL:
 		return "parallel RL"
+	case SeriesRLC:
+		return "series RLC"
+	case ParallelRLC:
+		return "parallel RLC"
 	}
 	return "Circuit(" + strconv.Itoa(int(c)) + ")"
 }
 
-// RLC is a two-element load: R with C (farad) or L (henry), in series or
-// in parallel as Circuit says. The unused element is zero.
+// RLC is a load model: R with C (farad), L (henry) or both, in series or
+// in parallel as Circuit says. An unused element is zero.
 type RLC struct {
 	Circuit Circuit
 	R, C, L float64 // ohm, F, H
@@ -55,6 +64,10 @@ func (m RLC) Impedance(freq float64) (complex128, error) {
 		return 1 / (1/r + complex(0, w*m.C)), nil
 	case ParallelRL:
 		return 1 / (1/r + complex(0, -1/(w*m.L))), nil
+	case SeriesRLC:
+		return r + complex(0, w*m.L-1/(w*m.C)), nil
+	case ParallelRLC:
+		return 1 / (1/r + complex(0, w*m.C-1/(w*m.L))), nil
 	}
 	return 0, fmt.Errorf("unknown load circuit %v", m.Circuit)
 }
@@ -82,36 +95,59 @@ func (m RLC) BodeFanoS11DB(f1, f2 float64) float64 {
 	return -20 / math.Ln10 * m.bodeFanoExponent(f1, f2)
 }
 
-// bodeFanoExponent returns a with Γm = exp(−a): Fano's bound divided by
-// the band's width in ω (or in 1/ω for the weighted forms).
+// bodeFanoExponent returns a with Γm = exp(−a): each of Fano's bounds
+// divided by the band's width in ω (or in 1/ω for the weighted forms), the
+// smaller where two apply (a three-element load).
 func (m RLC) bodeFanoExponent(f1, f2 float64) float64 {
 	w1, w2 := 2*math.Pi*f1, 2*math.Pi*f2
-	bound, weighted := m.FanoIntegral()
-	if weighted {
-		return bound / (1/w1 - 1/w2)
-	}
-	return bound / (w2 - w1)
+	plain, weighted := m.FanoBounds()
+	return math.Min(plain/(w2-w1), weighted/(1/w1-1/w2))
 }
 
-// FanoIntegral returns the bound of Fano's integral for this load: π/(RC)
-// or πR/L for the ∫ ln(1/|Γ|) dω forms (rad/s), πRC or πL/R for the
-// ∫ ω⁻² ln(1/|Γ|) dω forms (s); weighted says which form applies.
-func (m RLC) FanoIntegral() (bound float64, weighted bool) {
+// FanoBounds returns the bounds of both of Fano's integrals for this load:
+// plain, of ∫ ln(1/|Γ|) dω (rad/s), and weighted, of ∫ ω⁻² ln(1/|Γ|) dω
+// (s); +Inf where the load sets none. A series L bounds the plain integral
+// by πR/L and a series C the weighted one by πRC; a parallel C bounds the
+// plain one by π/(RC) and a parallel L the weighted one by πL/R (Fano
+// 1950: one constraint per zero of transmission of the load's reactive
+// part, the series L's at infinite frequency and the series C's at zero;
+// Pozar 4th ed. §5.9, from memory). A series RLC thus carries the bounds of
+// its RL and its RC.
+func (m RLC) FanoBounds() (plain, weighted float64) {
+	plain, weighted = math.Inf(1), math.Inf(1)
 	switch m.Circuit {
 	case ParallelRC:
-		return math.Pi / (m.R * m.C), false
+		plain = math.Pi / (m.R * m.C)
 	case SeriesRL:
-		return math.Pi * m.R / m.L, false
+		plain = math.Pi * m.R / m.L
 	case SeriesRC:
-		return math.Pi * m.R * m.C, true
+		weighted = math.Pi * m.R * m.C
 	case ParallelRL:
-		return math.Pi * m.L / m.R, true
+		weighted = math.Pi * m.L / m.R
+	case SeriesRLC:
+		plain, weighted = math.Pi*m.R/m.L, math.Pi*m.R*m.C
+	case ParallelRLC:
+		plain, weighted = math.Pi/(m.R*m.C), math.Pi*m.L/m.R
+	default:
+		return math.NaN(), math.NaN()
 	}
-	return math.NaN(), false
+	return plain, weighted
 }
 
-// LoadFit is a two-element model fitted to a load across a band, and how
-// well it fits.
+// FanoIntegral returns the bound of Fano's integral for a two-element
+// load: π/(RC) or πR/L for the ∫ ln(1/|Γ|) dω forms (rad/s), πRC or πL/R
+// for the ∫ ω⁻² ln(1/|Γ|) dω forms (s); weighted says which form applies.
+// A three-element load has both (FanoBounds); this returns the plain one.
+func (m RLC) FanoIntegral() (bound float64, weighted bool) {
+	plain, w := m.FanoBounds()
+	if math.IsInf(plain, 1) {
+		return w, true
+	}
+	return plain, false
+}
+
+// LoadFit is a two- or three-element model fitted to a load across a
+// band, and how well it fits.
 type LoadFit struct {
 	Model RLC
 	// MaxRelErr is the largest |Z_model − Z_load| / |Z_load| over the
@@ -129,19 +165,21 @@ func (f LoadFit) String() string {
 		return fmt.Sprintf("a resistance of %.4g ohm (no reactance to limit the match)", f.Model.R)
 	}
 	el := fmt.Sprintf("C = %.4g pF", f.Model.C*1e12)
-	if f.Model.Circuit == SeriesRL || f.Model.Circuit == ParallelRL {
+	switch f.Model.Circuit {
+	case SeriesRL, ParallelRL:
 		el = fmt.Sprintf("L = %.4g nH", f.Model.L*1e9)
+	case SeriesRLC, ParallelRLC:
+		el = fmt.Sprintf("L = %.4g nH, C = %.4g pF", f.Model.L*1e9, f.Model.C*1e12)
 	}
 	return fmt.Sprintf("%s, R = %.4g ohm, %s (worst misfit %.2g %% of |Z| across the band)", f.Model.Circuit, f.Model.R, el, 100*f.MaxRelErr)
 }
 
-// MaxFitMisfit is the worst misfit of a two-element fit, as a fraction
-// of |Z| across the band, on which a Bode-Fano limit is still quoted. The
-// limit's exponent is proportional to the fitted reactive element, so a
-// fit within 5 % gives the limit in dB to about as much; a worse fit means
-// the load is not a two-element circuit over the band (a resonance in or
-// near it, as an antenna has), and a limit of the fitted circuit would say
-// nothing about the load (a judgement, no source).
+// MaxFitMisfit is the worst misfit of a load fit, as a fraction of |Z|
+// across the band, on which a Bode-Fano limit is still quoted. The
+// limit's exponent is proportional to a fitted reactive element, so a fit
+// within 5 % gives the limit in dB to about as much; a worse fit means the
+// load is none of the circuits over the band, and a limit of the fitted
+// one would say nothing about the load (a judgement, no source).
 const MaxFitMisfit = 0.05
 
 // BodeFanoFloorDB is the lowest limit printed as a figure: a limit below
@@ -160,8 +198,8 @@ const (
 	LimitQuoted LimitStatus = iota + 1
 	// LimitBelowFloor: a good fit whose limit lies below BodeFanoFloorDB.
 	LimitBelowFloor
-	// LimitPoorFit: no two-element circuit fits the load within
-	// MaxFitMisfit, or none fits at all; no limit is quoted.
+	// LimitPoorFit: no circuit fits the load within MaxFitMisfit, or none
+	// fits at all; no limit is quoted.
 	LimitPoorFit
 	// LimitNoReactance: the load is a resistance across the band; nothing
 	// limits its match.
@@ -184,7 +222,7 @@ func (s LimitStatus) String() string {
 }
 
 // BodeFanoLimit is the Bode-Fano limit of a load over a band as stubcraft
-// reports it: the two-element fit it rests on, and a figure only where the
+// reports it: the load fit it rests on, and a figure only where the
 // fit holds and the figure means something.
 type BodeFanoLimit struct {
 	Fit    LoadFit
@@ -210,7 +248,7 @@ func BodeFanoOf(load Load, f1, f2 float64, n int) BodeFanoLimit {
 		out.Status = LimitNoReactance
 	case !(fit.MaxRelErr <= MaxFitMisfit):
 		out.Status = LimitPoorFit
-		out.Why = fmt.Sprintf("the best two-element fit (%s) misses the load by %.2g %% of |Z| across the band, more than the %g %% a limit can rest on: over this band the load is not a two-element circuit (a resonance in or near the band needs more elements)",
+		out.Why = fmt.Sprintf("the best fit (%s) misses the load by %.2g %% of |Z| across the band, more than the %g %% a limit can rest on: over this band the load is no series or parallel RC, RL or RLC (a reactance that does not rise with frequency, as a fixed impedance over a wide band, is none)",
 			fit.Model.Circuit, 100*fit.MaxRelErr, 100*MaxFitMisfit)
 	default:
 		out.S11DB = fit.Model.BodeFanoS11DB(f1, f2)
@@ -226,7 +264,7 @@ func BodeFanoOf(load Load, f1, f2 float64, n int) BodeFanoLimit {
 // and its misfit, or that no circuit fits.
 func (b BodeFanoLimit) FitText() string {
 	if b.Fit.Model.Circuit == 0 && !b.Fit.Resistive {
-		return "no two-element circuit"
+		return "no RC, RL or RLC circuit"
 	}
 	return b.Fit.String()
 }
@@ -284,10 +322,12 @@ func (b BodeFanoLimit) String() string {
 
 // FitLoad fits each of the four two-element circuits to load at n points
 // across f1…f2 (Hz) by least squares and keeps the one with the smallest
-// worst relative misfit. A series model is fitted on the impedance
-// (R = mean Re Z; X against −1/ω or ω), a parallel one on the admittance
-// (G = mean Re Y; B against ω or −1/ω). A circuit whose fitted element is
-// not positive is not considered.
+// worst relative misfit; a series or parallel RLC replaces it only when it
+// fits at least twice as well (fewer elements, fewer assumptions: a
+// judgement, no source). A series model is fitted on the impedance
+// (R = mean Re Z; X against −1/ω, ω or both), a parallel one on the
+// admittance (G = mean Re Y; B against ω, −1/ω or both). A circuit whose
+// fitted elements are not all positive is not considered.
 func FitLoad(load Load, f1, f2 float64, n int) (LoadFit, error) {
 	if n < 2 {
 		n = 2
@@ -321,7 +361,7 @@ func FitLoad(load Load, f1, f2 float64, n int) (LoadFit, error) {
 	}
 	var best LoadFit
 	found := false
-	for _, c := range []Circuit{SeriesRC, ParallelRC, SeriesRL, ParallelRL} {
+	for _, c := range []Circuit{SeriesRC, ParallelRC, SeriesRL, ParallelRL, SeriesRLC, ParallelRLC} {
 		m, ok := fitCircuit(c, fs, zs)
 		if !ok {
 			continue
@@ -331,23 +371,31 @@ func FitLoad(load Load, f1, f2 float64, n int) (LoadFit, error) {
 			zm, _ := m.Impedance(f)
 			worst = math.Max(worst, cmplx.Abs(zm-zs[i])/cmplx.Abs(zs[i]))
 		}
-		if !found || worst < best.MaxRelErr {
+		better := worst < best.MaxRelErr
+		if c == SeriesRLC || c == ParallelRLC {
+			better = worst < best.MaxRelErr/2
+		}
+		if !found || better {
 			best, found = LoadFit{Model: m, MaxRelErr: worst}, true
 		}
 	}
 	if !found {
-		return LoadFit{}, fmt.Errorf("fitting the load: no two-element circuit fits")
+		return LoadFit{}, fmt.Errorf("fitting the load: no RC, RL or RLC circuit fits")
 	}
 	return best, nil
 }
 
-// fitCircuit fits circuit c to the samples; ok is false when the reactive
-// element comes out not positive.
+// fitCircuit fits circuit c to the samples by least squares on the
+// reactive part; ok is false when a reactive element comes out not
+// positive.
 func fitCircuit(c Circuit, fs []float64, zs []complex128) (RLC, bool) {
-	series := c == SeriesRC || c == SeriesRL
-	// v is the fitted quantity (Z for series, Y for parallel); the
-	// imaginary part is k·basis(ω).
-	var sumRe, num, den float64
+	series := c == SeriesRC || c == SeriesRL || c == SeriesRLC
+	// v is the fitted quantity (Z for series, Y for parallel); its
+	// imaginary part is a·ω − b/ω, with a or b held at zero for a
+	// two-element circuit. Normal equations of the two bases.
+	useA := c != SeriesRC && c != ParallelRL
+	useB := c != SeriesRL && c != ParallelRC
+	var sumRe, saa, sab, sbb, sya, syb float64
 	for i, f := range fs {
 		w := 2 * math.Pi * f
 		v := zs[i]
@@ -355,31 +403,50 @@ func fitCircuit(c Circuit, fs []float64, zs []complex128) (RLC, bool) {
 			v = 1 / v
 		}
 		sumRe += real(v)
-		var basis float64
-		switch c {
-		case SeriesRC, ParallelRL:
-			basis = -1 / w // X = −1/(ωC) or B = −1/(ωL)
-		case SeriesRL, ParallelRC:
-			basis = w // X = ωL or B = ωC
-		}
-		num += imag(v) * basis
-		den += basis * basis
+		ba, bb := w, -1/w
+		saa += ba * ba
+		sab += ba * bb
+		sbb += bb * bb
+		sya += imag(v) * ba
+		syb += imag(v) * bb
 	}
-	k := num / den
+	var a, b float64
+	switch {
+	case useA && useB:
+		det := saa*sbb - sab*sab
+		if !(det > 0) {
+			return RLC{}, false
+		}
+		a, b = (sya*sbb-syb*sab)/det, (syb*saa-sya*sab)/det
+	case useA:
+		a = sya / saa
+	default:
+		b = syb / sbb
+	}
 	re := sumRe / float64(len(fs))
-	if !(k > 0) || !(re > 0) {
+	if (useA && !(a > 0)) || (useB && !(b > 0)) || !(re > 0) {
 		return RLC{}, false
 	}
-	m := RLC{Circuit: c}
-	switch c {
-	case SeriesRC:
-		m.R, m.C = re, 1/k
-	case SeriesRL:
-		m.R, m.L = re, k
-	case ParallelRC:
-		m.R, m.C = 1/re, k
-	case ParallelRL:
-		m.R, m.L = 1/re, 1/k
+	m := RLC{Circuit: c, R: re}
+	if !series {
+		m.R = 1 / re
+	}
+	// Series: X = ωL − 1/(ωC), a = L, b = 1/C. Parallel: B = ωC − 1/(ωL),
+	// a = C, b = 1/L.
+	if series {
+		if useA {
+			m.L = a
+		}
+		if useB {
+			m.C = 1 / b
+		}
+	} else {
+		if useA {
+			m.C = a
+		}
+		if useB {
+			m.L = 1 / b
+		}
 	}
 	return m, true
 }
