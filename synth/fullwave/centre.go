@@ -82,9 +82,11 @@ type Centring struct {
 // or after MaxRuns runs, and keeps the layout of the converged run or, if
 // none converged, of the run nearest f0, saying so in a warning.
 //
-// Every check of synth.Build applies to every layout, and the kept layout
-// is refused with a *synth.MismatchError when its full-wave |S11| at f0 is
-// above synth.MismatchLimitDB (unless in.AcceptMismatch). A band match is
+// Every check of synth.Build applies to every layout but one: a mapped
+// model is aimed off by the residual, so its own |S11| at f0 is not
+// checked; instead the kept layout is refused with a *synth.MismatchError
+// when its full-wave |S11| at f0 is above synth.MismatchLimitDB (unless
+// in.AcceptMismatch). A band match is
 // refused (synth.ErrFullwaveMapBand). The tolerance analysis runs once, on
 // the kept layout.
 func Centre(ctx context.Context, in synth.BuildInput, o CentreOptions) (*Centring, error) {
@@ -105,10 +107,12 @@ func Centre(ctx context.Context, in synth.BuildInput, o CentreOptions) (*Centrin
 	rec := &synth.FullwaveCentring{Mesh: o.Mesh, Tolerance: o.Tolerance, MaxRuns: o.MaxRuns}
 	var reports []*Report
 	mapping := in.FullwaveMap
-	skip := in.SkipTolerance
+	skip, accept := in.SkipTolerance, in.AcceptMismatch
 	in.SkipTolerance = true
 	for run := 1; run <= o.MaxRuns; run++ {
-		in.FullwaveMap = mapping
+		// A mapped model is aimed off by the residual, so its own |S11|
+		// at f0 is no test of the copper: the full-wave one is, below.
+		in.FullwaveMap, in.AcceptMismatch = mapping, accept || mapping != nil
 		res, err := synth.Build(ctx, in)
 		if err != nil {
 			if run > 1 {
@@ -155,7 +159,7 @@ func Centre(ctx context.Context, in synth.BuildInput, o CentreOptions) (*Centrin
 		}
 	}
 	kept := rec.Runs[rec.Kept]
-	in.FullwaveMap, in.SkipTolerance = kept.Map, skip
+	in.FullwaveMap, in.SkipTolerance, in.AcceptMismatch = kept.Map, skip, accept || kept.Map != nil
 	res, err := synth.Build(ctx, in)
 	if err != nil {
 		return nil, fmt.Errorf("full-wave centring, the final build: %w", err)
@@ -166,7 +170,7 @@ func Centre(ctx context.Context, in synth.BuildInput, o CentreOptions) (*Centrin
 		}
 	}
 	rep := reports[rec.Kept]
-	if rep.S11DBF0 > synth.MismatchLimitDB && !in.AcceptMismatch {
+	if rep.S11DBF0 > synth.MismatchLimitDB && !accept {
 		return nil, in.Design.KeyError("", fmt.Errorf("full-wave centring, run %d (%s mesh): %w", rec.Kept+1, o.Mesh,
 			&synth.MismatchError{FreqHz: f0, S11DB: rep.S11DBF0, LossDB: res.LossF0DB,
 				ElectricalGamma: cmplx.Abs(physical.Reflection(synth.SectionsInput(res.Sections, res.LoadF0), res.Design.Z0))}))

@@ -306,3 +306,35 @@ func TestCentreCoarseFDTD(t *testing.T) {
 		t.Errorf("kept layout's full-wave best match %.4f GHz (%+.2f %%), want within 0.3 %% of f0 (grid step %.2f MHz)", best/1e9, 100*(best/f0-1), step/1e6)
 	}
 }
+
+// TestCentreRefusesFullwaveMismatch: when the kept layout's full-wave
+// |S11| at f0 is above −10 dB the centring refuses it like Build refuses
+// a circuit mismatch, unless AcceptMismatch. The stand-in full-wave is a
+// network that reflects half the wave at every frequency (−6 dB with any
+// load).
+func TestCentreRefusesFullwaveMismatch(t *testing.T) {
+	half := func(ctx context.Context, res *synth.Result) (*Report, error) {
+		s := make([][2][2]complex128, len(res.Sweep.Freqs))
+		for k := range s {
+			s[k] = [2][2]complex128{{0.5, 0}, {0, 0.5}}
+		}
+		return Compare(res, s)
+	}
+	var mm *synth.MismatchError
+	_, err := Centre(context.Background(), demoInput(t), CentreOptions{Solver: half})
+	if !errors.As(err, &mm) {
+		t.Fatalf("err = %v, want a *synth.MismatchError", err)
+	}
+	if math.Abs(mm.S11DB-20*math.Log10(0.5)) > 0.01 || math.IsNaN(mm.ElectricalGamma) {
+		t.Errorf("mismatch %+v: want |S11| −6.02 dB and a figure for the electrical network", mm)
+	}
+	in := demoInput(t)
+	in.AcceptMismatch = true
+	c, err := Centre(context.Background(), in, CentreOptions{Solver: half})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Result.FullwaveCentre.Converged {
+		t.Error("converged on a network that matches nothing")
+	}
+}
