@@ -283,7 +283,10 @@ func TestCentreCoarseFDTD(t *testing.T) {
 	for i, r := range rec.Runs {
 		t.Logf("run %d: best match %.4f GHz (%+.2f %%), |S11| at f0 %.1f dB, %d cells, %.1f s", i+1, r.BestMatchHz/1e9, 100*r.Offset(f0), r.S11DBF0, r.Cells, r.Seconds)
 	}
-	if off := rec.Runs[0].Offset(f0); off < 0.015 {
+	// More than three times the tolerance, so that the test proves
+	// something, without tying it to today's models (+1.61 % at 4 % on
+	// 2026-12-04 06:32Z, after the tee and z-cell fixes).
+	if off := rec.Runs[0].Offset(f0); off < 3*DefaultCentreTolerance {
 		t.Errorf("run 1 best match %+.2f %% from f0: the deliberate offset did not show", 100*off)
 	}
 	if !rec.Converged {
