@@ -135,8 +135,14 @@ func newGrid(s Structure, p MeshParams, edge float64) (*Grid, error) {
 	}
 	yfix = append(yfix, ey...)
 	for _, v := range s.Vias {
-		xfix = append(xfix, float64(v.Center.X)*1e-9)
-		yfix = append(yfix, float64(v.Center.Y)*1e-9)
+		cx, cy := float64(v.Center.X)*1e-9, float64(v.Center.Y)*1e-9
+		xfix = append(xfix, cx)
+		yfix = append(yfix, cy)
+		if p.ViaEdges {
+			r := float64(v.Diameter) * 1e-9 / 2
+			xfix = append(xfix, cx-r, cx+r)
+			yfix = append(yfix, cy-r, cy+r)
+		}
 	}
 	ymin, ymax := math.Inf(1), math.Inf(-1)
 	for _, pl := range s.Copper {

@@ -36,6 +36,12 @@ type MeshParams struct {
 	EdgeDivisions  float64 // the edge cell is at most the narrowest strip width / EdgeDivisions
 	Grading        float64 // largest ratio of neighbouring cells
 	PMLCells       int     // cells in each absorbing layer
+	// ViaEdges adds grid lines through each via's edges (x and y at the
+	// centre ± the radius), so that the column is the centre node and the
+	// four at its rim rather than the centre node alone. Off in the mesh
+	// levels, so verify's grids are as before; the via record of
+	// testdata/discontinuities turns it on.
+	ViaEdges bool
 }
 
 // Params returns the level's mesh numbers.
