@@ -85,6 +85,7 @@ func BenchmarkVerifyDemo(b *testing.B) {
 		}
 		updates += float64(rep.CellUpdates)
 		seconds += rep.Seconds
+		b.Logf("best match %.4f GHz, |S11| at f0 %.1f dB; %d cells, %d steps, %.0f s", rep.BestMatchHz/1e9, rep.S11DBF0, rep.Cells, rep.Steps, rep.Seconds)
 	}
 	b.ReportMetric(seconds/float64(b.N), "s/verify")
 	b.ReportMetric(updates/seconds/1e6, "Mcells/s")
