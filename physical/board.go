@@ -4,9 +4,7 @@ import (
 	"fmt"
 	"math"
 	"math/cmplx"
-	"runtime"
 	"slices"
-	"sync"
 )
 
 // LineMaker makes the line model of a strip of the given width on sub.
@@ -226,18 +224,7 @@ func (s *Sim) ABCDSweep(freqs []float64, dst []ABCD) []ABCD {
 	n0 := len(dst)
 	dst = slices.Grow(dst, len(freqs))[:n0+len(freqs)]
 	out := dst[n0:]
-	workers := min(runtime.GOMAXPROCS(0), len(freqs)/sweepChunk)
-	if workers < 2 {
-		s.abcdRange(freqs, out)
-		return dst
-	}
-	var wg sync.WaitGroup
-	per := (len(freqs) + workers - 1) / workers
-	for lo := 0; lo < len(freqs); lo += per {
-		hi := min(lo+per, len(freqs))
-		wg.Go(func() { s.abcdRange(freqs[lo:hi], out[lo:hi]) })
-	}
-	wg.Wait()
+	inRanges(len(freqs), func(lo, hi int) { s.abcdRange(freqs[lo:hi], out[lo:hi]) })
 	return dst
 }
 

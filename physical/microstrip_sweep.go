@@ -17,23 +17,25 @@ func (m *MicrostripModel) Sweep(freqs []float64, dst []LineParams) []LineParams 
 	n0 := len(dst)
 	dst = growParams(dst, len(freqs))
 	out := dst[n0:]
-	workers := min(runtime.GOMAXPROCS(0), len(freqs)/sweepChunk)
+	inRanges(len(freqs), func(lo, hi int) { m.sweepInto(freqs[lo:hi], out[lo:hi]) })
+	return dst
+}
+
+// inRanges calls f on consecutive ranges [lo, hi) covering 0..n: one
+// range when n is short, else one per processor (at most), each at least
+// sweepChunk long, at once.
+func inRanges(n int, f func(lo, hi int)) {
+	workers := min(runtime.GOMAXPROCS(0), n/sweepChunk)
 	if workers < 2 {
-		m.sweepInto(freqs, out)
-		return dst
+		f(0, n)
+		return
 	}
 	var wg sync.WaitGroup
-	per := (len(freqs) + workers - 1) / workers
-	for lo := 0; lo < len(freqs); lo += per {
-		hi := min(lo+per, len(freqs))
-		wg.Add(1)
-		go func(f []float64, o []LineParams) {
-			defer wg.Done()
-			m.sweepInto(f, o)
-		}(freqs[lo:hi], out[lo:hi])
+	per := (n + workers - 1) / workers
+	for lo := 0; lo < n; lo += per {
+		wg.Go(func() { f(lo, min(lo+per, n)) })
 	}
 	wg.Wait()
-	return dst
 }
 
 // sweepInto writes At(freqs[i]) into out[i], a block at a time.

@@ -285,51 +285,41 @@ func TestWidthMappedSearch(t *testing.T) {
 }
 
 func TestWidthMappedFieldSolver(t *testing.T) {
-	// The masked FR-4 preset at 2.45 GHz: the field solver's width search
-	// must settle in at most three solves with Z0 within 0.005 % of the
-	// target (a hundredth of the solver's 0.5 %), where the bracketing
-	// search took six to eight.
-	st, ok := stackups.Preset("fr4-1.6mm-masked")
-	if !ok {
-		t.Fatal("no fr4-1.6mm-masked preset")
-	}
-	sub, _ := SubstrateAt(st, 2.45*GHz)
-	for _, z0 := range []float64{50, 100} {
-		cache := NewSolverCache()
-		r, err := WidthWith(LineMakerFor(context.Background(), st, cache), sub, z0, 2.45*GHz)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if relErr(r.Params.Z0, z0) > mappedAccuracy*0.005 {
-			t.Errorf("%g Ω: Z0 %.6f", z0, r.Params.Z0)
-		}
-		if cache.Len() > 3 {
-			t.Errorf("%g Ω: %d solves, want at most 3", z0, cache.Len())
-		}
-	}
-}
-
-func TestWidthMappedGCPW(t *testing.T) {
-	// The grounded coplanar example stackup at 5.8 GHz: after the first
-	// solve the search maps with the conformal GCPW, and settles in at
-	// most three solves with Z0 within a hundredth of the solver's 0.5 %
-	// (the microstrip map took four for 50 Ω).
-	st, err := stackups.Load(filepath.Join("..", "testdata", "stackups", "gcpw-hydrocarbon.toml"))
+	// The field solver's width search must settle in at most three solves
+	// with Z0 within 0.005 % of the target (a hundredth of the solver's
+	// 0.5 %), where the bracketing search took six to eight: on the masked
+	// FR-4 preset with the microstrip map, and on the grounded coplanar
+	// example stackup, where after the first solve the map is the
+	// conformal GCPW (the microstrip map took four solves for 50 Ω).
+	gcpw, err := stackups.Load(filepath.Join("..", "testdata", "stackups", "gcpw-hydrocarbon.toml"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	sub, _ := SubstrateAt(st, 5.8*GHz)
-	for _, z0 := range []float64{35, 50, 70} {
-		cache := NewSolverCache()
-		r, err := WidthWith(LineMakerFor(context.Background(), st, cache), sub, z0, 5.8*GHz)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if relErr(r.Params.Z0, z0) > mappedAccuracy*0.005 {
-			t.Errorf("%g Ω: Z0 %.6f", z0, r.Params.Z0)
-		}
-		if cache.Len() > 3 {
-			t.Errorf("%g Ω: %d solves, want at most 3", z0, cache.Len())
+	masked, ok := stackups.Preset("fr4-1.6mm-masked")
+	if !ok {
+		t.Fatal("no fr4-1.6mm-masked preset")
+	}
+	for _, tc := range []struct {
+		st   stackups.Stackup
+		freq float64
+		z0s  []float64
+	}{
+		{masked, 2.45 * GHz, []float64{50, 100}},
+		{gcpw, 5.8 * GHz, []float64{35, 50, 70}},
+	} {
+		sub, _ := SubstrateAt(tc.st, tc.freq)
+		for _, z0 := range tc.z0s {
+			cache := NewSolverCache()
+			r, err := WidthWith(LineMakerFor(context.Background(), tc.st, cache), sub, z0, tc.freq)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if relErr(r.Params.Z0, z0) > mappedAccuracy*0.005 {
+				t.Errorf("%s, %g Ω: Z0 %.6f", tc.st.Name, z0, r.Params.Z0)
+			}
+			if cache.Len() > 3 {
+				t.Errorf("%s, %g Ω: %d solves, want at most 3", tc.st.Name, z0, cache.Len())
+			}
 		}
 	}
 }
