@@ -90,6 +90,7 @@ match is not centred. Each run takes as long as verify on that mesh.
 						return fmt.Errorf("--%s sets the full-wave solve of --fullwave-centre; give --fullwave-centre too, or leave --%s out", name, name)
 					}
 				}
+				limitBuildMemory()
 			}
 			in, err := loadDesign(path, stackupArg)
 			if err != nil {

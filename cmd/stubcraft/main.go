@@ -12,19 +12,24 @@ import (
 )
 
 func main() {
-	if os.Getenv("GOGC") == "" {
-		// A command's heap is mostly a few large arrays of numbers (a
-		// sweep, a solver grid), cheap to mark: collecting at 50 %
-		// growth instead of Go's 100 % keeps the peak of a 100,001-point
-		// build inside 64 MiB at no CPU cost measured (BenchmarkCommands
-		// and /usr/bin/time user time). GOGC set by the user wins.
-		debug.SetGCPercent(gcPercent)
-	}
 	os.Exit(run())
 }
 
-// gcPercent is the collector's target heap growth, see main.
-const gcPercent = 50
+// buildMemoryLimit is the soft memory limit of a build without a
+// full-wave solve (runtime/debug.SetMemoryLimit): the collector works
+// harder only when the heap nears it, which a long sweep does (a
+// 100,001-point build peaked at 63-69 MiB RSS without it, 50-53 MiB with
+// it, at the same CPU time), and a usual build never does. A global
+// GOGC=50 did the same for the long sweep but cost the field-solver
+// commands 20-30 % more CPU. GOMEMLIMIT set by the user wins.
+const buildMemoryLimit = 40 << 20
+
+// limitBuildMemory sets buildMemoryLimit unless GOMEMLIMIT is set.
+func limitBuildMemory() {
+	if os.Getenv("GOMEMLIMIT") == "" {
+		debug.SetMemoryLimit(buildMemoryLimit)
+	}
+}
 
 // run executes the command line and returns the exit status: 0, 1 for an
 // error, 130 after SIGINT and 143 after SIGTERM (128 + the signal number,
