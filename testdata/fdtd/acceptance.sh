@@ -4,21 +4,25 @@
 # records the figures in acceptance.tsv with the command and the date.
 # Issue 11's criterion: full-wave best match within 1 % of f0 and |S11| at
 # f0 ≤ −20 dB, from the corrected layout as built.
-# Usage: testdata/fdtd/acceptance.sh   (from the repository root; slow)
+# Usage: testdata/fdtd/acceptance.sh [design ...]   (from the repository root; slow)
+#   Designs are demo or names under testdata/designs (default: all);
+#   OUT=file writes there instead of acceptance.tsv.
 set -euo pipefail
 cd "$(dirname "$0")/../.."
 mesh=${MESH:-normal}
 bin=$(mktemp -d)/stubcraft
 go build -o "$bin" ./cmd/stubcraft
-out=testdata/fdtd/acceptance.tsv
+out=${OUT:-testdata/fdtd/acceptance.tsv}
 tmp=$(mktemp)
 {
-  echo "# made by: MESH=$mesh testdata/fdtd/acceptance.sh ($(git rev-parse --short HEAD)), $(date -u +%Y-%m-%dT%H:%MZ)"
+  echo "# made by: MESH=$mesh testdata/fdtd/acceptance.sh $* ($(git rev-parse --short HEAD)), $(date -u +%Y-%m-%dT%H:%MZ)"
   printf 'design\tf0_hz\tcircuit_s11_db_f0\tcircuit_best_match_hz\tfullwave_s11_db_f0\tfullwave_best_match_hz\tmax_s_difference\tcells\tsteps\tseconds\n'
 } > "$tmp"
-designs=(demo)
-for d in compact-bent-stub double-stub-sections gcpw-probe minimal sensor-antenna-by-hand sensor-antenna-sections sensor-antenna touchstone-load trim-allowance; do
-  designs+=("testdata/designs/$d.toml")
+names=("$@")
+[ ${#names[@]} -gt 0 ] || names=(demo compact-bent-stub double-stub-sections gcpw-probe minimal sensor-antenna-by-hand sensor-antenna-sections sensor-antenna touchstone-load trim-allowance)
+designs=()
+for d in "${names[@]}"; do
+  if [ "$d" = demo ]; then designs+=(demo); else designs+=("testdata/designs/$d.toml"); fi
 done
 for d in "${designs[@]}"; do
   dir=$(mktemp -d)/fw

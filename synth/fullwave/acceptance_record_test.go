@@ -1,0 +1,99 @@
+package fullwave
+
+import (
+	"bufio"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// acceptanceGaps are the designs known to miss issue 11 §5, each with its
+// recorded figure and what is known of the cause (DEVELOPERS.md). They are
+// logged, not held; one that meets the criteria when re-recorded fails the
+// test, so that the list cannot go stale.
+var acceptanceGaps = map[string]string{
+	"compact-bent-stub": "best match +2.09 %: the mitred bend's length model, not the tee (the fitted tee moves it by −0.2 %)",
+	"gcpw-probe":        "best match −15 %, |S11| at f0 −7.0 dB, max |ΔS| 1.17: the full-wave model of a coplanar board with solder mask is in doubt",
+}
+
+// TestRecordedAcceptance holds testdata/fdtd/acceptance.tsv (written by
+// testdata/fdtd/acceptance.sh, `stubcraft verify --mesh normal` on the
+// layout as built) to issue 11 §5: the full-wave best match within 1 % of
+// f0 and the full-wave |S11| at f0 at most −20 dB. Band designs (band-*)
+// are logged only: their match is spread across the band, so the best
+// match is not their criterion.
+func TestRecordedAcceptance(t *testing.T) {
+	f, err := os.Open("../../testdata/fdtd/acceptance.tsv")
+	if err != nil {
+		t.Fatalf("%v (testdata/fdtd/acceptance.sh writes it)", err)
+	}
+	defer f.Close()
+	sc := bufio.NewScanner(f)
+	made, demo := false, false
+	var cols map[string]int
+	for sc.Scan() {
+		line := sc.Text()
+		if strings.HasPrefix(line, "# made by:") {
+			made = true
+		}
+		if line == "" || strings.HasPrefix(line, "#") {
+			continue
+		}
+		c := strings.Split(line, "\t")
+		if cols == nil {
+			cols = map[string]int{}
+			for i, name := range c {
+				cols[name] = i
+			}
+			continue
+		}
+		if len(c) == 2 && strings.HasPrefix(c[1], "failed") {
+			t.Errorf("%s: the recorded verify failed: %s", c[0], c[1])
+			continue
+		}
+		num := func(name string) float64 {
+			i, ok := cols[name]
+			if !ok || i >= len(c) {
+				t.Fatalf("acceptance.tsv: no column %q in %q", name, line)
+			}
+			v, err := strconv.ParseFloat(c[i], 64)
+			if err != nil {
+				t.Fatalf("acceptance.tsv: column %s of %q: %v", name, line, err)
+			}
+			return v
+		}
+		d := c[0]
+		f0, best, s11 := num("f0_hz"), num("fullwave_best_match_hz"), num("fullwave_s11_db_f0")
+		off := 100 * (best/f0 - 1)
+		ok := math.Abs(off) <= 1 && s11 <= -20
+		t.Logf("%s: best match %+.2f %% from f0, |S11| at f0 %.1f dB, max |ΔS| %.3f", d, off, s11, num("max_s_difference"))
+		if d == "demo" {
+			demo = true
+		}
+		if strings.HasPrefix(d, "band-") {
+			continue
+		}
+		if gap, known := acceptanceGaps[d]; known {
+			if ok {
+				t.Errorf("%s meets the criteria now (%+.2f %%, %.1f dB): remove it from acceptanceGaps", d, off, s11)
+			} else {
+				t.Logf("%s: known gap: %s", d, gap)
+			}
+			continue
+		}
+		if !ok {
+			t.Errorf("%s: full-wave best match %+.2f %% from f0 and |S11| at f0 %.1f dB, want within ±1 %% and ≤ −20 dB", d, off, s11)
+		}
+	}
+	if err := sc.Err(); err != nil {
+		t.Fatal(err)
+	}
+	if !made {
+		t.Error("acceptance.tsv has no '# made by:' line with the command and date")
+	}
+	if !demo {
+		t.Error("acceptance.tsv has no row for the demo")
+	}
+}
