@@ -22,6 +22,11 @@ type fullWaveTee struct {
 
 func readTeeRecord(t *testing.T) []fullWaveTee {
 	t.Helper()
+	return readTeeFile(t, teeRecord)
+}
+
+func readTeeFile(t *testing.T, teeRecord string) []fullWaveTee {
+	t.Helper()
 	f, err := os.Open(teeRecord)
 	if err != nil {
 		t.Fatalf("%s: %v (testdata/tee/sweep.sh writes it)", teeRecord, err)
@@ -90,15 +95,7 @@ func teeErrors(t *testing.T, r fullWaveTee) (armDeg, stubDeg float64, p TeeParam
 	k = imag(p.ThroughWithStub(1i)[1][0]) - b
 	armDeg = (p.ThroughShift - r.d1) * pt.Beta() * 180 / math.Pi
 	for _, ideal := range []float64{45, 135} {
-		want := math.Tan(ideal*math.Pi/180) / ps.Z0 // the ideal stub's susceptance
-		angle := func(b, k, d2 float64) float64 {
-			// The stub's angle beyond its reference plane that makes
-			// jB + k·y equal j·want, plus the plane's shift: what is drawn.
-			th := math.Atan((want - b) / k * ps.Z0)
-			th += math.Pi * math.Round((ideal*math.Pi/180-th)/math.Pi)
-			return th + ps.Beta()*d2
-		}
-		d := (angle(b, k, p.StubShift) - angle(r.b, r.k, r.d2)) * 180 / math.Pi
+		d := (stubAngle(ps, ideal, b, k, p.StubShift) - stubAngle(ps, ideal, r.b, r.k, r.d2)) * 180 / math.Pi
 		if math.Abs(d) > math.Abs(stubDeg) {
 			stubDeg = d
 		}
@@ -140,5 +137,62 @@ func TestTeeAgainstFullWave(t *testing.T) {
 	}
 	if held < 20 {
 		t.Errorf("only %d rows held to the model, want the sweep's ≥ 20", held)
+	}
+}
+
+// stubAngle is the drawn angle (radians of the stub line, from its
+// reference plane's shift on) that makes a junction with susceptance b,
+// stub factor k and stub shift d2 present the ideal susceptance of a stub
+// of angle ideal (degrees) at the node; ps is the stub line.
+func stubAngle(ps LineParams, ideal, b, k, d2 float64) float64 {
+	want := math.Tan(ideal*math.Pi/180) / ps.Z0
+	th := math.Atan((want - b) / k * ps.Z0)
+	th += math.Pi * math.Round((ideal*math.Pi/180-th)/math.Pi)
+	return th + ps.Beta()*d2
+}
+
+// TestTeeFullWaveMesh checks that the sweep's coarse mesh is fine enough
+// for the fit: geometries re-run on the normal mesh (tee-normal.tsv, the
+// same script with MESH=normal ONLY=…) must give the same junction within
+// half the model's budget, 0.5° on the stub and 0.25° per through arm,
+// through the same figures TestTeeAgainstFullWave uses.
+func TestTeeFullWaveMesh(t *testing.T) {
+	coarse := readTeeRecord(t)
+	normal := readTeeFile(t, "../testdata/tee/tee-normal.tsv")
+	matched := 0
+	for _, n := range normal {
+		for _, c := range coarse {
+			if c.er != n.er || c.h != n.h || c.wt != n.wt || c.ws != n.ws || math.Abs(c.f/n.f-1) > 1e-9 {
+				continue
+			}
+			matched++
+			sub := Substrate{Er: n.er, Height: n.h}
+			mt, err := NewMicrostrip(n.wt, sub)
+			if err != nil {
+				t.Fatal(err)
+			}
+			ms, err := NewMicrostrip(n.ws, sub)
+			if err != nil {
+				t.Fatal(err)
+			}
+			pt, ps := mt.At(n.f), ms.At(n.f)
+			arm := (n.d1 - c.d1) * pt.Beta() * 180 / math.Pi
+			var stub float64
+			for _, ideal := range []float64{45, 135} {
+				d := (stubAngle(ps, ideal, n.b, n.k, n.d2) - stubAngle(ps, ideal, c.b, c.k, c.d2)) * 180 / math.Pi
+				if math.Abs(d) > math.Abs(stub) {
+					stub = d
+				}
+			}
+			t.Logf("εr %.2f h %.2f mm Wt %.2f Ws %.2f mm %.3f GHz: normal − coarse: d1 %+.3f mm, d2 %+.3f mm, k %+.4f, B %+.3f mS: arm %+.2f°, stub %+.2f°",
+				n.er, n.h*1e3, n.wt*1e3, n.ws*1e3, n.f/1e9, (n.d1-c.d1)*1e3, (n.d2-c.d2)*1e3, n.k-c.k, (n.b-c.b)*1e3, arm, stub)
+			if math.Abs(arm) > 0.25 || math.Abs(stub) > 0.5 {
+				t.Errorf("εr %.2f Wt %.2f Ws %.2f mm at %.3f GHz: the normal mesh moves the junction by %.2f° (arm) and %.2f° (stub), want ≤ 0.25° and 0.5°",
+					n.er, n.wt*1e3, n.ws*1e3, n.f/1e9, arm, stub)
+			}
+		}
+	}
+	if matched < len(normal) || matched == 0 {
+		t.Errorf("%d of %d normal-mesh rows matched a coarse row", matched, len(normal))
 	}
 }

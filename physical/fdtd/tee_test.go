@@ -267,13 +267,13 @@ func TestRecordTee(t *testing.T) {
 	}
 	commit := os.Getenv("STUBCRAFT_TEE_COMMIT")
 	var b strings.Builder
-	fmt.Fprintf(&b, "# made by: testdata/tee/sweep.sh (STUBCRAFT_TEE_RECORD=1 STUBCRAFT_TEE_MESH=%s go test ./physical/fdtd -run TestRecordTee) at %s, %s\n",
-		meshName, commit, time.Now().UTC().Format("2006-01-02T15:04Z"))
+	only := os.Getenv("STUBCRAFT_TEE_ONLY")
+	fmt.Fprintf(&b, "# made by: testdata/tee/sweep.sh (STUBCRAFT_TEE_RECORD=1 STUBCRAFT_TEE_MESH=%s STUBCRAFT_TEE_ONLY=%s go test ./physical/fdtd -run TestRecordTee) at %s, %s\n",
+		meshName, only, commit, time.Now().UTC().Format("2006-01-02T15:04Z"))
 	b.WriteString("# Full-wave T-junction parameters (physical/fdtd): d1 the through arms' reference-plane shift from the stub centre line,\n")
 	b.WriteString("# d2 the stub's from the through centre line, k the factor on the stub admittance at the junction node, b the node\n")
 	b.WriteString("# susceptance; stub lengths from the through line's edge; open end by Kirschning-Jansen-Koster (absorbed into d2).\n")
 	b.WriteString("er\th_mm\twt_mm\tws_mm\tf_hz\tz0t_ohm\teefft\tz0s_ohm\teeffs\td1_mm\td1_spread_mm\td2_mm\tk\tb_ms\tresid_ms\tmax_g_ms\tstubs_mm\tmesh\tcells\tsteps\tseconds\n")
-	only := os.Getenv("STUBCRAFT_TEE_ONLY")
 	for i, c := range teeSet {
 		if only != "" && !strings.Contains(","+only+",", fmt.Sprintf(",%d,", i)) {
 			continue
