@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"math/cmplx"
 	"sort"
 	"stubcraft/physical/units"
 
@@ -633,10 +634,16 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 		r.Recentre.Changes = append(r.Recentre.Changes, dl)
 	}
 	ph.Board = ph.board(ph.Board.Sub, ph.Board.Via)
+	// What the re-centring aims at: a match, or, for hand-entered sections
+	// that do not match (a notch), the electrical network's own response.
+	aim := "the match at f0"
+	if g := cmplx.Abs(target); g > 0.1 {
+		aim = fmt.Sprintf("the response at f0 (|Γ| = %.3f, the electrical network's own)", g)
+	}
 	for k, i := range idx {
 		if e := ph.Elements[i]; math.Abs(res.X[k]) > RecentreWarn {
-			r.Warnings = append(r.Warnings, fmt.Sprintf("re-centring moved %s by %+.3f mm (%.2f %% of a guided wavelength): the corrections left more than the usual residual (loss, or models outside their range); the match at f0 rests on the optimiser there",
-				e.ID, e.Recentre*1e3, 100*math.Abs(res.X[k])))
+			r.Warnings = append(r.Warnings, fmt.Sprintf("re-centring moved %s by %+.3f mm (%.2f %% of a guided wavelength): the corrections left more than the usual residual (loss, or models outside their range); %s rests on the optimiser there",
+				e.ID, e.Recentre*1e3, 100*math.Abs(res.X[k]), aim))
 		}
 	}
 	after, ok := simFor(res.X)

@@ -245,6 +245,14 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 	if rep.Bandwidth20DBHz > 0 {
 		fmt.Fprintf(w, "band |S11| < −20 dB: %s (%.1f MHz)\n", units.FormatFrequencyRange(rep.Band20DBHz[0], rep.Band20DBHz[1], 4), rep.Bandwidth20DBHz/1e6)
 	}
+	if b := rep.Band; b != nil {
+		goal := "no goal"
+		if b.GoalDB != nil {
+			goal = fmt.Sprintf("goal %.1f dB", *b.GoalDB)
+		}
+		fmt.Fprintf(w, "across %s (%s, objective %s): worst |S11| %.2f dB, %s; Bode-Fano limit %s\n",
+			units.FormatFrequencyRange(b.StartHz, b.StopHz, 6), b.Topology, b.Objective, b.WorstS11DB, goal, b.BodeFanoNote)
+	}
 	fmt.Fprintf(w, "network loss at f0: %.3f dB\n", rep.NetworkLossDBF0)
 	if t := rep.Tolerance; t != nil {
 		fmt.Fprintf(w, "tolerance (%d boards, seed %d): |S11| at f0 median %.1f dB, 90th percentile %.1f dB, yield below %.0f dB %.1f %%\n",
