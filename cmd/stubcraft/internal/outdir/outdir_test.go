@@ -4,6 +4,7 @@ import (
 	"context"
 	"crypto/sha256"
 	"errors"
+	"fmt"
 	"io"
 	"io/fs"
 	"os"
@@ -12,6 +13,7 @@ import (
 	"runtime"
 	"strconv"
 	"strings"
+	"sync/atomic"
 	"testing"
 	"time"
 )
@@ -488,5 +490,41 @@ func TestPlaceByRenames(t *testing.T) {
 	}
 	if data, _ := os.ReadFile(filepath.Join(old, "report.json")); string(data) != "new" || !strings.HasPrefix(filepath.Base(old), ".out.tmp-1-") {
 		t.Errorf("old output at %s holds %q", old, data)
+	}
+}
+
+// Files are written several at once: one failing among many is the error
+// returned (naming it), and nothing reaches the target or stays behind.
+func TestFailureAmongConcurrentFiles(t *testing.T) {
+	root := t.TempDir()
+	dir := filepath.Join(root, "out")
+	tgt, err := Open(context.Background(), dir, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	fail := errors.New("drawing failed")
+	var files []File
+	var started atomic.Int32
+	for i := range 40 {
+		name := fmt.Sprintf("f%02d.txt", i)
+		files = append(files, File{name, func(w io.Writer) error {
+			started.Add(1)
+			if i == 7 {
+				return fail
+			}
+			_, err := fmt.Fprintln(w, name)
+			return err
+		}})
+	}
+	err = tgt.Write(context.Background(), files)
+	tgt.Close()
+	if !errors.Is(err, fail) || !strings.Contains(err.Error(), "writing f07.txt") {
+		t.Fatalf("got %v, want the writer's error naming f07.txt", err)
+	}
+	if n := started.Load(); n < 8 {
+		t.Errorf("only %d files started, want at least the eight up to the failing one", n)
+	}
+	if entries, _ := os.ReadDir(root); len(entries) != 0 {
+		t.Errorf("a failed build left %v in %s", entries[0].Name(), root)
 	}
 }
