@@ -47,5 +47,10 @@
 // substrate's tanδ turned into a conductivity σ = 2π·f0·ε0·εr·tanδ at one
 // frequency f0; copper is lossless.
 //
-// Fields are float32; the update runs over x slabs on every core.
+// Fields are float32. The update runs over x slabs on persistent workers,
+// one handoff per half step; each z-row gets its curl update and then,
+// while it is in cache, the CPML recursions of the layers it lies in.
+// The substrate is cut into cells no taller than half the edge cell: with
+// cells as tall as the edge cell a uniform line's Z0 came out about 2 %
+// low against Hammerstad-Jensen (the study is in DEVELOPERS.md).
 package fdtd
