@@ -277,3 +277,29 @@ func TestAutoRanksByDrawnBoard(t *testing.T) {
 		t.Errorf("order %s, want adcbx (worst |S11| beyond %.2f dB, then area, then loss; failed last)", order, candidateTieDB)
 	}
 }
+
+// A goal beyond the Bode-Fano limit is warned about, with the limit: a
+// parallel RC (R = 50 Ω) whose limit over 2.4–2.4835 GHz is |Γ| = 0.3,
+// −10.46 dB (Γm = exp(−π/(RCΔω)), Pozar 4th ed. eq. 5.73, from memory),
+// asked for −15 dB. report's band carries the quoted figure.
+func TestBandGoalBeyondBodeFano(t *testing.T) {
+	d := decodeTestDesign(t, fmt.Sprintf(bandDesign, "shunt-stub", "open", ""))
+	rc := math.Pi / math.Log(1/0.3) / (2 * math.Pi * (2.4835e9 - 2.4e9))
+	load := RLC{Circuit: ParallelRC, R: 50, C: rc / 50}
+	// Q ≈ 77: |Γ_load| = 0.9997, which the loss rule refuses unless
+	// accepted.
+	r, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: load, SkipTolerance: true, AcceptLoss: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if v, ok := r.Band.BodeFano.Quoted(); !ok || math.Abs(v-20*math.Log10(0.3)) > 1e-3 {
+		t.Errorf("limit %s, want -10.46 dB quoted", r.Band.BodeFano)
+	}
+	found := false
+	for _, w := range r.Warnings {
+		found = found || strings.Contains(w, "goal -15.0 dB across the band lies beyond the Bode-Fano limit (-10.46 dB)")
+	}
+	if !found {
+		t.Errorf("no warning on the goal beyond the limit: %q", r.Warnings)
+	}
+}
