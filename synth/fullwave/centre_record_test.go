@@ -2,6 +2,7 @@ package fullwave
 
 import (
 	"bufio"
+	"fmt"
 	"math"
 	"os"
 	"strconv"
@@ -12,7 +13,8 @@ import (
 // recordedRun is one row of testdata/fdtd/centre.tsv: one full-wave run
 // of a recorded centring.
 type recordedRun struct {
-	design            string
+	design            string // the design, and which recording: "demo (record 2)"
+	name              string // the design alone
 	f0, best, offPct  float64
 	run, kept         int
 	converged, failed bool
@@ -20,7 +22,8 @@ type recordedRun struct {
 
 // readCentreRecord reads testdata/fdtd/centre.tsv, which
 // testdata/fdtd/centre.sh writes (build --fullwave-centre on the normal
-// mesh); it returns the runs by design, in order.
+// mesh); it returns the runs by design and recording (each "# made by:"
+// line starts one), in order.
 func readCentreRecord(t *testing.T) (map[string][]recordedRun, []string) {
 	t.Helper()
 	f, err := os.Open("../../testdata/fdtd/centre.tsv")
@@ -34,19 +37,20 @@ func readCentreRecord(t *testing.T) (map[string][]recordedRun, []string) {
 	runs := map[string][]recordedRun{}
 	var order []string
 	sc := bufio.NewScanner(f)
-	made := false
+	made := 0
 	for sc.Scan() {
 		line := sc.Text()
 		if strings.HasPrefix(line, "# made by:") {
-			made = true
+			made++
 		}
 		if line == "" || strings.HasPrefix(line, "#") || strings.HasPrefix(line, "design\t") {
 			continue
 		}
 		c := strings.Split(line, "\t")
+		key := fmt.Sprintf("%s (record %d)", c[0], made)
 		if len(c) == 2 && strings.HasPrefix(c[1], "failed") {
-			runs[c[0]] = append(runs[c[0]], recordedRun{design: c[0], failed: true})
-			order = append(order, c[0])
+			runs[key] = append(runs[key], recordedRun{design: key, name: c[0], failed: true})
+			order = append(order, key)
 			continue
 		}
 		if len(c) != 15 {
@@ -59,7 +63,7 @@ func readCentreRecord(t *testing.T) (map[string][]recordedRun, []string) {
 			}
 			return v
 		}
-		r := recordedRun{design: c[0], f0: num(2), run: int(num(3)), best: num(4), offPct: num(5),
+		r := recordedRun{design: key, name: c[0], f0: num(2), run: int(num(3)), best: num(4), offPct: num(5),
 			converged: c[13] == "true", kept: int(num(14))}
 		if _, ok := runs[r.design]; !ok {
 			order = append(order, r.design)
@@ -69,7 +73,7 @@ func readCentreRecord(t *testing.T) (map[string][]recordedRun, []string) {
 	if err := sc.Err(); err != nil {
 		t.Fatal(err)
 	}
-	if !made {
+	if made == 0 {
 		t.Error("centre.tsv has no '# made by:' line with the command and date")
 	}
 	return runs, order
@@ -115,7 +119,7 @@ func TestRecordedCentring(t *testing.T) {
 			if !within(kept) || last.kept != len(rs) {
 				t.Errorf("%s: converged, but kept run %d is %+.3f %% from f0 (last run %d)", d, kept.run, kept.offPct, len(rs))
 			}
-			if d == "demo" {
+			if rs[0].name == "demo" {
 				demoOK = true
 			}
 		} else {
