@@ -152,6 +152,10 @@ func NewFabNotes(res *synth.Result, rep Report, lay geom.Layout) FabNotes {
 			mmText(geom.Nanometres(launch.PadLength)), mmText(geom.Nanometres(launch.PadWidth)), mmText(geom.Nanometres(launch.Gap)),
 			mmText(geom.Nanometres(launch.GroundLength)), mmText(geom.Nanometres(launch.GroundWidth)), geom.LaunchViaCount(*launch)))
 	}
+	if f := res.GeomSpec().Fence; f != nil {
+		n.Rules = append(n.Rules, fmt.Sprintf("Via fence: %d plated vias (net GND, %s mm drill, %s mm pads) to the plane alongside the RF lines, centres %s mm from the copper's edge; keep them where drawn.",
+			synth.FenceViaCount(lay), mmText(geom.Nanometres(f.Drill)), mmText(geom.Nanometres(f.Pad)), mmText(geom.Nanometres(f.Offset))))
+	}
 	switch {
 	case lay.ShortedToGround():
 		n.Rules = append(n.Rules, "Netlist: a shorted stub's via joins the signal copper to the ground plane, so RF and GND are one DC net, "+geom.NetRFGround+": an electrical test finds the signal pins J1 and J2 shorted to ground, by design.")

@@ -2,6 +2,7 @@ package export
 
 import (
 	"bytes"
+	"math"
 	"testing"
 
 	"stubcraft/export/internal/gerberread"
@@ -141,4 +142,89 @@ func contains(p geom.Polygon, q geom.Point) bool {
 		}
 	}
 	return in
+}
+
+// TestFenceOnParsedFiles reads back the copper and drill files of a board
+// with landings and a via fence (1 mm from the copper, 2 mm pitch): every
+// hole lands on a top pad of net GND (.N, Gerber X2 5.6.13, from memory)
+// over the GND plane, none on RF; every hole outside the landings' ground
+// pads (a fence hole) lies at least the 1 mm offset from the parsed RF
+// copper (regions and pads of net RF), and some exactly at it (the rows).
+func TestFenceOnParsedFiles(t *testing.T) {
+	s := launchOpenSpec()
+	s.Fence = &geom.FenceSpec{Pitch: 2e-3, Offset: 1e-3, Drill: 0.3e-3, Pad: 0.6e-3}
+	l := build(t, s)
+	top := parse(t, gerberBytes(t, l, CopperTop))
+	var b bytes.Buffer
+	if err := WriteExcellon(&b, l, refMeta()); err != nil {
+		t.Fatal(err)
+	}
+	drill, err := gerberread.ReadExcellon(&b)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rf []geom.Polygon
+	var ground []geom.Polygon
+	for _, r := range top.Regions {
+		if r.Attrs[".N"] == geom.NetRF {
+			rf = append(rf, r.Outline)
+		}
+	}
+	for _, fl := range top.Flashes {
+		a := top.Apertures[fl.D]
+		if a.Shape != "R" {
+			continue
+		}
+		p := geom.Rect{Min: geom.Point{X: fl.At.X - a.W/2, Y: fl.At.Y - a.H/2}, Max: geom.Point{X: fl.At.X + a.W/2, Y: fl.At.Y + a.H/2}}.Polygon()
+		if fl.Attrs[".N"] == geom.NetRF {
+			rf = append(rf, p)
+		} else {
+			ground = append(ground, p)
+		}
+	}
+	fenceHoles, onRow := 0, 0
+	for _, h := range drill.Hits {
+		net := ""
+		for _, fl := range top.Flashes {
+			if fl.At == h.At && top.Apertures[fl.D].Shape == "C" {
+				net = fl.Attrs[".N"]
+			}
+		}
+		if net != geom.NetGround {
+			t.Errorf("hole at %v on a top pad of net %q, want GND", h.At, net)
+		}
+		inLanding := false
+		for _, g := range ground {
+			inLanding = inLanding || contains(g, h.At)
+		}
+		if inLanding {
+			continue
+		}
+		fenceHoles++
+		d := 1e18
+		for _, p := range rf {
+			if contains(p, h.At) {
+				d = 0
+			}
+			for i := range p {
+				d = min(d, segDist(h.At, p[i], p[(i+1)%len(p)]))
+			}
+		}
+		if d < 1e6-1 {
+			t.Errorf("fence hole at %v is %.0f nm from the RF copper, want ≥ 1 mm", h.At, d)
+		}
+		if d < 1e6+1 {
+			onRow++
+		}
+	}
+	if fenceHoles < 10 || onRow < 4 {
+		t.Errorf("%d fence holes, %d of them exactly 1 mm from the copper", fenceHoles, onRow)
+	}
+}
+
+// segDist is the Euclidean distance from p to the axis-aligned segment ab.
+func segDist(p, a, b geom.Point) float64 {
+	cx := min(max(p.X, min(a.X, b.X)), max(a.X, b.X))
+	cy := min(max(p.Y, min(a.Y, b.Y)), max(a.Y, b.Y))
+	return math.Hypot(float64(p.X-cx), float64(p.Y-cy))
 }

@@ -217,6 +217,9 @@ func Build(ctx context.Context, in BuildInput) (*Result, error) {
 	if _, w := r.LaunchNote(); w != "" {
 		r.Warnings = append(r.Warnings, w)
 	}
+	if _, ws := r.FenceNote(lay); len(ws) > 0 {
+		r.Warnings = append(r.Warnings, ws...)
+	}
 	if r.Structures, err = r.structures(); err != nil {
 		return nil, d.KeyError("panel.structures", err)
 	}

@@ -198,6 +198,11 @@ type LayoutSpec struct {
 	// an edge-launch landing sized by Launch.
 	Port   PortKind
 	Launch LaunchSizes
+	// FencePitch, when not 0, draws a via fence alongside the microstrip
+	// lines at this largest centre spacing, m; FenceOffset is the distance
+	// from the copper's edge to the fence's via centres, m (0: the
+	// default, see FenceOffsetOr).
+	FencePitch, FenceOffset float64
 }
 
 // PanelSpec holds what is made beside the board on its panel.

@@ -96,6 +96,8 @@ type designRawLayout struct {
 	LaunchDrl  any `toml:"launch_via_drill"`
 	LaunchPad  any `toml:"launch_via_pad"`
 	LaunchPtch any `toml:"launch_via_pitch"`
+	FencePitch any `toml:"fence_pitch"`
+	FenceOff   any `toml:"fence_offset"`
 }
 
 type designRawFab struct {
@@ -293,6 +295,8 @@ func (dd *designDecoder) design(raw *designRaw, tb *designTables, dir string) De
 		designRead(dd, "layout.edge_clearance", l.EdgeClear, designLength, &d.Layout.EdgeClearance, "")
 		designRead(dd, "layout.trim", l.Trim, designLength, &d.Layout.Trim, "")
 		designRead(dd, "layout.port", l.Port, designWord[PortKind], &d.Layout.Port, "")
+		designRead(dd, "layout.fence_pitch", l.FencePitch, designLength, &d.Layout.FencePitch, "")
+		designRead(dd, "layout.fence_offset", l.FenceOff, designLength, &d.Layout.FenceOffset, "")
 		for i, v := range []any{l.LaunchPadW, l.LaunchPadL, l.LaunchGap, l.LaunchGndW, l.LaunchGndL, l.LaunchDrl, l.LaunchPad, l.LaunchPtch} {
 			k := d.Layout.Launch.launchKeys()[i]
 			designRead(dd, k.key, v, designLength, k.v, "")

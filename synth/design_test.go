@@ -242,6 +242,9 @@ func TestDecodeDesignFaults(t *testing.T) {
 		{"layout port", designBase + "[layout]\nport = \"sma\"\n", 11, "layout.port", nil, "edge-launch landing"},
 		{"layout launch without edge", designBase + "[layout]\nlaunch_gap = \"0.4mm\"\n", 11, "layout.launch_gap", nil, "port = \"edge\""},
 		{"layout launch zero", designBase + "[layout]\nport = \"edge\"\nlaunch_ground_width = \"-1mm\"\n", 12, "layout.launch_ground_width", ErrOutOfRange, "more than 0 mm"},
+		{"layout fence offset alone", designBase + "[layout]\nfence_offset = \"2mm\"\n", 11, "layout.fence_offset", nil, "fence_pitch"},
+		{"layout fence pitch tight", designBase + "[layout]\nfence_pitch = \"0.7mm\"\n", 11, "layout.fence_pitch", ErrOutOfRange, "via pad plus 0.2 mm"},
+		{"layout fence offset on pad", designBase + "[layout]\nfence_pitch = \"2mm\"\nfence_offset = \"0.3mm\"\n", 12, "layout.fence_offset", ErrOutOfRange, "half the via pad"},
 		{"layout launch pad past feed", designBase + "[layout]\nport = \"edge\"\nfeed_length = \"1mm\"\n", 12, "layout.feed_length", nil, "launch_pad_length"},
 		{"fab min width", designBase + "[fab]\nmin_width = \"0um\"\n", 11, "fab.min_width", nil, "from 0.01 mm to 5 mm"},
 		{"sweep span and start", designBase + "[sweep]\nspan = \"20%\"\nstart = \"2GHz\"\nstop = \"3GHz\"\n", 11, "sweep.span", nil, "not both"},
@@ -520,13 +523,17 @@ func BenchmarkDecodeDesign(b *testing.B) {
 func TestDesignSchemaTakesEveryLayoutKey(t *testing.T) {
 	text := designBase + "[layout]\nfeed_length = \"5mm\"\nstub_side = \"up\"\nmargin = \"5mm\"\nedge_clearance = \"0.3mm\"\n" +
 		"port = \"edge\"\nlaunch_pad_width = \"3mm\"\nlaunch_pad_length = \"1.5mm\"\nlaunch_gap = \"0.5mm\"\nlaunch_ground_width = \"1.5mm\"\n" +
-		"launch_ground_length = \"2.5mm\"\nlaunch_via_drill = \"0.3mm\"\nlaunch_via_pad = \"0.6mm\"\nlaunch_via_pitch = \"1mm\"\n"
+		"launch_ground_length = \"2.5mm\"\nlaunch_via_drill = \"0.3mm\"\nlaunch_via_pad = \"0.6mm\"\nlaunch_via_pitch = \"1mm\"\n" +
+		"fence_pitch = \"2mm\"\nfence_offset = \"3mm\"\n"
 	d, err := DecodeDesign(strings.NewReader(text), "d.toml", "")
 	if err != nil {
 		t.Fatal(err)
 	}
 	// The file's quantities in metres (exact SI prefixes).
 	want := LaunchSizes{PadWidth: 3e-3, PadLength: 1.5e-3, Gap: 0.5e-3, GroundWidth: 1.5e-3, GroundLength: 2.5e-3, ViaDrill: 0.3e-3, ViaPad: 0.6e-3, ViaPitch: 1e-3}
+	if d.Layout.FencePitch != 2e-3 || d.Layout.FenceOffset != 3e-3 {
+		t.Errorf("fence pitch %g m, offset %g m; want 2e-3, 3e-3", d.Layout.FencePitch, d.Layout.FenceOffset)
+	}
 	if d.Layout.Port != PortEdge || d.Layout.Launch != want {
 		t.Errorf("port %q, launch %+v; want edge, %+v", d.Layout.Port, d.Layout.Launch, want)
 	}

@@ -239,6 +239,7 @@ func (c *designCheck) checkLayout(l LayoutSpec) {
 		c.failErr("layout.port", strconv.Quote(l.Port.String()), err)
 	}
 	c.checkLaunch(l)
+	c.checkFence(l)
 	if l.MaxBoard != [2]float64{} {
 		for i, v := range l.MaxBoard {
 			if !(v >= MinBoardSide && v <= MaxBoardSide) {

@@ -81,6 +81,9 @@ func (r *Result) GeomSpec() geom.Spec {
 		g := d.Layout.Launch.Resolve(d.Layout, portWidth)
 		s.Launch = &g
 	}
+	if d.Layout.FencePitch > 0 {
+		s.Fence = &geom.FenceSpec{Pitch: d.Layout.FencePitch, Offset: r.fenceOffset(), Drill: d.Layout.ViaDrill, Pad: d.Layout.ViaPad}
+	}
 	return s
 }
 
@@ -125,6 +128,9 @@ func (r *Result) LayoutNotes(l geom.Layout) []string {
 		notes = append(notes, r.TrimNote(t))
 	}
 	if n, _ := r.LaunchNote(); n != "" {
+		notes = append(notes, n)
+	}
+	if n, _ := r.FenceNote(l); n != "" {
 		notes = append(notes, n)
 	}
 	return notes

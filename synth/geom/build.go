@@ -38,6 +38,11 @@ func Build(s Spec) (Layout, error) {
 	if err := check(s); err != nil {
 		return Layout{}, err
 	}
+	if s.Fence != nil {
+		if err := checkFence(s); err != nil {
+			return Layout{}, err
+		}
+	}
 	cpw, hasPour, err := coplanarRule(s)
 	if err != nil {
 		return Layout{}, err
@@ -248,6 +253,9 @@ func Build(s Spec) (Layout, error) {
 		if ground, err = l.addLanding(*s.Launch, boardX, yc, padW, Nanometres(s.EdgeClearance), keep); err != nil {
 			return Layout{}, err
 		}
+	}
+	if s.Fence != nil {
+		l.addFence(*s.Fence, keep, inner, ground)
 	}
 	if hasPour {
 		if err := l.addCoplanar(s, mask, inner, cpw); err != nil {

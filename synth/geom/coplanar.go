@@ -145,7 +145,7 @@ func (l *Layout) addCoplanar(s Spec, rf []Rect, board Rect, r stitchRule) error 
 	for _, p := range pour {
 		l.Copper = append(l.Copper, Net{Name: NetGround, Outline: p})
 	}
-	for _, c := range stitch(pour, grown, board, r, l.Vias) {
+	for _, c := range stitch(pour, grown, nil, board, r, l.Vias) {
 		l.Vias = append(l.Vias, Via{Net: NetGround, Center: c, Drill: r.drill, Pad: r.pad})
 		l.Pads = append(l.Pads, Pad{Net: NetGround, Function: ViaPad, Center: c, W: r.pad, H: r.pad, Round: true})
 	}

@@ -21,7 +21,8 @@ package geom
 // the gap (a pour narrower than two setbacks), or where its centre is
 // closer than r.spacing to a via already placed: the RF vias of shorted
 // stubs, then the corner vias, then the rows in polygon and edge order.
-func stitch(pour []Polygon, grown []Rect, board Rect, r stitchRule, existing []Via) []Point {
+// A via whose centre lies inside a rectangle of avoid is dropped too.
+func stitch(pour []Polygon, grown, avoid []Rect, board Rect, r stitchRule, existing []Via) []Point {
 	lo := Point{board.Min.X + r.spacing, board.Min.Y + r.spacing}
 	hi := Point{board.Max.X - r.spacing, board.Max.Y - r.spacing}
 	taken := make([]Point, 0, len(existing))
@@ -36,6 +37,11 @@ func stitch(pour []Polygon, grown []Rect, board Rect, r stitchRule, existing []V
 		sq := Rect{Point{c.X - r.setback, c.Y - r.setback}, Point{c.X + r.setback, c.Y + r.setback}}
 		for _, g := range grown {
 			if !g.Intersect(sq).Empty() {
+				return
+			}
+		}
+		for _, a := range avoid {
+			if c.X > a.Min.X && c.X < a.Max.X && c.Y > a.Min.Y && c.Y < a.Max.Y {
 				return
 			}
 		}

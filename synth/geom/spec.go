@@ -15,6 +15,9 @@ type Spec struct {
 	// signal pad replaces PortPad, and ground pads with vias to the plane
 	// flank it (see LaunchSpec).
 	Launch *LaunchSpec
+	// Fence, when not nil, draws a via fence alongside the RF copper
+	// (see FenceSpec); it may not be combined with CoplanarGap.
+	Fence *FenceSpec
 	// Margin is the board margin around the copper in ±y. In x the through
 	// line's ends touch the board edge (edge launch).
 	Margin float64
