@@ -144,8 +144,11 @@ type ReportElement struct {
 	TrimAllowanceMM float64 `json:"trim_allowance_mm,omitempty"`
 	ViaMM           float64 `json:"via_mm"`
 	RecentreMM      float64 `json:"recentre_mm"`
-	DrawnLengthMM   float64 `json:"drawn_length_mm"`
-	AttachedTo      string  `json:"attached_to,omitempty"`
+	// BendMM is how much longer a stub the layout bends is drawn than its
+	// electrical length: its mitred bends' shortening (synth.Element.Bend).
+	BendMM        float64 `json:"bend_mm,omitempty"`
+	DrawnLengthMM float64 `json:"drawn_length_mm"`
+	AttachedTo    string  `json:"attached_to,omitempty"`
 	// FullwaveMapMM is the full-wave mapping's offset: the circuit model's
 	// length less the drawn length (build --fullwave-centre), not drawn.
 	FullwaveMapMM float64 `json:"fullwave_map_mm,omitempty"`
@@ -307,7 +310,7 @@ func NewReport(r *synth.Result, version string) Report {
 	for _, e := range els {
 		re := ReportElement{ID: e.ID, Role: string(e.Role), Feed: e.Role == synth.RoleFeed, Z0Ohm: e.Z0, Z0F0Ohm: e.Params.Z0, EpsEffF0: e.Params.EpsEff,
 			WidthMM: e.Width * 1e3, ElectricalDeg: e.ElectricalDeg, LineLengthMM: e.LineLength * 1e3,
-			OpenEndMM: e.OpenEnd * 1e3, TeeMM: e.Tee * 1e3, StepMM: e.Step * 1e3, ViaMM: e.Via * 1e3, RecentreMM: e.Recentre * 1e3, TrimMM: e.Trim * 1e3,
+			OpenEndMM: e.OpenEnd * 1e3, TeeMM: e.Tee * 1e3, StepMM: e.Step * 1e3, ViaMM: e.Via * 1e3, RecentreMM: e.Recentre * 1e3, TrimMM: e.Trim * 1e3, BendMM: e.Bend * 1e3,
 			DrawnLengthMM: e.Drawn() * 1e3, FullwaveMapMM: e.FullwaveMap * 1e3}
 		if re.Feed {
 			re.Role = string(synth.RoleLine)

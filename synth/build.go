@@ -208,7 +208,7 @@ func Build(ctx context.Context, in BuildInput) (*Result, error) {
 	if f := fabMinimum(r.Physical, d.Fab.MinWidth); f != nil {
 		return nil, d.KeyError("fab.min_width", f)
 	}
-	lay, err := r.drawBoard()
+	lay, err := r.drawCompensated()
 	if err != nil {
 		return nil, d.KeyError("", err)
 	}
@@ -582,7 +582,7 @@ func (r *Result) recentre(ctx context.Context, mk physical.LineMaker, zl complex
 				if drawn < minLen[i] || math.Abs(x[k]) > MaxRecentre {
 					return nil, false
 				}
-				l = drawn + e.FullwaveMap
+				l = drawn - e.Bend + e.FullwaveMap
 				k++
 			}
 			if e.Role == RoleStub {

@@ -3,6 +3,7 @@ package synth
 import (
 	"fmt"
 	"math"
+	"strings"
 	"stubcraft/physical"
 	"stubcraft/stackups"
 
@@ -25,7 +26,8 @@ const MaskExpansion = 50e-6
 // drawn length ends at its via's centre; its copper goes on to the pad's
 // far edge, half a pad further. A stub too tall for the board's
 // max_board height is bent by geom.Build into a mitred L of the same
-// centre-line length (see LayoutNotes).
+// centre-line length, which Build lengthens by the bend's shortening
+// (Element.Bend, drawCompensated; see LayoutNotes).
 func (r *Result) GeomSpec() geom.Spec {
 	d := r.Design
 	side := 1
@@ -98,27 +100,87 @@ func (r *Result) portWidth() float64 {
 	return 0
 }
 
+// MaxBendPasses bounds drawCompensated's passes: the first draws the
+// stubs at their electrical length, the second with each bent stub
+// lengthened by its bends' shortening; a third is needed only if that
+// lengthening changed which stubs bend.
+const MaxBendPasses = 3
+
+// drawCompensated draws r's layout (drawBoard) with every bent stub
+// lengthened so that its electrical length is kept: a mitred 90° bend acts
+// physical.MitredBendShortening(W, h) shorter than its centre-line length
+// (a fit to the full-wave record testdata/discontinuities/bend.tsv), so a
+// stub the layout bends n times gets Element.Bend = n × that. The added
+// length can change which stubs bend, so it draws again until the bends
+// it compensated are the bends it drew, at most MaxBendPasses times, and
+// fails naming the stubs otherwise. The circuit model is unchanged: it
+// leaves Bend out of an element's model length.
+func (r *Result) drawCompensated() (geom.Layout, error) {
+	h := r.Stackup.Dielectric.Thickness
+	for pass := 1; ; pass++ {
+		lay, err := r.drawBoard()
+		if err != nil {
+			return geom.Layout{}, err
+		}
+		bends := map[string]int{}
+		for _, b := range lay.Marks.Bends {
+			bends[b.StubID]++
+		}
+		var changed []string
+		for i := range r.Physical.Elements {
+			e := &r.Physical.Elements[i]
+			if e.Role != RoleStub {
+				continue
+			}
+			want := 0.0
+			if n := bends[e.ID]; n > 0 {
+				want = float64(n) * physical.MitredBendShortening(e.Width, h)
+			}
+			if math.Abs(want-e.Bend) > 0.5e-9 { // the layout's 1 nm grid
+				changed = append(changed, e.ID)
+				e.Bend = want
+			}
+		}
+		if len(changed) == 0 {
+			return lay, nil
+		}
+		if pass == MaxBendPasses {
+			return geom.Layout{}, fmt.Errorf("layout: the mitred-bend compensation of %s still changes which stubs bend after %d passes", strings.Join(changed, ", "), pass)
+		}
+	}
+}
+
 // LayoutNotes returns a note for each stub that l, the layout of
-// r.GeomSpec(), bends: where it bends, its miter and that it is modelled
-// at its centre-line length. The simulation takes a bent stub as a
-// straight line of its drawn length: with Douville and James's optimal
-// miter the bend's own reflection is small, and counting a mitred bend at
-// its centre-line length is common practice, no source. The project's
-// full-wave record shows the bend electrically shorter than that by about
-// half a strip width (physical.MitredBendShortening); the note gives the
-// figure, the layout does not yet compensate it. A bend outside
-// the miter's measured range says so in its note.
+// r.GeomSpec(), bends: where it bends, its miter, and how much longer
+// than its electrical length it is drawn to make up for the bend (the
+// element's Bend, set by Build; a layout of a Simulate result has none and
+// its note says the stub acts that much shorter). A bend outside the
+// miter's measured range says so in its note.
 func (r *Result) LayoutNotes(l geom.Layout) []string {
 	var notes []string
 	h := r.Stackup.Dielectric.Thickness
+	comp := map[string]float64{}
+	for _, e := range r.Physical.Elements {
+		if e.Role == RoleStub {
+			comp[e.ID] = e.Bend
+		}
+	}
 	for _, b := range l.Marks.Bends {
 		w := float64(b.ChamferLeg) * 1e-9 / (2 * b.Miter) // the cut's legs are 2·m·W
 		toward := "the source port"
 		if b.Toward < 0 {
 			toward = "the load port"
 		}
-		n := fmt.Sprintf("%s bends 90° toward %s at %.3f mm from the through line's edge, miter %.0f %% (Douville and James 1978); modelled at its centre-line length, which a full-wave fit puts %.2f mm longer than the bend acts (physical.MitredBendShortening; not compensated: the stub acts that much shorter)",
-			b.StubID, toward, float64(b.Leg1)*1e-6, math.Round(100*b.Miter), 1e3*physical.MitredBendShortening(w, h))
+		short := physical.MitredBendShortening(w, h)
+		n := fmt.Sprintf("%s bends 90° toward %s at %.3f mm from the through line's edge, miter %.0f %% (Douville and James 1978); ",
+			b.StubID, toward, float64(b.Leg1)*1e-6, math.Round(100*b.Miter))
+		if c := comp[b.StubID]; c > 0 {
+			n += fmt.Sprintf("the bend is compensated: the stub is drawn %.3f mm longer than its electrical length (bend_mm), the %.3f mm per bend a mitred bend acts shorter than its centre-line length (physical.MitredBendShortening, a fit to the full-wave record testdata/discontinuities/bend.tsv)",
+				1e3*c, 1e3*short)
+		} else {
+			n += fmt.Sprintf("not compensated: the stub acts %.3f mm shorter than its centre-line length (physical.MitredBendShortening, a fit to the full-wave record testdata/discontinuities/bend.tsv)",
+				1e3*short)
+		}
 		if b.Warning != "" {
 			n += " (" + b.Warning + ")"
 		}

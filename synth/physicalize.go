@@ -43,23 +43,31 @@ type Element struct {
 	At            int     // stubs: index of the through element on the load side of the tee
 	Params        physical.LineParams
 	Model         string
+	// Bend is the mitred-bend compensation, m: a stub the layout bends is
+	// drawn this much longer (bends × physical.MitredBendShortening, a fit
+	// to the full-wave record testdata/discontinuities/bend.tsv), because
+	// each bend acts that much shorter than its centre-line length. It is
+	// copper, so part of Drawn, but no electrical length: ModelLength
+	// leaves it out. Set by Build once the layout is drawn; zero before.
+	Bend float64
 	// FullwaveMap is the full-wave mapping of build --fullwave-centre: the
-	// circuit model's length of this element less its drawn length, m,
-	// fitted so that the circuit model reproduces a full-wave solve of the
-	// drawn copper. It is never drawn; zero in a plain build.
+	// circuit model's length of this element less its drawn length (less
+	// Bend), m, fitted so that the circuit model reproduces a full-wave
+	// solve of the drawn copper. It is never drawn; zero in a plain build.
 	FullwaveMap float64
 }
 
-// Drawn returns the length of copper drawn, m:
+// Drawn returns the length of copper drawn, m, along its centre line:
 //
-//	LineLength + OpenEnd + Tee + Via + Step + Recentre + Trim.
+//	LineLength + OpenEnd + Tee + Via + Step + Recentre + Trim + Bend.
 func (e Element) Drawn() float64 {
-	return e.LineLength + e.OpenEnd + e.Tee + e.Via + e.Step + e.Recentre + e.Trim
+	return e.LineLength + e.OpenEnd + e.Tee + e.Via + e.Step + e.Recentre + e.Trim + e.Bend
 }
 
 // ModelLength returns the length the circuit model gives the element, m:
-// the drawn length plus the full-wave mapping.
-func (e Element) ModelLength() float64 { return e.Drawn() + e.FullwaveMap }
+// the drawn length less what its mitred bends take off (Bend), plus the
+// full-wave mapping.
+func (e Element) ModelLength() float64 { return e.Drawn() - e.Bend + e.FullwaveMap }
 
 // Physical is the corrected physical network of an electrical solution.
 type Physical struct {
@@ -447,7 +455,7 @@ func (p Physical) Uncorrected() physical.Board {
 	q.Elements = append([]Element(nil), p.Elements...)
 	for i := range q.Elements {
 		e := &q.Elements[i]
-		e.OpenEnd, e.Tee, e.Via, e.Step, e.Recentre, e.Trim = 0, 0, 0, 0, 0, 0
+		e.OpenEnd, e.Tee, e.Via, e.Step, e.Recentre, e.Trim, e.Bend = 0, 0, 0, 0, 0, 0, 0
 	}
 	return q.board(p.Board.Sub, p.Board.Via)
 }
