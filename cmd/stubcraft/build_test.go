@@ -489,8 +489,25 @@ func TestBuildBentStub(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !strings.Contains(string(data), "bends 90°") {
-		t.Error("no bend note in report.json")
+	if !strings.Contains(string(data), "bends 90°") || !strings.Contains(string(data), "the bend is compensated") {
+		t.Error("no note of the compensated bend in report.json")
+	}
+	// The bent stub is drawn longer than its electrical length by one
+	// bend's shortening (about half its width, physical.MitredBendShortening).
+	var rep struct {
+		Elements []struct {
+			Role    string  `json:"role"`
+			WidthMM float64 `json:"width_mm"`
+			BendMM  float64 `json:"bend_mm"`
+		} `json:"elements"`
+	}
+	if err := json.Unmarshal(data, &rep); err != nil {
+		t.Fatal(err)
+	}
+	for _, e := range rep.Elements {
+		if e.Role == "stub" && !(e.BendMM > 0.45*e.WidthMM && e.BendMM < 0.9*e.WidthMM) {
+			t.Errorf("stub bend_mm %.4f, want 0.45–0.9 × its width %.4f mm", e.BendMM, e.WidthMM)
+		}
 	}
 }
 
