@@ -122,8 +122,6 @@ type stepFullWave struct {
 	// Measured lines, per frequency: narrow (ports of nwn) and wide (ports of wnw).
 	zn, en, zw, ew []float64
 	L, C           float64 // fitted: total series inductance (H) and shunt C (F)
-	rms            float64 // RMS |ΔS| per S-parameter of the fit
-	rmsNoStep      float64 // the same with L = C = 0
 }
 
 // readStepRecord groups step.tsv into cases.

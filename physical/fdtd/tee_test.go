@@ -148,9 +148,9 @@ func fitStub(x, L, dl []float64, wt, y0s, betaS, lo, hi float64) (d2, b, k, resi
 	const steps = 2000
 	for i := 0; i <= steps; i++ {
 		d := lo + (hi-lo)*float64(i)/steps
-		bb, kk, r := solve(d)
+		_, kk, r := solve(d)
 		if kk > 0 && r < best {
-			best, d2, b, k, resid = r, d, bb, kk, r
+			best, d2 = r, d
 		}
 	}
 	// Refine around the best scan point by golden section.
