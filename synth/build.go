@@ -2,6 +2,7 @@ package synth
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -156,6 +157,10 @@ type Recentring struct {
 func (r *Result) drawBoard() (geom.Layout, error) {
 	lay, err := geom.Build(r.GeomSpec())
 	if err != nil {
+		var se *geom.SpecError
+		if errors.As(err, &se) && layoutKey(se.Field) != "" {
+			return geom.Layout{}, &DesignKeyError{Key: layoutKey(se.Field), Err: se}
+		}
 		return geom.Layout{}, fmt.Errorf("layout: %w", err)
 	}
 	if w, h := boardSize(lay); w > MaxBoardSize || h > MaxBoardSize {

@@ -144,3 +144,53 @@ func (r *Result) LaunchNote() (note, warning string) {
 		geom.LaunchViaCount(*g), mmText(g.ViaDrill))
 	return note, warning
 }
+
+// layoutKey returns the design key that sets a field of the landing's or
+// the fence's geometry, so that a refusal from the layout names what the
+// user wrote; "" when no key does.
+func layoutKey(field string) string {
+	switch field {
+	case "Launch.PadWidth":
+		return "layout.launch_pad_width"
+	case "Launch.PadLength":
+		return "layout.launch_pad_length"
+	case "Launch.Gap":
+		return "layout.launch_gap"
+	case "Launch.GroundWidth":
+		return "layout.launch_ground_width"
+	case "Launch.GroundLength":
+		return "layout.launch_ground_length"
+	case "Launch.ViaDrill":
+		return "layout.launch_via_drill (or layout.via_drill)"
+	case "Launch.ViaPad":
+		return "layout.launch_via_pad (or layout.via_pad)"
+	case "Launch.ViaPitch":
+		return "layout.launch_via_pitch"
+	case "Launch":
+		return "layout.port = \"edge\" (the landing's sizes)"
+	case "Fence.Pitch":
+		return "layout.fence_pitch"
+	case "Fence.Offset":
+		return "layout.fence_offset"
+	case "Fence.Drill":
+		return "layout.via_drill"
+	case "Fence.Pad":
+		return "layout.via_pad"
+	case "Fence":
+		return "layout.fence_pitch"
+	}
+	return ""
+}
+
+// DesignKeyError is a refusal of the layout traced back to the design key
+// that caused it. It unwraps to the layout's *geom.SpecError.
+type DesignKeyError struct {
+	Key string          // the design key, e.g. "layout.fence_pitch"
+	Err *geom.SpecError // the layout's refusal
+}
+
+func (e *DesignKeyError) Error() string {
+	return fmt.Sprintf("%s: %s", e.Key, e.Err.Detail)
+}
+
+func (e *DesignKeyError) Unwrap() error { return e.Err }

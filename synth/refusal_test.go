@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"stubcraft/synth"
+	"stubcraft/synth/geom"
 )
 
 // demoWith returns the embedded demo design with the given text replaced.
@@ -90,4 +91,25 @@ func TestBuildRefusals(t *testing.T) {
 			t.Fatalf("got %v, want context.Canceled", err)
 		}
 	})
+}
+
+// A size the layout itself refuses (the landing's via holes would touch)
+// comes back as a *DesignKeyError naming the design key that set it, and
+// still unwraps to the layout's *geom.SpecError and its reason.
+func TestLayoutRefusalNamesDesignKey(t *testing.T) {
+	for _, c := range []struct{ layout, key string }{
+		{"port = \"edge\"\nlaunch_via_pitch = \"0.2mm\"\n", "layout.launch_via_pitch"},
+		{"port = \"edge\"\nlaunch_via_pad = \"9mm\"\n", "layout.launch_via_pad"},
+	} {
+		in := demoWith(t, "[layout]\n", "[layout]\n"+c.layout)
+		_, err := synth.Build(context.Background(), in)
+		var ke *synth.DesignKeyError
+		if !errors.As(err, &ke) || !strings.HasPrefix(ke.Key, c.key) || !strings.Contains(err.Error(), c.key) {
+			t.Errorf("%q: got %v, want a DesignKeyError naming %s", c.layout, err, c.key)
+			continue
+		}
+		if !errors.Is(err, geom.ErrVia) {
+			t.Errorf("%q: %v does not unwrap to geom.ErrVia", c.layout, err)
+		}
+	}
 }

@@ -33,13 +33,13 @@ func checkFence(s Spec) error {
 		v    float64
 	}{{"Fence.Pitch", f.Pitch}, {"Fence.Offset", f.Offset}, {"Fence.Drill", f.Drill}, {"Fence.Pad", f.Pad}} {
 		if !(v.v > 0) || math.IsInf(v.v, 0) || Nanometres(v.v) <= 0 {
-			return specErr(v.name, ErrSize, "%g m", v.v)
+			return specErr(v.name, ErrSize, "%g mm", v.v*1e3)
 		}
 	}
 	pad, pitch, off := Nanometres(f.Pad), Nanometres(f.Pitch), Nanometres(f.Offset)
 	switch {
 	case f.Pad <= f.Drill:
-		return specErr("Fence.Pad", ErrVia, "fence via pad %g m is not wider than its drill %g m", f.Pad, f.Drill)
+		return specErr("Fence.Pad", ErrVia, "fence via pad %g mm is not wider than its drill %g mm", f.Pad*1e3, f.Drill*1e3)
 	case pitch < pad+Nanometres(StitchSpacing):
 		return specErr("Fence.Pitch", ErrRange, "%s mm is below the fence via pad %s mm + %s mm spacing", mm(pitch), mm(pad), mm(Nanometres(StitchSpacing)))
 	case off < pad/2+Nanometres(StitchSetback):

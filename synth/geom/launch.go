@@ -48,16 +48,16 @@ func checkLaunch(l LaunchSpec) error {
 		{"Launch.ViaDrill", l.ViaDrill}, {"Launch.ViaPad", l.ViaPad}, {"Launch.ViaPitch", l.ViaPitch},
 	} {
 		if !(f.v > 0) || math.IsInf(f.v, 0) || Nanometres(f.v) <= 0 {
-			return specErr(f.name, ErrSize, "%g m", f.v)
+			return specErr(f.name, ErrSize, "%g mm", f.v*1e3)
 		}
 	}
 	switch {
 	case l.ViaPad <= l.ViaDrill:
-		return specErr("Launch.ViaPad", ErrVia, "ground via pad %g m is not wider than its drill %g m", l.ViaPad, l.ViaDrill)
+		return specErr("Launch.ViaPad", ErrVia, "ground via pad %g mm is not wider than its drill %g mm", l.ViaPad*1e3, l.ViaDrill*1e3)
 	case l.ViaPad > l.GroundWidth || l.ViaPad > l.GroundLength:
-		return specErr("Launch.ViaPad", ErrVia, "ground via pad %g m does not fit the %g × %g m ground pad", l.ViaPad, l.GroundLength, l.GroundWidth)
+		return specErr("Launch.ViaPad", ErrVia, "ground via pad %g mm does not fit the %g × %g mm ground pad", l.ViaPad*1e3, l.GroundLength*1e3, l.GroundWidth*1e3)
 	case l.ViaPitch <= l.ViaDrill:
-		return specErr("Launch.ViaPitch", ErrVia, "ground vias at %g m pitch: the holes (%g m) would touch", l.ViaPitch, l.ViaDrill)
+		return specErr("Launch.ViaPitch", ErrVia, "ground vias at %g mm pitch: the holes (%g mm) would touch", l.ViaPitch*1e3, l.ViaDrill*1e3)
 	}
 	return nil
 }

@@ -92,6 +92,11 @@ for i, (key, v, frag) in enumerate([
 ]):
     bad_design(f"match-{i+1}.toml", design(match={key: v}), f"match.{key}", frag)
 bad_design("unknown-top.toml", design(top={"frequncy": '"1GHz"'}), "frequncy", "unknown key")
+# refusals from the layout itself name the design key that set the size
+bad_design("launch-via-pitch.toml", design(extra='[layout]\nport = "edge"\nlaunch_via_pitch = "0.2mm"\n'),
+           "layout.launch_via_pitch", "0.2 mm pitch", "would touch")
+bad_design("fence-pitch-pad.toml", design(extra='[layout]\nfence_pitch = "2mm"\nvia_drill = "0.3mm"\nvia_pad = "0.31mm"\nfence_offset = "0.1mm"\n'),
+           "layout.fence_offset", "half the via pad")
 bad_design("unknown-layout.toml", design(extra='[layout]\nfeed_lenght = "5mm"\n'), "layout.feed_lenght", "feed_length")
 bad_design("match-array.toml", design(match=False, extra='[[match]]\ntopology = "shunt-stub"\nstub = "short"\n'), "match", "a table, not an array of tables")
 bad_design("syntax.toml", design() + 'name = "twice"\n', "name")
