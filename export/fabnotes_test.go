@@ -17,9 +17,9 @@ import (
 	"stubcraft/synth"
 )
 
-// buildFiles builds a design (the demo when path is "") and writes every
-// artefact into a map by name.
-func buildFiles(t *testing.T, path string) (*synth.Result, map[string][]byte) {
+// buildResult builds a design (the demo when path is "") without its
+// tolerance analysis.
+func buildResult(t *testing.T, path string) *synth.Result {
 	t.Helper()
 	var in synth.BuildInput
 	var err error
@@ -36,6 +36,14 @@ func buildFiles(t *testing.T, path string) (*synth.Result, map[string][]byte) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	return res
+}
+
+// buildFiles builds a design (the demo when path is "") and writes every
+// artefact into a map by name.
+func buildFiles(t *testing.T, path string) (*synth.Result, map[string][]byte) {
+	t.Helper()
+	res := buildResult(t, path)
 	out := map[string][]byte{}
 	for _, a := range export.Files(res, export.FileOptions{Version: "test", Page: "a4", Fit: "scale", Created: time.Unix(0, 0)}) {
 		if strings.HasSuffix(a.Name, ".png") || strings.HasSuffix(a.Name, ".svg") && a.Name != "layout.svg" {

@@ -2,13 +2,11 @@ package export_test
 
 import (
 	"bytes"
-	"context"
 	"testing"
 	"time"
 
 	"stubcraft/export"
 	"stubcraft/export/internal/gerberread"
-	"stubcraft/synth"
 	"stubcraft/synth/geom"
 )
 
@@ -27,21 +25,7 @@ func TestPullBackOnParsedGerber(t *testing.T) {
 		{"edge launch", "../testdata/designs/edge-launch-fence.toml"},
 	} {
 		t.Run(c.name, func(t *testing.T) {
-			var in synth.BuildInput
-			var err error
-			if c.path == "" {
-				in, err = synth.LoadDemo(synth.LoadOptions{})
-			} else {
-				in, err = synth.LoadDesign(c.path, synth.LoadOptions{})
-			}
-			if err != nil {
-				t.Fatal(err)
-			}
-			in.SkipTolerance = true
-			res, err := synth.Build(context.Background(), in)
-			if err != nil {
-				t.Fatal(err)
-			}
+			res := buildResult(t, c.path)
 			clr := geom.Nanometres(res.Design.Layout.EdgeClearance)
 			if clr != 300000 {
 				t.Fatalf("edge clearance %d nm, want the 0.3 mm default", clr)
