@@ -438,7 +438,7 @@ func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
 		r.Notes = append(r.Notes, "line widths from the 2-D field solver (solder mask or grounded coplanar lines); the tee, open-end and via corrections use the closed-form microstrip models")
 	}
 	if len(ph.Board.Stubs) > 0 {
-		r.Notes = append(r.Notes, "the T-junction model is checked against the project's full-wave (FDTD) tee sweep (testdata/tee: impedance ratios 0.54–1.92, εr 2.2–10.2, f·h up to 5 GHz·mm, coarse mesh): Hammerstad's (1981, from memory) reference planes with the transformer, the susceptance and the through-arm shift fitted to it, it draws each stub within 1.0° and places each through arm within 0.3° of the full-wave junction's on all 10 tees swept; the demo's drawn copper then has its full-wave best match 0.56 % below f0 at −35.7 dB (DEVELOPERS.md); the corrections it drives are listed per element (tee_mm)")
+		r.Notes = append(r.Notes, "the T-junction model is checked against the project's full-wave (FDTD) tee sweep (testdata/tee: impedance ratios 0.54–1.92, εr 2.2–10.2, f·h up to 5 GHz·mm, coarse mesh): Hammerstad's (1981, from memory) reference planes with the transformer, the susceptance and the through-arm shift fitted to it, it draws each stub within 1.0° and places each through arm within 0.3° of the full-wave junction's on all 10 tees swept; the sweep predates the solver's z-cell fix, and on the current solver the demo's drawn copper has its full-wave best match 1.05 % below f0 at −30.3 dB, just outside the 1 % aimed at (DEVELOPERS.md; build --fullwave-centre removes such an offset); the corrections it drives are listed per element (tee_mm)")
 	}
 	for _, e := range ph.Elements {
 		if e.Step != 0 {
