@@ -12,13 +12,10 @@ import (
 	"stubcraft/synth/geom"
 )
 
-// A long open stub on a board limited to 16 mm in y builds: synth.Build,
-// GeomSpec and geom.Build lay the stub out as a mitred L whose centre-line
-// length is the report's drawn_length_mm, and LayoutNotes says so. The
-// design is invented; its stub is about 9.8 mm, which with the default
-// 5 mm margin would need a board about 21 mm tall.
-func TestBentStubEndToEnd(t *testing.T) {
-	text := `
+// bentStubDesign is an invented design whose open stub (about 9.8 mm) bends
+// on a board limited to 16 mm in y; it ends in its [layout] table, so a
+// test may append layout keys.
+const bentStubDesign = `
 name = "bent"
 frequency = "2.45GHz"
 z0 = 50
@@ -31,7 +28,15 @@ stub = "open"
 pick = "shortest"
 [layout]
 stub_side = "up"
-max_board = ["40mm", "16mm"]
+`
+
+// A long open stub on a board limited to 16 mm in y builds: synth.Build,
+// GeomSpec and geom.Build lay the stub out as a mitred L whose centre-line
+// length is the report's drawn_length_mm, and LayoutNotes says so. The
+// design is invented; its stub is about 9.8 mm, which with the default
+// 5 mm margin would need a board about 21 mm tall.
+func TestBentStubEndToEnd(t *testing.T) {
+	text := bentStubDesign + `max_board = ["40mm", "16mm"]
 `
 	d, err := synth.DecodeDesign(strings.NewReader(text), "bent.toml", "")
 	if err != nil {
@@ -109,20 +114,7 @@ max_board = ["40mm", "16mm"]
 // the centre line is the straight length and the check misses by δ
 // (about 0.5 mm).
 func TestBentStubCompensated(t *testing.T) {
-	text := `
-name = "bent"
-frequency = "2.45GHz"
-z0 = 50
-stackup = "hydrocarbon-ceramic-0.51mm"
-[load]
-impedance = "27-j35"
-[match]
-topology = "shunt-stub"
-stub = "open"
-pick = "shortest"
-[layout]
-stub_side = "up"
-`
+	text := bentStubDesign
 	st, ok := stackups.Preset("hydrocarbon-ceramic-0.51mm")
 	if !ok {
 		t.Fatal("no preset hydrocarbon-ceramic-0.51mm")
