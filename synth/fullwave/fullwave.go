@@ -31,11 +31,14 @@ var ErrNoPort = errors.New("fullwave: no copper at a port")
 // the load port (x = 0), as in network.s2p.
 func Structure(res *synth.Result, freqs []float64) (fdtd.Structure, error) {
 	l := res.Layout
-	st := res.Stackup
+	// The laminate at f0, as the circuit model sees it: a stackup that
+	// gives εr and tanδ at another frequency (er_frequency) has them moved
+	// to f0 by the same wideband Debye model.
+	sub, _ := synth.SubstrateAt(res.Stackup, res.Design.Freq)
 	bmin, bmax := l.Board.Bounds()
 	s := fdtd.Structure{
-		Er: st.Dielectric.Er, TanD: st.Dielectric.LossTangent, F0: res.Design.Freq,
-		H: st.Dielectric.Thickness, BoardMinX: bmin.X, BoardMaxX: bmax.X,
+		Er: sub.Er, TanD: sub.LossTangent, F0: res.Design.Freq,
+		H: sub.Height, BoardMinX: bmin.X, BoardMaxX: bmax.X,
 		Freqs: freqs, Zref: res.Design.Z0,
 	}
 	for _, n := range l.Copper {

@@ -4,6 +4,7 @@ import (
 	"context"
 	"testing"
 
+	"stubcraft/physical"
 	"stubcraft/physical/fdtd"
 	"stubcraft/synth"
 )
@@ -46,6 +47,16 @@ func TestStructureOfDemo(t *testing.T) {
 		if !found {
 			t.Errorf("port width %d nm not among the end segments' widths %v", p.Width, ends)
 		}
+	}
+	// fr4-1.6mm gives εr 4.4 and tanδ 0.02 at 1 GHz; the circuit model
+	// moves them to f0 = 2.45 GHz with the wideband Debye model of
+	// Djordjevic and Sarkar (physical.FitWidebandDebye), and the full-wave
+	// board must be the same laminate. Over that model εr falls with
+	// frequency (a causal dielectric with loss), so the value at 2.45 GHz
+	// lies below 4.4.
+	wantEr, wantTanD := physical.FitWidebandDebye(4.4, 0.02, 1e9).At(2.45e9)
+	if s.Er != wantEr || s.TanD != wantTanD || !(s.Er < 4.4) {
+		t.Errorf("full-wave substrate εr %.4f, tanδ %.5f: want the laminate at f0, εr %.4f (below 4.4 at 1 GHz), tanδ %.5f", s.Er, s.TanD, wantEr, wantTanD)
 	}
 	if len(s.Copper) < len(res.Layout.Copper) {
 		t.Errorf("%d copper polygons, layout has %d nets", len(s.Copper), len(res.Layout.Copper))
