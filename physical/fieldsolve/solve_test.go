@@ -199,6 +199,47 @@ func TestConvergence(t *testing.T) {
 	}
 }
 
+func TestIterationEnergyError(t *testing.T) {
+	// Source: exact — for the potential with the fixed nodes set, the
+	// energy Σ G·Δφ² exceeds the converged one by ‖u − u*‖²_A ≥ 0
+	// (Hestenes and Stiefel 1952): the stopped iteration must lie above
+	// the converged energy, by no more than a few times the stopping
+	// fraction, on each grid of the sequence started from the coarser.
+	const etol = 5e-7
+	for _, cs := range []CrossSection{
+		{Geometry: Microstrip, Width: 3e-3, Height: 1.6e-3, Er: 4.4, Thickness: 35e-6, MaskThickness: 25e-6, MaskEr: 3.5},
+		{Geometry: GCPW, Width: 1e-3, Height: 0.5e-3, Er: 3.5, Thickness: 35e-6, Gap: 0.2e-3, GroundWidth: 1.5e-3},
+		{Geometry: Stripline, Width: 0.3e-3, Spacing: 1e-3, Er: 3.5, Thickness: 17e-6, Offset: 0.1e-3},
+	} {
+		l := newLayout(cs, 1)
+		var prev *grid
+		var prevPhi []float64
+		n := startDensity
+		for level := 0; level < 3; level++ {
+			g := newGrid(&l, n)
+			start := make([]float64, len(g.label))
+			if prev != nil {
+				start = interpolate(prev, prevPhi, g)
+			}
+			s := newSystem(g, false)
+			stopped := append([]float64(nil), start...)
+			if _, err := s.solve(stopped, etol, 100000); err != nil {
+				t.Fatal(err)
+			}
+			converged := append([]float64(nil), start...)
+			if _, err := s.solve(converged, 1e-13, 100000); err != nil {
+				t.Fatal(err)
+			}
+			e, eStar := s.energy(stopped), s.energy(converged)
+			if d := (e - eStar) / eStar; d < -1e-12 || d > 4*etol {
+				t.Errorf("%v grid %d: energy %.10g, converged %.10g: relative excess %.2g, want 0…%.2g", cs.Geometry, level, e, eStar, d, 4*etol)
+			}
+			prev, prevPhi = g, stopped
+			n *= refineRatio
+		}
+	}
+}
+
 func TestRichardson(t *testing.T) {
 	// Source: exact — for f(h) = f* + a·h^p on grids refined by ρ the
 	// three-level extrapolation recovers f* and p exactly when p is at
