@@ -10,8 +10,6 @@ import (
 	"strings"
 	"testing"
 	"time"
-
-	"stubcraft/physical"
 )
 
 // The discontinuity records of testdata/discontinuities (width step, via,
@@ -227,12 +225,14 @@ func TestRecordStep(t *testing.T) {
 	}
 }
 
+// viaCase is one shorted-stub board: substrate, strip width, drill, pad
+// and the via row's largest pitch, and the highest frequency.
+type viaCase struct{ er, h, w, drill, pad, pitch, fmax float64 }
+
 // viaCases are the shorted-stub boards: substrate, strip width, drill,
 // pad and the via row's largest pitch (as [layout] via_pitch; the build's
 // default is twice the pad), and the highest frequency.
-var viaCases = []struct {
-	er, h, w, drill, pad, pitch, fmax float64
-}{
+var viaCases = []viaCase{
 	{3.66, 0.8e-3, 1.0e-3, 0.4e-3, 0.8e-3, 1.6e-3, 5e9},  // one via, pad inside the strip
 	{3.66, 0.8e-3, 1.0e-3, 0.8e-3, 1.2e-3, 2.4e-3, 5e9},  // one via, pad overhangs
 	{4.4, 1.6e-3, 1.2e-3, 0.6e-3, 1.0e-3, 2.0e-3, 2.5e9}, // one via, thick board
@@ -269,23 +269,9 @@ func TestRecordVia(t *testing.T) {
 		if !caseSelected(ci) {
 			continue
 		}
-		freqs := linspace(c.fmax/5, c.fmax, 9)
-		w, xv := nm(c.w), nm(viaLength)
-		end := xv + nm(c.pad)/2
-		p2 := end + nm(10*c.h)
-		bmax := p2 + nm(2*math.Max(c.h, c.w))
-		s := Structure{Er: c.er, H: c.h, BoardMinX: 0, BoardMaxX: bmax, Freqs: freqs,
-			Copper: []Polygon{RectPolygon(0, -w/2, end, w-w/2), RectPolygon(p2, -w/2, bmax, w-w/2)},
-			Ports:  [2]Port{{Side: Left, Width: w}, {Side: Right, Width: w}}}
-		n, sp := physical.ViaRow(c.w, c.drill, c.pad, c.pitch)
-		for i := 0; i < n; i++ {
-			y := nm(-float64(n-1)*sp/2 + float64(i)*sp)
-			ctr := Point{xv, y}
-			s.Vias = append(s.Vias, Via{Center: ctr, Diameter: nm(c.drill)})
-			if c.pad > c.w || n > 1 {
-				s.Copper = append(s.Copper, roundPad(ctr, nm(c.pad)))
-			}
-		}
+		s := viaBoard(c)
+		n := len(s.Vias)
+		xv := s.Vias[0].Center.X
 		vm := mesh
 		vm.ViaEdges = os.Getenv("VIA_EDGES") != "off"
 		r, err := Solve(context.Background(), s, Options{Mesh: vm})

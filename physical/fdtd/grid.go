@@ -134,14 +134,23 @@ func newGrid(s Structure, p MeshParams, edge float64) (*Grid, error) {
 		}
 	}
 	yfix = append(yfix, ey...)
+	minCell := d // lines closer than half of it merge
 	for _, v := range s.Vias {
 		cx, cy := float64(v.Center.X)*1e-9, float64(v.Center.Y)*1e-9
 		xfix = append(xfix, cx)
 		yfix = append(yfix, cy)
-		if p.ViaEdges {
-			r := float64(v.Diameter) * 1e-9 / 2
-			xfix = append(xfix, cx-r, cx+r)
-			yfix = append(yfix, cy-r, cy+r)
+		k := p.ViaDivisions
+		if k == 0 && p.ViaEdges {
+			k = 1
+		}
+		r := float64(v.Diameter) * 1e-9 / 2
+		if k > 0 {
+			minCell = math.Min(minCell, r/float64(k))
+		}
+		for i := 1; i <= k; i++ {
+			d := r * float64(i) / float64(k)
+			xfix = append(xfix, cx-d, cx+d)
+			yfix = append(yfix, cy-d, cy+d)
 		}
 	}
 	ymin, ymax := math.Inf(1), math.Inf(-1)
@@ -154,8 +163,8 @@ func newGrid(s Structure, p MeshParams, edge float64) (*Grid, error) {
 	yfix = append(yfix, ymin-margin, ymax+margin)
 
 	dmaxX := dmaxSub
-	g.X = withPML(gradedLines(xfix, d, dmaxX, p.Grading), p.PMLCells, true, true)
-	g.Y = withPML(gradedLines(yfix, d, dmaxX, p.Grading), p.PMLCells, true, true)
+	g.X = withPML(gradedLines(xfix, minCell, dmaxX, p.Grading), p.PMLCells, true, true)
+	g.Y = withPML(gradedLines(yfix, minCell, dmaxX, p.Grading), p.PMLCells, true, true)
 
 	// z: uniform substrate cells no taller than half the edge cell, then
 	// graded air up to the absorbing layer. The line's Z0 depends on how

@@ -42,6 +42,11 @@ type MeshParams struct {
 	// levels, so verify's grids are as before; the via record of
 	// testdata/discontinuities turns it on.
 	ViaEdges bool
+	// ViaDivisions, when positive, puts grid lines at the via centre and
+	// at i/ViaDivisions of the radius on each side (i = 1 … ViaDivisions)
+	// in x and y, so that the column is every node within the radius on a
+	// locally uniform grid; 1 is ViaEdges. It overrides ViaEdges.
+	ViaDivisions int
 }
 
 // Params returns the level's mesh numbers.

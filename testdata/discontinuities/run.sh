@@ -3,7 +3,9 @@
 # (issues 11 and 12): simulates each board with physical/fdtd and writes
 # step.tsv, via.tsv and bend.tsv here, each headed by the command, the
 # commit and the date. go test ./physical checks the models against them.
-# Usage: testdata/discontinuities/run.sh [Step|Via|Bend]   (slow; runs at low priority)
+# Usage: testdata/discontinuities/run.sh [Step|Via|ViaColumn|Bend]   (slow; runs at low priority)
+#   ViaColumn: the via cases with more and more nodes across the column (via-column.tsv;
+#   DIVISIONS=0,1,2,4,8 chooses the drawings)
 #   MESH=coarse|normal|fine (default coarse), CASES=0,2 (a subset of the cases)
 set -euo pipefail
 cd "$(dirname "$0")/../.."
