@@ -3,6 +3,8 @@ package physical
 import (
 	"math"
 	"math/cmplx"
+	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -10,19 +12,32 @@ import (
 // centre as the full-wave run sees it, per frequency.
 type viaFullWave struct {
 	er, h, w, drill, pad, pitch, xv float64
-	at                              []sPort
+	// divisions is how finely the solver drew the via column
+	// (MeshParams.ViaDivisions) in via-column.tsv; −1 in the other records.
+	divisions int
+	at        []sPort
 }
 
-func readViaRecord(t *testing.T, name string) []*viaFullWave {
+// readViaRecord reads via.tsv or via-normal.tsv (ntext 1: the case) or
+// via-column.tsv (ntext 2: the case and the column's divisions).
+func readViaRecord(t *testing.T, name string, ntext int) []*viaFullWave {
 	t.Helper()
 	var out []*viaFullWave
 	idx := map[string]*viaFullWave{}
-	for _, r := range readDiscRecord(t, name, 1) {
+	for _, r := range readDiscRecord(t, name, ntext) {
 		n := r.num
-		c, ok := idx[r.text[0]]
+		key := strings.Join(r.text, "/")
+		c, ok := idx[key]
 		if !ok {
-			c = &viaFullWave{er: n[0], h: n[1] * 1e-3, w: n[2] * 1e-3, drill: n[3] * 1e-3, pad: n[4] * 1e-3, pitch: n[5] * 1e-3, xv: n[6] * 1e-3}
-			idx[r.text[0]] = c
+			c = &viaFullWave{er: n[0], h: n[1] * 1e-3, w: n[2] * 1e-3, drill: n[3] * 1e-3, pad: n[4] * 1e-3, pitch: n[5] * 1e-3, xv: n[6] * 1e-3, divisions: -1}
+			if ntext == 2 {
+				k, err := strconv.Atoi(r.text[1])
+				if err != nil {
+					t.Fatalf("%s: divisions %q: %v", name, r.text[1], err)
+				}
+				c.divisions = k
+			}
+			idx[key] = c
 			out = append(out, c)
 		}
 		c.at = append(c.at, sPortOf(n[7:]))
@@ -75,7 +90,7 @@ func (c *viaFullWave) lowL() (fw, model float64) {
 // model's on every case (the gap pinned, so that a change to the model or
 // the solver shows up). The model is unchanged (see DEVELOPERS.md, "Via").
 func TestViaAgainstFullWave(t *testing.T) {
-	coarse := readViaRecord(t, "via.tsv")
+	coarse := readViaRecord(t, "via.tsv", 1)
 	if len(coarse) != 6 {
 		t.Fatalf("via.tsv has %d cases, want 6", len(coarse))
 	}
@@ -90,7 +105,7 @@ func TestViaAgainstFullWave(t *testing.T) {
 			t.Errorf("h %.3f mm drill %.2f mm: full-wave / model L = %.2f, recorded gap 1.3–2.4: it changed", c.h*1e3, c.drill*1e3, r)
 		}
 	}
-	for _, c := range readViaRecord(t, "via-normal.tsv") {
+	for _, c := range readViaRecord(t, "via-normal.tsv", 1) {
 		fw, _ := c.lowL()
 		fc, ok := byKey[[3]float64{c.h, c.w, c.drill}]
 		if !ok {

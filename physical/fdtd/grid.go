@@ -143,6 +143,9 @@ func newGrid(s Structure, p MeshParams, edge float64) (*Grid, error) {
 		if k == 0 && p.ViaEdges {
 			k = 1
 		}
+		if v.Stitch {
+			k = 0
+		}
 		r := float64(v.Diameter) * 1e-9 / 2
 		if k > 0 {
 			minCell = math.Min(minCell, r/float64(k))

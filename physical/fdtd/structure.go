@@ -14,10 +14,17 @@ type Point struct{ X, Y int64 }
 type Polygon []Point
 
 // Via is a perfectly conducting round column from the ground plane to the
-// top face, centre and diameter in nm.
+// top face, centre and diameter in nm. A via that carries the circuit's
+// current (a shorted stub's) is drawn with MeshParams.ViaDivisions grid
+// lines across it; a ground-stitching via (a fence, a landing's ground
+// pads, a coplanar pour), Stitch, is drawn as the grid node at its centre
+// alone (a thinner post, about 0.2 of the local cell: see the via column
+// study in DEVELOPERS.md), which keeps the grid from refining at every
+// stitch.
 type Via struct {
 	Center   Point
 	Diameter int64
+	Stitch   bool
 }
 
 // Side says on which board edge a port lies.

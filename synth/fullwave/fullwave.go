@@ -52,7 +52,7 @@ func Structure(res *synth.Result, freqs []float64) (fdtd.Structure, error) {
 		s.Copper = append(s.Copper, fdtd.RectPolygon(p.Center.X-p.W/2, p.Center.Y-p.H/2, p.Center.X-p.W/2+p.W, p.Center.Y-p.H/2+p.H))
 	}
 	for _, v := range l.Vias {
-		s.Vias = append(s.Vias, fdtd.Via{Center: fdtd.Point{X: v.Center.X, Y: v.Center.Y}, Diameter: v.Drill})
+		s.Vias = append(s.Vias, fdtd.Via{Center: fdtd.Point{X: v.Center.X, Y: v.Center.Y}, Diameter: v.Drill, Stitch: v.Net == geom.NetGround})
 	}
 	if len(l.Copper) == 0 {
 		return s, fmt.Errorf("%w: the layout has no copper", ErrNoPort)
