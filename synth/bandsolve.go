@@ -73,22 +73,19 @@ func SolveBand(load Load, z0, f1, f2 float64, topology string, end StubEnd, sect
 			out.Solutions = append(out.Solutions, BandSolution{Candidate: c})
 			continue
 		}
-		var note string
-		var fe *ForbiddenRegionError
 		if c.Topology == TopologyDoubleStub {
-			if _, err := SolveDoubleStub(zl, z0, 0, mc.SpacingDeg, c.End); errors.As(err, &fe) {
-				note = fe.Error() + " (done)"
+			s, err := bandDoubleStub(d, mc, c, zl, load, fs)
+			if err != nil {
+				return BandSolve{}, err
 			}
+			out.Solutions = append(out.Solutions, s)
+			continue
 		}
 		secs, worst, err := OptimiseIdeal(secs, load, z0, f0, fs, c.Topology == TopologyQuarterWave, MinLineZ0, MaxLineZ0)
 		if err != nil {
 			return BandSolve{}, err
 		}
-		c.WorstS11DB = 20 * math.Log10(worst)
-		for _, s := range secs {
-			c.TotalDeg += s.LengthDeg
-		}
-		out.Solutions = append(out.Solutions, BandSolution{Candidate: c, Sections: secs, Note: note})
+		out.Solutions = append(out.Solutions, bandSolution(c, secs, worst, ""))
 	}
 	cs := make([]Candidate, len(out.Solutions))
 	for i, s := range out.Solutions {
@@ -112,4 +109,109 @@ func SolveBand(load Load, z0, f1, f2 float64, topology string, end StubEnd, sect
 	}
 	out.Solutions = sorted
 	return out, nil
+}
+
+// bandSolution is candidate c with its optimised sections and their worst
+// |Γ| in the band.
+func bandSolution(c Candidate, secs []Section, worst float64, note string) BandSolution {
+	c.WorstS11DB = 20 * math.Log10(worst)
+	for _, s := range secs {
+		c.TotalDeg += s.LengthDeg
+	}
+	return BandSolution{Candidate: c, Sections: secs, Note: note}
+}
+
+// MinOpenStubDeg is the electrical length at f0 below which an open stub
+// of a band solution counts as gone: its susceptance is then below
+// tan 1° ≈ 0.017·Y0 near f0, which moves |Γ| of a matched line by less
+// than 0.009 (judgement, no source).
+const MinOpenStubDeg = 1.0
+
+// singleStubOf returns what a double stub (line, stub, line, stub from the
+// load) is when one of its open stubs is shorter than MinOpenStubDeg: the
+// line from the load to the stub that is left, and that stub, and which
+// stub (1 or 2) went. The line after the last stub is of z0 and leaves
+// |S11| as it is, so it goes too. ok is false unless exactly one stub went.
+func singleStubOf(secs []Section) (single []Section, gone int, ok bool) {
+	if len(secs) != 4 || secs[1].Kind != ShuntStub || secs[3].Kind != ShuntStub {
+		return nil, 0, false
+	}
+	short1 := secs[1].End == Open && secs[1].LengthDeg < MinOpenStubDeg
+	short2 := secs[3].End == Open && secs[3].LengthDeg < MinOpenStubDeg
+	switch {
+	case short1 == short2:
+		return nil, 0, false
+	case short2:
+		return []Section{secs[0], secs[1]}, 2, true
+	}
+	line := secs[0]
+	line.LengthDeg += secs[2].LengthDeg
+	return []Section{line, secs[3]}, 1, true
+}
+
+// bandStart is one double stub optimised across the band from one of its
+// solutions at f0.
+type bandStart struct {
+	secs  []Section
+	worst float64 // |Γ| in the band
+	// single is what is left when a stub went (singleStubOf); gone names it.
+	single []Section
+	gone   int
+}
+
+// singleText describes the single stub a start ended as.
+func (b bandStart) singleText() string {
+	return fmt.Sprintf("the band optimisation shrank stub %d to %.2f°, leaving a single %s stub (%.1f° of line, stub %.1f°) with a worst |S11| of %.2f dB in the band",
+		b.gone, b.secs[2*b.gone-1].LengthDeg, b.single[1].End, b.single[0].LengthDeg, b.single[1].LengthDeg, 20*math.Log10(b.worst))
+}
+
+// bandDoubleStub optimises double stub c from each of its two solutions at
+// f0 and keeps the best one whose two stubs are both there. The band
+// optimisation keeps lengths positive, so it can shrink an open stub to 0°
+// but not carry it on to 180°, and from one of the two starts it often
+// does: what is left is a single stub, which is no double stub. When every
+// start ends so, the candidate says so in Err, with the single stub; when
+// a single stub did better than the double stub kept, its note says so.
+func bandDoubleStub(d Design, m MatchSpec, c Candidate, zl complex128, load Load, fs []float64) (BandSolution, error) {
+	var note string
+	var fe *ForbiddenRegionError
+	if _, err := SolveDoubleStub(zl, d.Z0, 0, m.SpacingDeg, c.End); errors.As(err, &fe) {
+		note = fe.Error() + " (done)"
+	}
+	var double, single *bandStart
+	for _, p := range []Pick{1, 2} {
+		m.Pick = p
+		secs, _, err := d.matchSections(m, c.Topology, c.End, zl, ElectricalOptions{})
+		if err != nil {
+			return BandSolution{}, err
+		}
+		secs, worst, err := OptimiseIdeal(secs, load, d.Z0, d.Freq, fs, false, MinLineZ0, MaxLineZ0)
+		if err != nil {
+			return BandSolution{}, err
+		}
+		b := bandStart{secs: secs, worst: worst}
+		b.single, b.gone, _ = singleStubOf(secs)
+		switch {
+		case b.single == nil && (double == nil || b.worst < double.worst):
+			double = &b
+		case b.single != nil && (single == nil || b.worst < single.worst):
+			single = &b
+		}
+	}
+	if double == nil {
+		c.Err = "no double stub: from each solution at f0 " + single.singleText()
+		return BandSolution{Candidate: c, Note: note}, nil
+	}
+	if single != nil && 20*math.Log10(single.worst) < 20*math.Log10(double.worst)-candidateTieDB {
+		note = joinNotes(note, "from the other solution at f0 "+single.singleText()+", better than this double stub")
+	}
+	return bandSolution(c, double.secs, double.worst, note), nil
+}
+
+// joinNotes joins two notes, either of which may be empty.
+func joinNotes(a, b string) string {
+	if a == "" || b == "" {
+		return a + b
+	}
+	return a + "; " + b
 }
