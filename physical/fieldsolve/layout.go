@@ -91,7 +91,7 @@ func clamp(v, lo, hi float64) float64 { return math.Max(lo, math.Min(hi, v)) }
 
 // node labels the grid node at (x, y); tol absorbs rounding of coordinates
 // that were placed on copper boundaries.
-func (l *layout) node(x, y, tol float64) int {
+func (l *layout) node(x, y, tol float64) int8 {
 	if y <= tol || y >= l.yMax-tol || x >= l.xMax-tol {
 		return ground
 	}

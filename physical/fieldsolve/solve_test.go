@@ -227,7 +227,7 @@ func TestIterationEnergyError(t *testing.T) {
 				t.Fatal(err)
 			}
 			converged := append([]float64(nil), start...)
-			if _, err := s.solve(converged, 1e-13, 100000); err != nil {
+			if _, err := newSystem(g, false).solve(converged, 1e-13, 100000); err != nil {
 				t.Fatal(err)
 			}
 			e, eStar := s.energy(stopped), s.energy(converged)

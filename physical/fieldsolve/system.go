@@ -9,7 +9,7 @@ import (
 // labels and the relative permittivity of each cell.
 type grid struct {
 	xs, ys []float64
-	label  []int     // per node, k = j*nx + i
+	label  []int8    // per node, k = j*nx + i
 	eps    []float64 // per cell, c = j*(nx-1) + i, with the dielectrics
 }
 
@@ -23,7 +23,7 @@ func newGrid(l *layout, n float64) *grid {
 	g := &grid{xs: gradedAxis(kx, sx, d, n), ys: gradedAxis(ky, sy, d, n)}
 	nx, ny := g.nx(), g.ny()
 	tol := 1e-9 * l.lmin
-	g.label = make([]int, nx*ny)
+	g.label = make([]int8, nx*ny)
 	for j, y := range g.ys {
 		for i, x := range g.xs {
 			g.label[j*nx+i] = l.node(x, y, tol)
@@ -59,92 +59,134 @@ func newGrid(l *layout, n float64) *grid {
 
 // system is the five-point finite-volume matrix for one permittivity map.
 // Only couplings to the east (k+1) and north (k+nx) neighbours are stored;
-// couplings to fixed nodes are moved to the right-hand side.
+// couplings to fixed nodes are moved to the right-hand side. The rows of
+// fixed nodes are the identity, so a vector that is zero on them stays
+// zero under the matrix, and the fixed potentials never reach a free row.
 type system struct {
 	nx, ny int
 	gx, gy []float64 // edge conductances (relative permittivity × face/length)
 	diag   []float64
 	ce, cn []float64 // off-diagonal entries (≤ 0), zero where either end is fixed
-	rhs    []float64
-	fixed  []float64 // potential of fixed nodes
-	isFree []bool
+	rhs    []float64 // right-hand side; solve turns it into the residual
+	label  []int8    // the grid's node labels (free, strip, ground)
+}
+
+// fixedPotential is the potential of a fixed node: 1 V on the strip, 0 on
+// grounds.
+func fixedPotential(label int8) float64 {
+	if label == strip {
+		return 1
+	}
+	return 0
 }
 
 // newSystem assembles the system; vacuum replaces every permittivity by 1.
+// Each free row sums its four conductances in the order south, west,
+// east, north (absent ones are zero), and its right-hand side the
+// conductances to fixed neighbours times their potentials in that order.
 func newSystem(g *grid, vacuum bool) *system {
 	nx, ny := g.nx(), g.ny()
-	s := &system{nx: nx, ny: ny,
-		gx: make([]float64, nx*ny), gy: make([]float64, nx*ny),
-		diag: make([]float64, nx*ny), ce: make([]float64, nx*ny), cn: make([]float64, nx*ny),
-		rhs: make([]float64, nx*ny), fixed: make([]float64, nx*ny), isFree: make([]bool, nx*ny)}
-	eps := func(i, j int) float64 {
-		if i < 0 || j < 0 || i >= nx-1 || j >= ny-1 {
-			return 0
-		}
-		if vacuum {
-			return 1
-		}
-		return g.eps[j*(nx-1)+i]
-	}
-	for k, lab := range g.label {
-		s.isFree[k] = lab == free
-		if lab == strip {
-			s.fixed[k] = 1
+	n := nx * ny
+	s := &system{nx: nx, ny: ny, label: g.label,
+		gx: make([]float64, n), gy: make([]float64, n),
+		diag: make([]float64, n), ce: make([]float64, n), cn: make([]float64, n),
+		rhs: make([]float64, n)}
+	// cells returns row j of the cell permittivities, nil outside the
+	// domain (where they count as 0).
+	ex := nx - 1
+	var ones []float64
+	if vacuum {
+		ones = make([]float64, ex)
+		for i := range ones {
+			ones[i] = 1
 		}
 	}
-	for j := 0; j < ny; j++ {
-		for i := 0; i < nx; i++ {
-			k := j*nx + i
-			if i+1 < nx {
-				var dyl, dyu float64
-				if j > 0 {
-					dyl = g.ys[j] - g.ys[j-1]
-				}
-				if j+1 < ny {
-					dyu = g.ys[j+1] - g.ys[j]
-				}
-				s.gx[k] = (eps(i, j-1)*dyl + eps(i, j)*dyu) / (2 * (g.xs[i+1] - g.xs[i]))
-			}
-			if j+1 < ny {
-				var dxl, dxr float64
-				if i > 0 {
-					dxl = g.xs[i] - g.xs[i-1]
-				}
-				if i+1 < nx {
-					dxr = g.xs[i+1] - g.xs[i]
-				}
-				s.gy[k] = (eps(i-1, j)*dxl + eps(i, j)*dxr) / (2 * (g.ys[j+1] - g.ys[j]))
-			}
-		}
-	}
-	link := func(a, b int, c float64, off []float64) {
+	cells := func(j int) []float64 {
 		switch {
-		case s.isFree[a] && s.isFree[b]:
-			s.diag[a] += c
-			s.diag[b] += c
-			off[a] = -c
-		case s.isFree[a]:
-			s.diag[a] += c
-			s.rhs[a] += c * s.fixed[b]
-		case s.isFree[b]:
-			s.diag[b] += c
-			s.rhs[b] += c * s.fixed[a]
+		case j < 0 || j >= ny-1:
+			return nil
+		case vacuum:
+			return ones
+		}
+		return g.eps[j*ex : j*ex+ex]
+	}
+	for j := 0; j < ny; j++ {
+		var dyl, dyu float64
+		if j > 0 {
+			dyl = g.ys[j] - g.ys[j-1]
+		}
+		if j+1 < ny {
+			dyu = g.ys[j+1] - g.ys[j]
+		}
+		below, above := cells(j-1), cells(j)
+		row := s.gx[j*nx : j*nx+nx]
+		for i := 0; i < ex; i++ {
+			var el, eu float64
+			if below != nil {
+				el = below[i]
+			}
+			if above != nil {
+				eu = above[i]
+			}
+			row[i] = (el*dyl + eu*dyu) / (2 * (g.xs[i+1] - g.xs[i]))
+		}
+		if above != nil {
+			row := s.gy[j*nx : j*nx+nx]
+			dy := 2 * (g.ys[j+1] - g.ys[j])
+			for i := range row {
+				var dxl, dxr, el, er float64
+				if i > 0 {
+					dxl, el = g.xs[i]-g.xs[i-1], above[i-1]
+				}
+				if i < ex {
+					dxr, er = g.xs[i+1]-g.xs[i], above[i]
+				}
+				row[i] = (el*dxl + er*dxr) / dy
+			}
 		}
 	}
+	lab := g.label
 	for j := 0; j < ny; j++ {
 		for i := 0; i < nx; i++ {
 			k := j*nx + i
+			if lab[k] != free {
+				s.diag[k] = 1
+				continue
+			}
+			var d, b float64
+			if j > 0 {
+				c := s.gy[k-nx]
+				d += c
+				if lab[k-nx] != free {
+					b += c * fixedPotential(lab[k-nx])
+				}
+			}
+			if i > 0 {
+				c := s.gx[k-1]
+				d += c
+				if lab[k-1] != free {
+					b += c * fixedPotential(lab[k-1])
+				}
+			}
 			if i+1 < nx {
-				link(k, k+1, s.gx[k], s.ce)
+				c := s.gx[k]
+				d += c
+				if lab[k+1] != free {
+					b += c * fixedPotential(lab[k+1])
+				} else {
+					s.ce[k] = -c
+				}
 			}
 			if j+1 < ny {
-				link(k, k+nx, s.gy[k], s.cn)
+				c := s.gy[k]
+				d += c
+				if lab[k+nx] != free {
+					b += c * fixedPotential(lab[k+nx])
+				} else {
+					s.cn[k] = -c
+				}
 			}
-		}
-	}
-	for k := range s.diag {
-		if !s.isFree[k] {
-			s.diag[k] = 1
+			s.diag[k], s.rhs[k] = d, b
 		}
 	}
 	return s
@@ -186,41 +228,51 @@ type micFactor struct {
 	be, bn []float64 // backward: ce[k]/d[k], cn[k]/d[k]
 }
 
-// factor returns the MIC(0) factorisation of the system.
+// factor returns the MIC(0) factorisation of the system. The pivots of
+// the last nx nodes, all the elimination needs, are kept in one row.
 func (s *system) factor() (*micFactor, error) {
-	nx := s.nx
+	nx, ny := s.nx, s.ny
 	n := len(s.diag)
-	d := make([]float64, n)
-	for k := range d {
-		v := s.diag[k]
-		if s.isFree[k] {
-			if k >= 1 && s.ce[k-1] != 0 {
-				w := s.ce[k-1]
-				v -= w*w/d[k-1] + micOmega*w*s.cn[k-1]/d[k-1]
-			}
-			if k >= nx && s.cn[k-nx] != 0 {
-				w := s.cn[k-nx]
-				v -= w*w/d[k-nx] + micOmega*w*s.ce[k-nx]/d[k-nx]
-			}
-			if !(v > 1e-12*s.diag[k]) {
-				return nil, errors.New("incomplete Cholesky breakdown")
-			}
-		}
-		d[k] = v
-	}
-	m := &micFactor{inv: d, fw: make([]float64, n), fs: make([]float64, n),
+	diag, ce, cn, lab := s.diag[:n], s.ce[:n], s.cn[:n], s.label[:n]
+	m := &micFactor{inv: make([]float64, n), fw: make([]float64, n), fs: make([]float64, n),
 		be: make([]float64, n), bn: make([]float64, n)}
-	for k := range d {
-		iv := 1 / d[k]
-		if k >= 1 {
-			m.fw[k] = s.ce[k-1] * iv
+	// last[i] is the pivot of column i in this row once passed, else in
+	// the row below.
+	last := make([]float64, nx)
+	for j := 0; j < ny; j++ {
+		for i := 0; i < nx; i++ {
+			k := j*nx + i
+			v := diag[k]
+			if lab[k] == free {
+				if k >= 1 && ce[k-1] != 0 {
+					w := ce[k-1]
+					dw := last[nx-1] // node k-1 ends the row below
+					if i > 0 {
+						dw = last[i-1]
+					}
+					v -= w*w/dw + micOmega*w*cn[k-1]/dw
+				}
+				if k >= nx && cn[k-nx] != 0 {
+					w := cn[k-nx]
+					ds := last[i]
+					v -= w*w/ds + micOmega*w*ce[k-nx]/ds
+				}
+				if !(v > 1e-12*diag[k]) {
+					return nil, errors.New("incomplete Cholesky breakdown")
+				}
+			}
+			last[i] = v
+			iv := 1 / v
+			if k >= 1 {
+				m.fw[k] = ce[k-1] * iv
+			}
+			if k >= nx {
+				m.fs[k] = cn[k-nx] * iv
+			}
+			m.be[k] = ce[k] * iv
+			m.bn[k] = cn[k] * iv
+			m.inv[k] = iv
 		}
-		if k >= nx {
-			m.fs[k] = s.cn[k-nx] * iv
-		}
-		m.be[k] = s.ce[k] * iv
-		m.bn[k] = s.cn[k] * iv
-		m.inv[k] = iv
 	}
 	return m, nil
 }
@@ -253,25 +305,51 @@ func (m *micFactor) precond(nx int, r, z []float64) {
 }
 
 // apply computes y = A u.
-func (s *system) apply(u, y []float64) {
+func (s *system) apply(u, y []float64) { s.applyDot(u, y) }
+
+// applyDot computes y = A u and returns u·y. The rows away from the
+// first and last grid rows have all four neighbours and run without
+// tests.
+func (s *system) applyDot(u, y []float64) float64 {
 	nx := s.nx
 	n := len(u)
-	for k := 0; k < n; k++ {
-		v := s.diag[k] * u[k]
+	diag, ce, cn := s.diag[:n], s.ce[:n], s.cn[:n]
+	y = y[:n]
+	var uy float64
+	row := func(k int) {
+		v := diag[k] * u[k]
 		if k >= 1 {
-			v += s.ce[k-1] * u[k-1]
+			v += ce[k-1] * u[k-1]
 		}
 		if k+1 < n {
-			v += s.ce[k] * u[k+1]
+			v += ce[k] * u[k+1]
 		}
 		if k >= nx {
-			v += s.cn[k-nx] * u[k-nx]
+			v += cn[k-nx] * u[k-nx]
 		}
 		if k+nx < n {
-			v += s.cn[k] * u[k+nx]
+			v += cn[k] * u[k+nx]
 		}
 		y[k] = v
+		uy += u[k] * v
 	}
+	lo, hi := min(nx, n), max(n-nx, min(nx, n))
+	for k := 0; k < lo; k++ {
+		row(k)
+	}
+	for k := lo; k < hi; k++ {
+		v := diag[k] * u[k]
+		v += ce[k-1] * u[k-1]
+		v += ce[k] * u[k+1]
+		v += cn[k-nx] * u[k-nx]
+		v += cn[k] * u[k+nx]
+		y[k] = v
+		uy += u[k] * v
+	}
+	for k := hi; k < n; k++ {
+		row(k)
+	}
+	return uy
 }
 
 // solve runs preconditioned conjugate gradients from the initial potential
@@ -293,36 +371,36 @@ func (s *system) solve(phi []float64, etol float64, maxIter int) (int, error) {
 	if err != nil {
 		return 0, err
 	}
-	u := make([]float64, n)
-	for k := range u {
-		if s.isFree[k] {
-			u[k] = phi[k]
-		} else {
-			phi[k] = s.fixed[k]
+	// phi is the iterate: its fixed nodes hold their potentials, which the
+	// free rows do not see (see system), and the search directions are zero
+	// on them. The right-hand side becomes the residual.
+	for k, lab := range s.label {
+		if lab != free {
+			phi[k] = fixedPotential(lab)
 		}
 	}
 	e := s.energy(phi)
-	r := make([]float64, n)
+	r := s.rhs
 	z := make([]float64, n)
-	s.apply(u, r)
-	for k := range r {
-		r[k] = s.rhs[k] - r[k]
-		if !s.isFree[k] {
+	q := make([]float64, n)
+	s.apply(phi, q)
+	for k, lab := range s.label {
+		if lab == free {
+			r[k] -= q[k]
+		} else {
 			r[k] = 0
 		}
 	}
 	p := make([]float64, n)
-	q := make([]float64, n)
 	mf.precond(s.nx, r, z)
 	copy(p, z)
 	rz := dot(r, z)
 	converged := rz == 0
 	it := 0
 	for ; it < maxIter && !converged; it++ {
-		s.apply(p, q)
-		alpha := rz / dot(p, q)
-		for k := range u {
-			u[k] += alpha * p[k]
+		alpha := rz / s.applyDot(p, q)
+		for k := range phi {
+			phi[k] += alpha * p[k]
 			r[k] -= alpha * q[k]
 		}
 		step := alpha * rz
@@ -339,13 +417,7 @@ func (s *system) solve(phi []float64, etol float64, maxIter int) (int, error) {
 			p[k] = z[k] + beta*p[k]
 		}
 	}
-	for k := range phi {
-		if s.isFree[k] {
-			phi[k] = u[k]
-		} else {
-			phi[k] = s.fixed[k]
-		}
-	}
+	s.rhs = nil
 	if !converged {
 		return it, fmt.Errorf("conjugate gradients did not converge in %d iterations", maxIter)
 	}
