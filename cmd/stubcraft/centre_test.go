@@ -32,6 +32,7 @@ func TestBuildFullwaveCentreRefusals(t *testing.T) {
 		{"bad memory", []string{"build", "-o", out, "--fullwave-centre", "--memory", "0"}, []string{"--memory"}},
 		{"memory limit", []string{"build", "-o", out, "--fullwave-centre", "--mesh", "coarse", "--memory", "1", "--no-tolerance"}, []string{"MiB", "coarse", "--memory"}},
 		{"band match", []string{"build", "../../testdata/designs/band-double-stub.toml", "-o", out, "--fullwave-centre", "--no-tolerance"}, []string{"band", "match.band"}},
+		{"trim allowance", []string{"build", "../../testdata/designs/trim-allowance.toml", "-o", out, "--fullwave-centre", "--no-tolerance"}, []string{"trim", "layout.trim", "trim-allowance.toml"}},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

@@ -20,10 +20,19 @@ var acceptanceGaps = map[string]string{
 	"sensor-antenna":         "best match −1.13 %, |S11| at f0 −28.1 dB: as the demo (−0.87 % before the z-cell fix); not the tee, not yet found",
 }
 
+// trimmedDesigns are the designs drawn with a trim allowance: their open
+// stubs are drawn longer than their design length on purpose, so the
+// copper's best match lies below f0 until it is trimmed at the bench. Their
+// full-wave best match is held to the circuit model's of the same copper
+// (verify's circuit_best_match_hz for such a design), which must itself lie
+// below f0.
+var trimmedDesigns = map[string]bool{"trim-allowance": true}
+
 // TestRecordedAcceptance holds testdata/fdtd/acceptance.tsv (written by
 // testdata/fdtd/acceptance.sh, `stubcraft verify --mesh normal` on the
 // layout as built) to issue 11 §5: the full-wave best match within 1 % of
-// f0 and the full-wave |S11| at f0 at most −20 dB. Band designs (band-*)
+// f0 (of the circuit's best match of the drawn copper for a design with a
+// trim allowance) and the full-wave |S11| at f0 at most −20 dB. Band designs (band-*)
 // are logged only: their match is spread across the band, so the best
 // match is not their criterion; so are designs whose circuit model itself
 // does not match at f0 (|S11| above −20 dB: a [[section]] network drawn
@@ -70,9 +79,16 @@ func TestRecordedAcceptance(t *testing.T) {
 		}
 		d := c[0]
 		f0, best, s11 := num("f0_hz"), num("fullwave_best_match_hz"), num("fullwave_s11_db_f0")
-		off := 100 * (best/f0 - 1)
+		target, from := f0, "f0"
+		if trimmedDesigns[d] {
+			target, from = num("circuit_best_match_hz"), "the circuit model's best match of the copper as drawn (trim allowance)"
+			if !(target < 0.995*f0) {
+				t.Errorf("%s: the circuit best match of the copper drawn with its trim allowance is %.6g Hz, want below f0 (%.6g Hz): the record predates verify comparing the drawn copper", d, target, f0)
+			}
+		}
+		off := 100 * (best/target - 1)
 		ok := math.Abs(off) <= 1 && s11 <= -20
-		t.Logf("%s: best match %+.2f %% from f0, |S11| at f0 %.1f dB, max |ΔS| %.3f", d, off, s11, num("max_s_difference"))
+		t.Logf("%s: best match %+.2f %% from %s, |S11| at f0 %.1f dB, max |ΔS| %.3f", d, off, from, s11, num("max_s_difference"))
 		if d == "demo" {
 			demo = true
 		}

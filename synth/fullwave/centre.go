@@ -2,6 +2,7 @@ package fullwave
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -183,11 +184,19 @@ func Centre(ctx context.Context, in synth.BuildInput, o CentreOptions) (*Centrin
 	return &Centring{Result: res, Report: rep}, nil
 }
 
+// ErrCentreTrim refuses full-wave centring of a design drawn with a trim
+// allowance.
+var ErrCentreTrim = errors.New("full-wave centring brings the drawn copper's best match to f0, but a trim allowance draws the open stubs longer on purpose, so that the etched board's best match lies below f0 until it is trimmed: centre the design without [layout] trim")
+
 // CanCentre returns Centre's refusal of in's design before any work: a
-// band match (synth.ErrFullwaveMapBand, naming match.band).
+// band match (synth.ErrFullwaveMapBand, naming match.band) and a trim
+// allowance (ErrCentreTrim, naming layout.trim).
 func CanCentre(in synth.BuildInput) error {
 	if in.Design.Match != nil && in.Design.Match.HasBand() {
 		return in.Design.KeyError("match.band", synth.ErrFullwaveMapBand)
+	}
+	if in.Design.Layout.Trim > 0 {
+		return in.Design.KeyError("layout.trim", ErrCentreTrim)
 	}
 	return nil
 }

@@ -193,13 +193,24 @@ func Compare(res *synth.Result, s [][2][2]complex128) (*Report, error) {
 		return nil, fmt.Errorf("fullwave: %d S-matrices for %d sweep frequencies", len(s), len(freqs))
 	}
 	z0 := res.Design.Z0
-	rep := &Report{Freqs: freqs, Network: s, Circuit: sw.Network, Zref: z0}
+	circuit, circuitF0, err := drawnCircuit(res, freqs)
+	if err != nil {
+		return nil, err
+	}
+	rep := &Report{Freqs: freqs, Network: s, Circuit: circuit, Zref: z0}
 	rep.Notes = append(rep.Notes, "full-wave model: perfect zero-thickness copper, no solder mask, substrate and ground plane unbounded beside the board")
+	if trim := res.Design.Layout.Trim; trim > 0 {
+		rep.Notes = append(rep.Notes, fmt.Sprintf("the open stubs are drawn %.2f mm beyond their design length for trimming at the bench: the full-wave solves the copper as drawn, and the circuit figures here are the circuit model's of the same copper, so both best matches lie below f0 until the stubs are trimmed", trim*1e3))
+	}
 	for k := range freqs {
-		sc, zl := sw.Network[k], sw.ZLoad[k]
+		sc, zl := circuit[k], sw.ZLoad[k]
 		gl := (zl - complex(z0, 0)) / (zl + complex(z0, 0))
 		rep.Matched = append(rep.Matched, terminate(s[k], gl))
-		rep.CircuitMatched = append(rep.CircuitMatched, sw.S11[k])
+		cm := sw.S11[k]
+		if res.Design.Layout.Trim > 0 {
+			cm = terminate(sc, gl)
+		}
+		rep.CircuitMatched = append(rep.CircuitMatched, cm)
 		for i := 0; i < 2; i++ {
 			for j := 0; j < 2; j++ {
 				rep.MaxSDifference = math.Max(rep.MaxSDifference, cmplx.Abs(s[k][i][j]-sc[i][j]))
@@ -213,10 +224,34 @@ func Compare(res *synth.Result, s [][2][2]complex128) (*Report, error) {
 	t := (f0 - freqs[ik-1]) / (freqs[ik] - freqs[ik-1])
 	rep.MatchedF0 = rep.Matched[ik-1] + complex(t, 0)*(rep.Matched[ik]-rep.Matched[ik-1])
 	rep.S11DBF0 = physical.MagDB(rep.MatchedF0)
-	rep.CircuitS11DBF0 = physical.MagDB(res.S11F0)
+	rep.CircuitS11DBF0 = physical.MagDB(circuitF0)
 	rep.BestMatchHz = bestMatch(freqs, rep.Matched)
 	rep.CircuitBestMatchHz = bestMatch(freqs, rep.CircuitMatched)
 	return rep, nil
+}
+
+// drawnCircuit returns the circuit model's network of res's copper as
+// drawn, at freqs, and its S11 with the load at f0: the build's own sweep
+// and S11 at f0, except that open stubs drawn with a trim allowance
+// ([layout] trim) carry it, as the full-wave's copper does.
+func drawnCircuit(res *synth.Result, freqs []float64) ([][2][2]complex128, complex128, error) {
+	trim := res.Design.Layout.Trim
+	if !(trim > 0) {
+		return res.Sweep.Network, res.S11F0, nil
+	}
+	extra := make([]float64, len(res.Physical.Elements))
+	for i, e := range res.Physical.Elements {
+		if e.Role == synth.RoleStub && e.End != synth.Short {
+			extra[i] = trim
+		}
+	}
+	net, err := res.ModelNetwork(extra, append(append([]float64(nil), freqs...), res.Design.Freq))
+	if err != nil {
+		return nil, 0, fmt.Errorf("fullwave: the circuit model of the drawn copper: %w", err)
+	}
+	z0 := complex(res.Design.Z0, 0)
+	gl := (res.LoadF0 - z0) / (res.LoadF0 + z0)
+	return net[:len(freqs)], terminate(net[len(freqs)], gl), nil
 }
 
 // terminate returns the input reflection at port 1 of s with port 2

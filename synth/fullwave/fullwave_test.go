@@ -2,6 +2,9 @@ package fullwave
 
 import (
 	"context"
+	"math"
+	"math/cmplx"
+	"strings"
 	"testing"
 
 	"stubcraft/physical"
@@ -101,4 +104,72 @@ func BenchmarkVerifyDemo(b *testing.B) {
 	b.ReportMetric(seconds/float64(b.N), "s/verify")
 	b.ReportMetric(updates/seconds/1e6, "Mcells/s")
 	b.ReportMetric(peakRSSMiB(), "peak-MiB")
+}
+
+// TestCompareTrimmedCopper: a design drawn with a trim allowance has its
+// open stubs drawn longer than their design length, and the full-wave
+// solves that copper; Compare's circuit figures must be the same copper's.
+// The reference is the drawn board rebuilt from the element lengths with
+// the allowance added to the open stub, simulated with the closed-form
+// lines and searched on a 0.01 % grid (truthBestMatch's method): 1.5 mm
+// on trim-allowance's stub puts its best match about 0.7 % below f0 (the
+// build's own note: 6 ticks of 0.25 mm at +1.1 MHz each).
+func TestCompareTrimmedCopper(t *testing.T) {
+	in, err := synth.LoadDesign("../../testdata/designs/trim-allowance.toml", synth.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	in.SkipTolerance = true
+	res, err := synth.Build(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	trim := res.Design.Layout.Trim
+	if !(trim > 1e-3) {
+		t.Fatalf("trim-allowance draws a trim allowance of %g m, want 1.5 mm", trim)
+	}
+	b := physical.Board{Sub: res.Physical.Board.Sub, Via: res.Physical.Board.Via}
+	for _, e := range res.Physical.Elements {
+		if e.Role == synth.RoleStub {
+			l := e.Drawn()
+			if e.End != synth.Short {
+				l += trim
+			}
+			b.Stubs = append(b.Stubs, physical.Stub{At: e.At, Width: e.Width, Length: l, Short: e.End == synth.Short})
+			continue
+		}
+		b.Through = append(b.Through, physical.Trace{Width: e.Width, Length: e.Drawn()})
+	}
+	sim, err := physical.NewSim(b, physical.MicrostripMaker)
+	if err != nil {
+		t.Fatal(err)
+	}
+	f0, z0 := res.Design.Freq, res.Design.Z0
+	want, bestMag := 0.0, math.Inf(1)
+	for i := -1000; i <= 1000; i++ {
+		f := f0 * (1 + 1e-4*float64(i))
+		if m := cmplx.Abs(sim.InputReflection(f, res.LoadF0, z0)); m < bestMag {
+			want, bestMag = f, m
+		}
+	}
+	// Any network stands in for the full-wave here: the circuit figures
+	// do not depend on it.
+	rep, err := Compare(res, res.Sweep.Network)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Logf("drawn copper: circuit best match %.5g MHz (%+.2f %%), reference %.5g MHz; |S11| at f0 %.1f dB", rep.CircuitBestMatchHz/1e6, 100*(rep.CircuitBestMatchHz/f0-1), want/1e6, rep.CircuitS11DBF0)
+	if e := math.Abs(rep.CircuitBestMatchHz/want - 1); !(e < 5e-4) || !(want < f0*0.995) {
+		t.Errorf("circuit best match of the drawn copper %.5g MHz, reference %.5g MHz (f0 %.5g MHz): want within 0.05 %% and the reference more than 0.5 %% below f0", rep.CircuitBestMatchHz/1e6, want/1e6, f0/1e6)
+	}
+	if !(rep.CircuitS11DBF0 > -40) {
+		t.Errorf("circuit |S11| at f0 of the drawn copper %.1f dB: a 1.5 mm longer stub cannot still match at f0", rep.CircuitS11DBF0)
+	}
+	found := false
+	for _, n := range rep.Notes {
+		found = found || strings.Contains(n, "trimming")
+	}
+	if !found {
+		t.Errorf("no note on the trim allowance among %q", rep.Notes)
+	}
 }
