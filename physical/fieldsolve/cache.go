@@ -16,7 +16,14 @@ type Cache struct {
 	dir        string // on-disk cache directory; "" for none (NewCacheDir)
 	maxEntries int    // bound of the on-disk cache
 	diskHits   int
+	// spare is working memory of finished solves, for the next: fresh
+	// memory costs page faults and clearing, a large part of a solve.
+	spare [][2]*scratch
 }
+
+// maxSpare bounds the working memory a Cache keeps between solves: one
+// pair of blocks for each of two solves running at once.
+const maxSpare = 2
 
 type cacheKey struct {
 	cs       CrossSection
@@ -56,7 +63,9 @@ func (c *Cache) SolveContext(ctx context.Context, cs CrossSection, opt Options) 
 			return r, nil
 		}
 	}
-	r, err := SolveContext(ctx, cs, opt)
+	ws := c.takeScratch()
+	r, err := solve(ctx, cs, opt, ws)
+	c.putScratch(ws)
 	if err != nil {
 		return r, err
 	}
@@ -77,4 +86,26 @@ func (c *Cache) Len() int {
 	c.mu.Lock()
 	defer c.mu.Unlock()
 	return len(c.m)
+}
+
+// takeScratch returns working memory for a solve, kept from an earlier one
+// when there is some.
+func (c *Cache) takeScratch() [2]*scratch {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if n := len(c.spare); n > 0 {
+		ws := c.spare[n-1]
+		c.spare = c.spare[:n-1]
+		return ws
+	}
+	return [2]*scratch{{}, {}}
+}
+
+// putScratch keeps the working memory of a finished solve for the next.
+func (c *Cache) putScratch(ws [2]*scratch) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if len(c.spare) < maxSpare {
+		c.spare = append(c.spare, ws)
+	}
 }

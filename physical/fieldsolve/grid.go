@@ -92,3 +92,10 @@ func uniqueSorted(v []float64, tol float64) []float64 {
 	}
 	return out
 }
+
+// nodes returns the node count of the grid newGrid makes with density n.
+func (l *layout) nodes(n float64) int {
+	kx, ky, sx, sy := l.keys()
+	d := coreFraction * l.lmin
+	return len(gradedAxis(kx, sx, d, n)) * len(gradedAxis(ky, sy, d, n))
+}

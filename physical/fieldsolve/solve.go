@@ -91,6 +91,13 @@ func Solve(cs CrossSection, opt Options) (Result, error) {
 // SolveContext is Solve that stops between grid levels once ctx is done,
 // returning an error that wraps ctx.Err().
 func SolveContext(ctx context.Context, cs CrossSection, opt Options) (Result, error) {
+	return solve(ctx, cs, opt, [2]*scratch{{}, {}})
+}
+
+// solve is SolveContext with the working memory of the two solves of each
+// grid (C and C0), which it sizes for the finest grid of the usual
+// sequence.
+func solve(ctx context.Context, cs CrossSection, opt Options, ws [2]*scratch) (Result, error) {
 	if err := cs.Validate(); err != nil {
 		return Result{}, err
 	}
@@ -111,6 +118,10 @@ func SolveContext(ctx context.Context, cs CrossSection, opt Options) (Result, er
 		return Result{}, err
 	}
 
+	last := l.nodes(startDensity * math.Pow(refineRatio, minLevels-1))
+	for _, w := range ws {
+		w.reset(last)
+	}
 	var res Result
 	var box float64
 	var err error
@@ -128,14 +139,14 @@ func SolveContext(ctx context.Context, cs CrossSection, opt Options) (Result, er
 		}
 		var lr LevelResult
 		var phi, phiAir []float64
-		lr, phi, phiAir, err = solveGrid(g, cs.Er, homogeneous, tol*cgEnergyFraction, prev, prevPhi, prevPhiAir)
+		lr, phi, phiAir, err = solveGrid(g, cs.Er, homogeneous, tol*cgEnergyFraction, ws, prev, prevPhi, prevPhiAir)
 		if err != nil {
 			return Result{}, fmt.Errorf("fieldsolve: grid of %d nodes: %w", cells, err)
 		}
 		if level == 0 {
 			// The coarsest grid in the standard box is one half of the
 			// box estimate; the other is the same grid in a smaller box.
-			if box, err = boxError(cs, homogeneous, tol*cgEnergyFraction, lr.Z0, g, phi, phiAir); err != nil {
+			if box, err = boxError(cs, homogeneous, tol*cgEnergyFraction, ws, lr.Z0, g, phi, phiAir); err != nil {
 				return Result{}, err
 			}
 		}
@@ -162,16 +173,18 @@ func SolveContext(ctx context.Context, cs CrossSection, opt Options) (Result, er
 	return res, fmt.Errorf("%w (estimate %.2g, tolerance %.2g, %d nodes)", ErrNotConverged, res.ErrorEstimate, tol, res.Cells)
 }
 
-// solveGrid finds C and C0 on one grid, the two solves running in parallel.
-func solveGrid(g *grid, er float64, homogeneous bool, etol float64, prev *grid, prevPhi, prevPhiAir []float64) (LevelResult, []float64, []float64, error) {
+// solveGrid finds C and C0 on one grid, the two solves running in parallel,
+// each in its own working memory ws[0] and ws[1].
+func solveGrid(g *grid, er float64, homogeneous bool, etol float64, ws [2]*scratch, prev *grid, prevPhi, prevPhiAir []float64) (LevelResult, []float64, []float64, error) {
 	type out struct {
 		c   float64
 		phi []float64
 		it  int
 		err error
 	}
-	run := func(vacuum bool, start []float64) out {
-		s := newSystem(g, vacuum)
+	run := func(vacuum bool, start []float64, w *scratch) out {
+		w.reset(len(g.label))
+		s := newSystem(g, vacuum, w)
 		var phi []float64
 		if prev != nil && start != nil {
 			phi = interpolate(prev, start, g)
@@ -183,16 +196,16 @@ func solveGrid(g *grid, er float64, homogeneous bool, etol float64, prev *grid, 
 	}
 	var diel, air out
 	if homogeneous {
-		diel = run(false, prevPhi)
+		diel = run(false, prevPhi, ws[0])
 		air = out{c: diel.c / er, phi: diel.phi}
 	} else {
 		var wg sync.WaitGroup
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			air = run(true, prevPhiAir)
+			air = run(true, prevPhiAir, ws[1])
 		}()
-		diel = run(false, prevPhi)
+		diel = run(false, prevPhi, ws[0])
 		wg.Wait()
 	}
 	for _, o := range []out{diel, air} {
@@ -219,10 +232,10 @@ func lineParams(c, cAir float64) (z0, epsEff float64) {
 // already computed as its first level on grid g with the potentials phi
 // and phiAir; those start the solves in the smaller box, which differs
 // from them mainly near its walls.
-func boxError(cs CrossSection, homogeneous bool, etol, z0 float64, g *grid, phi, phiAir []float64) (float64, error) {
+func boxError(cs CrossSection, homogeneous bool, etol float64, ws [2]*scratch, z0 float64, g *grid, phi, phiAir []float64) (float64, error) {
 	l := newLayout(cs, 0.5)
 	small := newGrid(&l, startDensity)
-	lr, _, _, err := solveGrid(small, cs.Er, homogeneous, etol, g, phi, phiAir)
+	lr, _, _, err := solveGrid(small, cs.Er, homogeneous, etol, ws, g, phi, phiAir)
 	if err != nil {
 		return 0, fmt.Errorf("fieldsolve: box estimate: %w", err)
 	}

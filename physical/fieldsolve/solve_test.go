@@ -221,13 +221,13 @@ func TestIterationEnergyError(t *testing.T) {
 			if prev != nil {
 				start = interpolate(prev, prevPhi, g)
 			}
-			s := newSystem(g, false)
+			s := newSystem(g, false, nil)
 			stopped := append([]float64(nil), start...)
 			if _, err := s.solve(stopped, etol, 100000); err != nil {
 				t.Fatal(err)
 			}
 			converged := append([]float64(nil), start...)
-			if _, err := newSystem(g, false).solve(converged, 1e-13, 100000); err != nil {
+			if _, err := newSystem(g, false, nil).solve(converged, 1e-13, 100000); err != nil {
 				t.Fatal(err)
 			}
 			e, eStar := s.energy(stopped), s.energy(converged)

@@ -69,6 +69,44 @@ type system struct {
 	ce, cn []float64 // off-diagonal entries (≤ 0), zero where either end is fixed
 	rhs    []float64 // right-hand side; solve turns it into the residual
 	label  []int8    // the grid's node labels (free, strip, ground)
+	ws     *scratch  // where the arrays come from; nil for fresh memory
+}
+
+// scratch is the working memory of one solve of C or C0: the arrays of a
+// system, its factorisation and the conjugate-gradient vectors
+// (systemArrays of them per node), cut from one block that is reused from
+// grid to grid. The finest grid's arrays are most of a solve's memory, and
+// fresh memory costs page faults and clearing, so Solve sizes the block for
+// the finest grid of the usual sequence at the start. The arrays hold
+// whatever the last grid left: every user writes every element it reads.
+type scratch struct {
+	buf  []float64
+	used int
+}
+
+// systemArrays is the number of node arrays a system, its factorisation
+// and its solve take: gx, gy, diag, ce, cn, rhs; inv, fw, fs, be, bn; z,
+// p, q.
+const systemArrays = 14
+
+// reset frees the block for a grid of the given node count, growing it if
+// needed.
+func (w *scratch) reset(nodes int) {
+	if need := systemArrays * nodes; cap(w.buf) < need {
+		w.buf = make([]float64, need)
+	}
+	w.used = 0
+}
+
+// take returns the next n elements of the block, or fresh zeroed memory
+// when w is nil or the block is used up.
+func (w *scratch) take(n int) []float64 {
+	if w == nil || w.used+n > len(w.buf) {
+		return make([]float64, n)
+	}
+	a := w.buf[w.used : w.used+n : w.used+n]
+	w.used += n
+	return a
 }
 
 // fixedPotential is the potential of a fixed node: 1 V on the strip, 0 on
@@ -84,13 +122,11 @@ func fixedPotential(label int8) float64 {
 // Each free row sums its four conductances in the order south, west,
 // east, north (absent ones are zero), and its right-hand side the
 // conductances to fixed neighbours times their potentials in that order.
-func newSystem(g *grid, vacuum bool) *system {
+func newSystem(g *grid, vacuum bool, ws *scratch) *system {
 	nx, ny := g.nx(), g.ny()
 	n := nx * ny
-	s := &system{nx: nx, ny: ny, label: g.label,
-		gx: make([]float64, n), gy: make([]float64, n),
-		diag: make([]float64, n), ce: make([]float64, n), cn: make([]float64, n),
-		rhs: make([]float64, n)}
+	s := &system{nx: nx, ny: ny, label: g.label, ws: ws,
+		gx: ws.take(n), gy: ws.take(n), diag: ws.take(n), ce: ws.take(n), cn: ws.take(n), rhs: ws.take(n)}
 	// cells returns row j of the cell permittivities, nil outside the
 	// domain (where they count as 0).
 	ex := nx - 1
@@ -130,7 +166,10 @@ func newSystem(g *grid, vacuum bool) *system {
 			}
 			row[i] = (el*dyl + eu*dyu) / (2 * (g.xs[i+1] - g.xs[i]))
 		}
-		if above != nil {
+		row[ex] = 0
+		if above == nil {
+			clear(s.gy[j*nx : j*nx+nx])
+		} else {
 			row := s.gy[j*nx : j*nx+nx]
 			dy := 2 * (g.ys[j+1] - g.ys[j])
 			for i := range row {
@@ -149,8 +188,9 @@ func newSystem(g *grid, vacuum bool) *system {
 	for j := 0; j < ny; j++ {
 		for i := 0; i < nx; i++ {
 			k := j*nx + i
+			s.ce[k], s.cn[k] = 0, 0
 			if lab[k] != free {
-				s.diag[k] = 1
+				s.diag[k], s.rhs[k] = 1, 0
 				continue
 			}
 			var d, b float64
@@ -234,8 +274,10 @@ func (s *system) factor() (*micFactor, error) {
 	nx, ny := s.nx, s.ny
 	n := len(s.diag)
 	diag, ce, cn, lab := s.diag[:n], s.ce[:n], s.cn[:n], s.label[:n]
-	m := &micFactor{inv: make([]float64, n), fw: make([]float64, n), fs: make([]float64, n),
-		be: make([]float64, n), bn: make([]float64, n)}
+	ws := s.ws
+	m := &micFactor{inv: ws.take(n), fw: ws.take(n), fs: ws.take(n), be: ws.take(n), bn: ws.take(n)}
+	m.fw[0] = 0
+	clear(m.fs[:min(nx, n)])
 	// last[i] is the pivot of column i in this row once passed, else in
 	// the row below.
 	last := make([]float64, nx)
@@ -381,8 +423,7 @@ func (s *system) solve(phi []float64, etol float64, maxIter int) (int, error) {
 	}
 	e := s.energy(phi)
 	r := s.rhs
-	z := make([]float64, n)
-	q := make([]float64, n)
+	z, q, p := s.ws.take(n), s.ws.take(n), s.ws.take(n)
 	s.apply(phi, q)
 	for k, lab := range s.label {
 		if lab == free {
@@ -391,7 +432,6 @@ func (s *system) solve(phi []float64, etol float64, maxIter int) (int, error) {
 			r[k] = 0
 		}
 	}
-	p := make([]float64, n)
 	mf.precond(s.nx, r, z)
 	copy(p, z)
 	rz := dot(r, z)
