@@ -113,6 +113,20 @@ func Headline(rep Report) string {
 		s.AsBuiltBoards, *s.AsBuiltP50S11DB, *s.AsBuiltP90S11DB, band, model))
 }
 
+// bodeFanoLine sets the Bode-Fano limit beside the headline figures: the
+// best worst |S11| across the band that any lossless network can hold on
+// the fitted load. It is "" unless report.json quotes the limit
+// (bode_fano_status "quoted": the load fit within 5 % of |Z| and the limit
+// above −60 dB), the rule the notes and the CLI follow.
+func bodeFanoLine(rep Report) string {
+	b := rep.Band
+	if b == nil || b.BodeFanoS11DB == nil {
+		return ""
+	}
+	return fmt.Sprintf("Bode-Fano limit across %s: %s, the best worst |S11| any lossless network can hold on this load (Fano 1950; the load fits %s within %.2g %% of |Z|)",
+		units.FormatFrequencyRange(b.StartHz, b.StopHz, 4), minus(fmt.Sprintf("%.2f dB", *b.BodeFanoS11DB)), b.LoadFitCircuit, b.LoadFitMisfitPct)
+}
+
 // Headline strip on sheet 1, mm and pt.
 const (
 	headlinePt    = 6.5
@@ -120,10 +134,20 @@ const (
 	headlineChars = 130 // characters per line, at most, for the height estimate
 )
 
+// headlineFigures are the figure lines of the headline strip: the
+// as-built and model figures, and the Bode-Fano limit when it is quoted.
+func headlineFigures(rep Report) []string {
+	lines := []string{Headline(rep)}
+	if l := bodeFanoLine(rep); l != "" {
+		lines = append(lines, l)
+	}
+	return lines
+}
+
 // headlineLines are the lines of sheet 1's headline strip: the as-built
 // figures, the verdict and every warning that bears on it.
 func headlineLines(rep Report) []string {
-	lines := []string{Headline(rep), "verdict: " + rep.Summary.Verdict}
+	lines := append(headlineFigures(rep), "verdict: "+rep.Summary.Verdict)
 	for _, w := range rep.Summary.VerdictWarnings {
 		lines = append(lines, "warning: "+w)
 	}
@@ -146,12 +170,14 @@ func headlineHeight(rep Report) float64 {
 // the verdict is a plain match.
 func (d *doc) headlineStrip(x, y, w float64) {
 	f := d.pdf
+	figures := len(headlineFigures(d.rep))
 	for i, l := range headlineLines(d.rep) {
 		style, col := "", colInk
 		switch {
 		case i == 0:
 			style = "B"
-		case i == 1 && d.rep.Summary.Verdict == "matches":
+		case i < figures:
+		case i == figures && d.rep.Summary.Verdict == "matches":
 			col = colAccent
 		default:
 			col = colWarn

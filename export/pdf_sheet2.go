@@ -440,11 +440,9 @@ func (d *doc) histogram(x, y, w, h float64) {
 func (d *doc) results(x, y, w float64) {
 	f := d.pdf
 	r := d.rep
-	lines := []string{
-		Headline(r),
+	lines := append(headlineFigures(r),
 		minus(fmt.Sprintf("model |S11| at f0: %s drawn, %s without the discontinuity corrections, %s before re-centring", ModelDB(r.S11DBF0), ModelDB(r.S11DBF0Uncorr), ModelDB(r.Recentring.S11DBBefore))),
-		minus(fmt.Sprintf("return loss %s, VSWR %.2f, network loss %.3f dB at f0", returnLossText(float64(r.ReturnLossDBF0)), r.VSWRF0, r.NetworkLossDBF0)),
-	}
+		minus(fmt.Sprintf("return loss %s, VSWR %.2f, network loss %.3f dB at f0", returnLossText(float64(r.ReturnLossDBF0)), r.VSWRF0, r.NetworkLossDBF0)))
 	if r.Bandwidth10DBHz > 0 {
 		lines = append(lines, minus(fmt.Sprintf("band |S11| < −10 dB: %s (%.1f MHz)", units.FormatFrequencyRange(r.Band10DBHz[0], r.Band10DBHz[1], 4), r.Bandwidth10DBHz/1e6)))
 	}

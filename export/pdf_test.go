@@ -29,8 +29,14 @@ func poppler(t *testing.T, tool string) string {
 // its path and bytes.
 func writeDrawing(t *testing.T, ds drawingSpec, page, fit string) (string, []byte) {
 	t.Helper()
+	return writeReportDrawing(t, fixtureReport(ds), ds, page, fit)
+}
+
+// writeReportDrawing is writeDrawing with a report of the test's own.
+func writeReportDrawing(t *testing.T, rep Report, ds drawingSpec, page, fit string) (string, []byte) {
+	t.Helper()
 	var buf bytes.Buffer
-	if err := WritePDF(&buf, fixtureReport(ds), fixtureLayout(t, ds), fixtureOptions(page, fit)); err != nil {
+	if err := WritePDF(&buf, rep, fixtureLayout(t, ds), fixtureOptions(page, fit)); err != nil {
 		t.Fatal(err)
 	}
 	path := filepath.Join(t.TempDir(), "drawing.pdf")

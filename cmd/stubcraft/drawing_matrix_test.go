@@ -25,8 +25,8 @@ import (
 // drawingMatrix is the set of builds whose drawings are checked for
 // readability: line widths from 0.2 to 3 mm, boards from a few mm at
 // 5.8 GHz to a 433 MHz board drawn scaled and tiled, bent, shorted and
-// coplanar stubs, a hand-worked double stub, and calibration structures
-// on the panel.
+// coplanar stubs, a hand-worked double stub, calibration structures on
+// the panel, and a band match whose Bode-Fano limit is quoted.
 func drawingMatrix() []struct {
 	name string
 	args []string
@@ -49,6 +49,7 @@ func drawingMatrix() []struct {
 		{"mismatch", []string{filepath.Join(td, "designs", "sensor-antenna-sections.toml")}},
 		{"band-double-stub", []string{filepath.Join(td, "designs", "band-double-stub.toml")}},
 		{"band-quarter-wave", []string{filepath.Join(td, "designs", "band-quarter-wave.toml")}},
+		{"band-limit", []string{filepath.Join(td, "drawing", "band-limit.toml")}},
 	}
 }
 
