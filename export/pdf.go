@@ -186,6 +186,7 @@ func renderPDF(rep Report, b boardModel, plan boardPlan, pg paper, opt DrawingOp
 	d := &doc{pdf: f, pg: pg, rep: rep, opt: opt, total: total, titles: titles, shared: map[int]string{}}
 	d.boardSheets(b, plan)
 	d.dataSheets(b)
+	d.landingSheet(b)
 	d.structuresSheet()
 	if opt.FabNotes != nil {
 		d.fabNotesSheet(*opt.FabNotes)

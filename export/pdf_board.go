@@ -23,6 +23,8 @@ type boardModel struct {
 	centreY float64
 	ports   [2]ptMM
 	trims   []trimMM
+	landing *landingMM // the source port's edge-launch landing, nil without one
+	fence   []viaMM    // the vias of a via fence
 }
 
 // trimMM is the row of trim ticks of a stub drawn with a trim allowance:
@@ -38,9 +40,10 @@ type ptMM struct{ x, y float64 }
 
 // padMM is a flashed pad: a rectangle, or a circle of diameter w.
 type padMM struct {
-	c     ptMM
-	w, h  float64
-	round bool
+	c      ptMM
+	w, h   float64
+	round  bool
+	ground bool // a landing's ground pad (or its via pad): copper of its own
 }
 
 type viaMM struct {
@@ -104,7 +107,7 @@ func newBoardModel(lay geom.Layout) (boardModel, error) {
 		return boardModel{}, fmt.Errorf("board outline starts at %v nm, want the origin", lo)
 	}
 	b := boardModel{name: lay.Name, w: nmToMM(hi.X), h: nmToMM(hi.Y), centreY: nmToMM(lay.Marks.CentreY),
-		ports: [2]ptMM{ptOf(lay.Marks.Ports[0]), ptOf(lay.Marks.Ports[1])}}
+		ports: [2]ptMM{ptOf(lay.Marks.Ports[0]), ptOf(lay.Marks.Ports[1])}, landing: newLanding(lay), fence: fenceVias(lay)}
 	for _, n := range lay.Copper {
 		var p []ptMM
 		for _, q := range n.Outline {
@@ -114,7 +117,7 @@ func newBoardModel(lay geom.Layout) (boardModel, error) {
 		b.pour = append(b.pour, n.Name != geom.NetRF)
 	}
 	for _, p := range lay.Pads {
-		b.pads = append(b.pads, padMM{c: ptOf(p.Center), w: nmToMM(p.W), h: nmToMM(p.H), round: p.Round})
+		b.pads = append(b.pads, padMM{c: ptOf(p.Center), w: nmToMM(p.W), h: nmToMM(p.H), round: p.Round, ground: p.Net == geom.NetGround})
 	}
 	for _, v := range lay.Vias {
 		b.vias = append(b.vias, viaMM{c: ptOf(v.Center), drill: nmToMM(v.Drill), pad: nmToMM(v.Pad), ground: v.Net != geom.NetRF})

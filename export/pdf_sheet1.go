@@ -272,7 +272,15 @@ func (d *doc) drawBoard(b boardModel, v view, measured bool, bounds rect, option
 		if p.round {
 			f.Circle(v.X(p.c.x), v.Y(p.c.y), v.s*p.w/2, "FD")
 			k.pl.add(newObstacle(obsCopper, 0, true, square(v.X(p.c.x), v.Y(p.c.y), v.s*p.w/2)...))
+			continue
 		}
+		if !p.ground {
+			continue // a port pad lies on the line's copper
+		}
+		// A landing's ground pad is copper of its own.
+		x0, y0 := v.X(p.c.x-p.w/2), v.Y(p.c.y+p.h/2)
+		f.Rect(x0, y0, v.s*p.w, v.s*p.h, "F")
+		k.pl.add(newObstacle(obsCopper, 0, true, ptMM{x0, y0}, ptMM{x0 + v.s*p.w, y0}, ptMM{x0 + v.s*p.w, y0 + v.s*p.h}, ptMM{x0, y0 + v.s*p.h}))
 	}
 	for _, via := range b.vias {
 		k.pl.add(newObstacle(obsCopper, 0, true, square(v.X(via.c.x), v.Y(via.c.y), v.s*via.pad/2)...))

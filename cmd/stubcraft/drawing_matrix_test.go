@@ -26,7 +26,8 @@ import (
 // readability: line widths from 0.2 to 3 mm, boards from a few mm at
 // 5.8 GHz to a 433 MHz board drawn scaled and tiled, bent, shorted and
 // coplanar stubs, a hand-worked double stub, calibration structures on
-// the panel, and a band match whose Bode-Fano limit is quoted.
+// the panel, a band match whose Bode-Fano limit is quoted, and
+// edge-launch landings with a via fence (their detail view).
 func drawingMatrix() []struct {
 	name string
 	args []string
@@ -50,6 +51,7 @@ func drawingMatrix() []struct {
 		{"band-double-stub", []string{filepath.Join(td, "designs", "band-double-stub.toml")}},
 		{"band-quarter-wave", []string{filepath.Join(td, "designs", "band-quarter-wave.toml")}},
 		{"band-limit", []string{filepath.Join(td, "drawing", "band-limit.toml")}},
+		{"edge-launch-fence", []string{filepath.Join(td, "designs", "edge-launch-fence.toml")}},
 	}
 }
 
