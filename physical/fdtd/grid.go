@@ -60,11 +60,12 @@ func (g *Grid) MaxGrading() float64 {
 }
 
 // NewGrid builds the mesh for s at the given density.
-func NewGrid(s Structure, p MeshParams) (*Grid, error) { return newGrid(s, p, 0) }
+func NewGrid(s Structure, p MeshParams) (*Grid, error) { return newGrid(s, p, 0, nil) }
 
 // newGrid is NewGrid with the edge cell forced to edge when edge > 0, so
-// that a port line's calibration meshes its strip as the board's grid does.
-func newGrid(s Structure, p MeshParams, edge float64) (*Grid, error) {
+// that a port line's calibration meshes its strip as the board's grid does,
+// and with the y lines ys (absorbing layers included) when ys is not nil.
+func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, error) {
 	if err := s.Validate(); err != nil {
 		return nil, err
 	}
@@ -168,6 +169,9 @@ func newGrid(s Structure, p MeshParams, edge float64) (*Grid, error) {
 	dmaxX := dmaxSub
 	g.X = withPML(gradedLines(xfix, minCell, dmaxX, p.Grading), p.PMLCells, true, true)
 	g.Y = withPML(gradedLines(yfix, minCell, dmaxX, p.Grading), p.PMLCells, true, true)
+	if ys != nil {
+		g.Y = ys
+	}
 
 	// z: uniform substrate cells no taller than half the edge cell, then
 	// graded air up to the absorbing layer. The line's Z0 depends on how

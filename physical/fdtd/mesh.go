@@ -47,6 +47,12 @@ type MeshParams struct {
 	// in x and y, so that the column is every node within the radius on a
 	// locally uniform grid; 1 is ViaEdges. It overrides ViaEdges.
 	ViaDivisions int
+	// PortLinesOnBoardGrid calibrates each port line on the board's own y
+	// grid lines (moved to the line's centre) instead of the line's own,
+	// so that the calibrated line is the board's port line cell for cell:
+	// lines that other features (a via column's divisions above all) put
+	// through the port strip's cross-section change its Z0 and εeff.
+	PortLinesOnBoardGrid bool
 }
 
 // Params returns the level's mesh numbers.

@@ -139,7 +139,14 @@ func Solve(ctx context.Context, s Structure, o Options) (*Result, error) {
 			lines[1] = lines[0]
 			break
 		}
-		ld, steps, cells, err := calibrate(ctx, s, s.Ports[q].Width, g.EdgeCell, o, q, runs, start)
+		var ys []float64
+		if o.Mesh.PortLinesOnBoardGrid {
+			dy := float64(s.Ports[q].Y) * 1e-9
+			for _, y := range g.Y {
+				ys = append(ys, y-dy)
+			}
+		}
+		ld, steps, cells, err := calibrateOn(ctx, s, s.Ports[q].Width, g.EdgeCell, ys, o, q, runs, start)
 		res.Steps += steps
 		res.CellUpdates += int64(steps) * int64(cells)
 		if err != nil {
@@ -176,6 +183,12 @@ type lineData struct{ gamma, z0 []complex128 }
 // dominates).
 // It returns the line data, the run's steps and its grid's cells.
 func calibrate(ctx context.Context, s Structure, width int64, edge float64, o Options, q, runs int, start time.Time) (lineData, int, int, error) {
+	return calibrateOn(ctx, s, width, edge, nil, o, q, runs, start)
+}
+
+// calibrateOn is calibrate on the y grid lines ys (the line centred on
+// y = 0, absorbing layers included) when ys is not nil.
+func calibrateOn(ctx context.Context, s Structure, width int64, edge float64, ys []float64, o Options, q, runs int, start time.Time) (lineData, int, int, error) {
 	// The two planes are about 0.35 of the shortest guided wavelength apart
 	// (taken with εr, so shorter than the truth): long enough that the
 	// near fields of the source leave cosh(γL) alone, short enough that γL
@@ -188,7 +201,7 @@ func calibrate(ctx context.Context, s Structure, width int64, edge float64, o Op
 	c := Structure{Er: s.Er, TanD: s.TanD, F0: s.F0, H: s.H, BoardMinX: 0, BoardMaxX: L, Freqs: s.Freqs,
 		Copper: []Polygon{RectPolygon(0, -width/2, L, width-width/2)},
 		Ports:  [2]Port{{Side: Left, Y: 0, Width: width}, {Side: Right, Y: 0, Width: width}}}
-	g, err := newGrid(c, o.Mesh, edge)
+	g, err := newGrid(c, o.Mesh, edge, ys)
 	if err != nil {
 		return lineData{}, 0, 0, err
 	}
