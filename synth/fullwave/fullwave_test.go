@@ -115,15 +115,7 @@ func BenchmarkVerifyDemo(b *testing.B) {
 // on trim-allowance's stub puts its best match about 0.7 % below f0 (the
 // build's own note: 6 ticks of 0.25 mm at +1.1 MHz each).
 func TestCompareTrimmedCopper(t *testing.T) {
-	in, err := synth.LoadDesign("../../testdata/designs/trim-allowance.toml", synth.LoadOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	in.SkipTolerance = true
-	res, err := synth.Build(context.Background(), in)
-	if err != nil {
-		t.Fatal(err)
-	}
+	res := buildExample(t, "trim-allowance")
 	trim := res.Design.Layout.Trim
 	if !(trim > 1e-3) {
 		t.Fatalf("trim-allowance draws a trim allowance of %g m, want 1.5 mm", trim)
@@ -172,4 +164,20 @@ func TestCompareTrimmedCopper(t *testing.T) {
 	if !found {
 		t.Errorf("no note on the trim allowance among %q", rep.Notes)
 	}
+}
+
+// buildExample builds testdata/designs/NAME.toml without its tolerance
+// analysis.
+func buildExample(t *testing.T, name string) *synth.Result {
+	t.Helper()
+	in, err := synth.LoadDesign("../../testdata/designs/"+name+".toml", synth.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	in.SkipTolerance = true
+	res, err := synth.Build(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return res
 }
