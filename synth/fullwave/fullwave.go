@@ -19,6 +19,7 @@ import (
 	"stubcraft/physical"
 
 	"stubcraft/physical/fdtd"
+	"stubcraft/stackups"
 	"stubcraft/synth"
 	"stubcraft/synth/geom"
 )
@@ -199,6 +200,9 @@ func Compare(res *synth.Result, s [][2][2]complex128) (*Report, error) {
 	}
 	rep := &Report{Freqs: freqs, Network: s, Circuit: circuit, Zref: z0}
 	rep.Notes = append(rep.Notes, "full-wave model: perfect zero-thickness copper, no solder mask, substrate and ground plane unbounded beside the board")
+	if share, ok := ThicknessShare(res); ok {
+		rep.Notes = append(rep.Notes, fmt.Sprintf("the full-wave copper has zero thickness: with the stackup's %.1f µm copper the lines are %.2f %% electrically shorter (Hammerstad-Jensen thickness correction, weighted by electrical length), so the drawn board's best match lies about %.2f %% above the full-wave's on that account", res.Physical.Board.Sub.CopperThickness*1e6, 100*share, 100*share))
+	}
 	if trim := res.Design.Layout.Trim; trim > 0 {
 		rep.Notes = append(rep.Notes, fmt.Sprintf("the open stubs are drawn %.2f mm beyond their design length for trimming at the bench: the full-wave solves the copper as drawn, and the circuit figures here are the circuit model's of the same copper, so both best matches lie below f0 until the stubs are trimmed", trim*1e3))
 	}
@@ -228,6 +232,41 @@ func Compare(res *synth.Result, s [][2][2]complex128) (*Report, error) {
 	rep.BestMatchHz = bestMatch(freqs, rep.Matched)
 	rep.CircuitBestMatchHz = bestMatch(freqs, rep.CircuitMatched)
 	return rep, nil
+}
+
+// ThicknessShare returns how much electrically longer, relatively, res's
+// microstrip lines are with zero-thickness copper (as the full-wave draws
+// them) than with the stackup's copper: the Hammerstad-Jensen thickness
+// correction of εeff at f0 (bare microstrip), as √(εeff(0)/εeff(t)) − 1,
+// averaged over the elements weighted by electrical length. It is false
+// for a grounded coplanar stackup or one without copper thickness.
+func ThicknessShare(res *synth.Result) (float64, bool) {
+	sub := res.Physical.Board.Sub
+	if res.Stackup.Line == stackups.GCPW || !(sub.CopperThickness > 0) {
+		return 0, false
+	}
+	thin := sub
+	thin.CopperThickness = 0
+	f0 := res.Design.Freq
+	sum, weight := 0.0, 0.0
+	for _, e := range res.Physical.Elements {
+		mt, err := physical.NewMicrostrip(e.Width, sub)
+		if err != nil {
+			return 0, false
+		}
+		m0, err := physical.NewMicrostrip(e.Width, thin)
+		if err != nil {
+			return 0, false
+		}
+		pt, p0 := mt.At(f0), m0.At(f0)
+		theta := pt.Beta() * math.Abs(e.Drawn())
+		sum += theta * (math.Sqrt(p0.EpsEff/pt.EpsEff) - 1)
+		weight += theta
+	}
+	if !(weight > 0) {
+		return 0, false
+	}
+	return sum / weight, true
 }
 
 // drawnCircuit returns the circuit model's network of res's copper as

@@ -181,3 +181,41 @@ func buildExample(t *testing.T, name string) *synth.Result {
 	}
 	return res
 }
+
+// TestThicknessShare: verify's note on the full-wave's zero-thickness copper
+// gives the demo's share from the circuit model's thickness correction; the
+// reference is the 2-D field solver's static εeff of the demo's line with
+// and without its 34.8 µm copper (an independent finite-difference
+// solution, 0.685 % apart, so √ of it 0.342 %), held within 0.03 %.
+func TestThicknessShare(t *testing.T) {
+	in := demoInput(t)
+	res, err := synth.Build(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	share, ok := ThicknessShare(res)
+	if !ok {
+		t.Fatal("no thickness share for the demo (microstrip, 34.8 µm copper)")
+	}
+	solver, _ := thicknessShift(t, res)
+	want := math.Sqrt(1+solver) - 1
+	t.Logf("zero-thickness copper: %.3f %% longer electrically (model), %.3f %% (field solver)", 100*share, 100*want)
+	if math.Abs(share-want) > 3e-4 {
+		t.Errorf("thickness share %.3f %%, field solver %.3f %%: want within 0.03 %%", 100*share, 100*want)
+	}
+	rep, err := Compare(res, res.Sweep.Network)
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, n := range rep.Notes {
+		found = found || strings.Contains(n, "zero thickness")
+	}
+	if !found {
+		t.Errorf("no note on the zero-thickness copper among %q", rep.Notes)
+	}
+	gcpw := buildExample(t, "gcpw-probe")
+	if s, ok := ThicknessShare(gcpw); ok {
+		t.Errorf("a grounded coplanar board got a microstrip thickness share (%.3f %%)", 100*s)
+	}
+}
