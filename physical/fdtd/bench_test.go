@@ -1,7 +1,9 @@
 package fdtd
 
 import (
+	"runtime"
 	"testing"
+	"time"
 )
 
 // BenchmarkCellUpdates times whole time steps (H, E, CPML, PEC) on the
@@ -9,14 +11,38 @@ import (
 // normal mesh and reports Yee-cell updates per wall-clock second
 // (Mcells/s) and per CPU second summed over the workers (Mcells/cpu-s,
 // which the machine's load changes far less).
+//
+// The sub-benchmarks compare, in one run, the worker team as the solver
+// uses it (every processor, spinning briefly before parking) with one
+// worker and with every processor parking at once (plain hand-offs).
 func BenchmarkCellUpdates(b *testing.B) {
 	s := straight(4.35, 1.6e-3, 3e-3, 40e-3, []float64{1e9, 3e9})
 	g, err := NewGrid(s, Normal.Params())
 	if err != nil {
 		b.Fatal(err)
 	}
-	m := newSim(g, s, 0)
-	defer m.close()
+	procs := runtime.GOMAXPROCS(0)
+	for _, c := range []struct {
+		name    string
+		workers int
+		spin    time.Duration
+	}{
+		{"solver", procs, spinWait},
+		{"one-worker", 1, 0},
+		{"park-at-once", procs, 0},
+	} {
+		b.Run(c.name, func(b *testing.B) {
+			m := newSim(g, s, c.workers)
+			m.team.stop()
+			m.team = newTeam(c.workers, c.spin)
+			defer m.close()
+			benchSteps(b, m, g)
+		})
+	}
+}
+
+// benchSteps times b.N steps of m and reports the cell-update rates.
+func benchSteps(b *testing.B, m *sim, g *Grid) {
 	cpu0 := cpuSeconds()
 	b.ResetTimer()
 	for i := 0; i < b.N; i++ {
