@@ -27,9 +27,9 @@ const ModelFloorDB = -40.0
 // ModelFloorDB.
 func ModelDB(db float64) string {
 	if db < ModelFloorDB {
-		return fmt.Sprintf("below %s dB", minus(fmt.Sprintf("%.0f", ModelFloorDB)))
+		return fmt.Sprintf("below %s dB", Minus(fmt.Sprintf("%.0f", ModelFloorDB)))
 	}
-	return fmt.Sprintf("%.1f dB", db)
+	return Minus(fmt.Sprintf("%.1f dB", db))
 }
 
 // ReportSummary leads report.json with what a board can reach: the
@@ -109,7 +109,7 @@ func Headline(rep Report) string {
 		band = fmt.Sprintf(", worst across %s median %.1f dB, 90th percentile %.1f dB",
 			units.FormatFrequencyRange(b.StartHz, b.StopHz, 4), *s.AsBuiltP50BandDB, *s.AsBuiltP90BandDB)
 	}
-	return minus(fmt.Sprintf("as built (%d boards): |S11| at f0 median %.1f dB, 90th percentile %.1f dB%s; %s",
+	return Minus(fmt.Sprintf("as built (%d boards): |S11| at f0 median %.1f dB, 90th percentile %.1f dB%s; %s",
 		s.AsBuiltBoards, *s.AsBuiltP50S11DB, *s.AsBuiltP90S11DB, band, model))
 }
 
@@ -124,7 +124,7 @@ func bodeFanoLine(rep Report) string {
 		return ""
 	}
 	return fmt.Sprintf("Bode-Fano limit across %s: %s, the best worst |S11| any lossless network can hold on this load (Fano 1950; the load fits %s within %.2g %% of |Z|)",
-		units.FormatFrequencyRange(b.StartHz, b.StopHz, 4), minus(fmt.Sprintf("%.2f dB", *b.BodeFanoS11DB)), b.LoadFitCircuit, b.LoadFitMisfitPct)
+		units.FormatFrequencyRange(b.StartHz, b.StopHz, 4), Minus(fmt.Sprintf("%.2f dB", *b.BodeFanoS11DB)), b.LoadFitCircuit, b.LoadFitMisfitPct)
 }
 
 // Headline strip on sheet 1, mm and pt.

@@ -418,10 +418,7 @@ func wrapText(f *gofpdf.Fpdf, s string, w float64, n int) []string {
 func formatFreq(hz float64) string { return units.FormatFrequency(hz, 6) }
 
 // mm3 formats a length in mm with three decimals and a true minus sign.
-func mm3(v float64) string { return minus(fmt.Sprintf("%.3f", v)) }
+func mm3(v float64) string { return Minus(fmt.Sprintf("%.3f", v)) }
 
 // signed3 formats a correction in mm with three decimals and its sign.
-func signed3(v float64) string { return minus(fmt.Sprintf("%+.3f", v)) }
-
-// minus replaces ASCII hyphen-minus signs with U+2212.
-func minus(s string) string { return strings.ReplaceAll(s, "-", "−") }
+func signed3(v float64) string { return Minus(fmt.Sprintf("%+.3f", v)) }

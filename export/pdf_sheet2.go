@@ -225,7 +225,7 @@ func (d *doc) s11Chart(x, y, w, h float64) {
 		x0, x1 := c.X(math.Max(lo, b[0]/1e9)), c.X(math.Min(hi, b[1]/1e9))
 		f.Rect(x0, y, x1-x0, h, "F")
 	}
-	d.frame(c, "Input match |S11| across the band", func(v float64) string { return minus(trimFloat(v)) })
+	d.frame(c, "Input match |S11| across the band", func(v float64) string { return Minus(trimFloat(v)) })
 	dashed(f, c.x, c.Y(-10), c.x+w, c.Y(-10), colLimit)
 	label(f, "−10 dB", c.x+w-1, c.Y(-10)-1.8, "R", noteFontPt, colLimit)
 	if b := d.rep.Band; b != nil {
@@ -239,7 +239,7 @@ func (d *doc) s11Chart(x, y, w, h float64) {
 				f.SetLineWidth(0.35)
 				setDraw(f, colLimit)
 				f.Line(c.X(b0), c.Y(*g), c.X(b1), c.Y(*g))
-				label(f, minus(fmt.Sprintf("goal %g dB", *g)), c.X(b0)-0.8, c.Y(*g)+1, "R", noteFontPt, colLimit)
+				label(f, Minus(fmt.Sprintf("goal %g dB", *g)), c.X(b0)-0.8, c.Y(*g)+1, "R", noteFontPt, colLimit)
 			}
 		}
 	}
@@ -257,7 +257,7 @@ func (d *doc) s11Chart(x, y, w, h float64) {
 		yv := math.Max(d.rep.S11DBF0, ylo)
 		setFill(f, colCurveA)
 		f.Circle(c.X(f0), c.Y(yv), 0.7, "F")
-		label(f, minus(ModelDB(d.rep.S11DBF0)+" at f0"), c.X(f0)+1.5, math.Min(c.Y(yv)+2.5, y+h-2), "L", noteFontPt, colCurveA)
+		label(f, Minus(ModelDB(d.rep.S11DBF0)+" at f0"), c.X(f0)+1.5, math.Min(c.Y(yv)+2.5, y+h-2), "L", noteFontPt, colCurveA)
 	}
 }
 
@@ -317,7 +317,7 @@ func (d *doc) smith(x, y, w, h float64) {
 			gx, gy := P(gammaOf(complex(0, s*v)))
 			t := trimFloat(s*v) + "j"
 			if s < 0 {
-				t = minus(t)
+				t = Minus(t)
 			}
 			dx := (gx - cx) / R * 2.4
 			dy := (gy - cy) / R * 2.4
@@ -412,7 +412,7 @@ func (d *doc) histogram(x, y, w, h float64) {
 	c := chart{x: x, y: y, w: w, h: h, xlo: xlo, xhi: xhi, xst: niceStep(xhi-xlo, 5),
 		ylo: 0, yhi: float64(maxC) * 1.1, yst: niceStep(float64(maxC)*1.1, 4), xlabel: "|S11| at f0 (dB)", ylabel: "boards"}
 	c.yst = math.Max(1, c.yst)
-	d.frame(c, fmt.Sprintf("Monte Carlo |S11| at f0, %d boards (seed %d)", t.Samples, t.Seed), func(v float64) string { return minus(trimFloat(v)) })
+	d.frame(c, fmt.Sprintf("Monte Carlo |S11| at f0, %d boards (seed %d)", t.Samples, t.Seed), func(v float64) string { return Minus(trimFloat(v)) })
 	setFill(f, colCurveA)
 	setDraw(f, 0xffffff)
 	f.SetLineWidth(0.1)
@@ -431,7 +431,7 @@ func (d *doc) histogram(x, y, w, h float64) {
 		dashed(f, c.X(v), y, c.X(v), y+h, col)
 		label(f, s, c.X(v)+0.8, y+2.3+float64(row)*2.6, "L", noteFontPt, col)
 	}
-	mark(t.YieldBelowDB, colLimit, minus(fmt.Sprintf("%.0f dB", t.YieldBelowDB)), 0)
+	mark(t.YieldBelowDB, colLimit, Minus(fmt.Sprintf("%.0f dB", t.YieldBelowDB)), 0)
 	mark(t.P50S11DB, colCurveB, "median", 1)
 	mark(t.P90S11DB, colCurveB, "90 %", 2)
 }
@@ -441,13 +441,13 @@ func (d *doc) results(x, y, w float64) {
 	f := d.pdf
 	r := d.rep
 	lines := append(headlineFigures(r),
-		minus(fmt.Sprintf("model |S11| at f0: %s drawn, %s without the discontinuity corrections, %s before re-centring", ModelDB(r.S11DBF0), ModelDB(r.S11DBF0Uncorr), ModelDB(r.Recentring.S11DBBefore))),
-		minus(fmt.Sprintf("return loss %s, VSWR %.2f, network loss %.3f dB at f0", returnLossText(float64(r.ReturnLossDBF0)), r.VSWRF0, r.NetworkLossDBF0)))
+		Minus(fmt.Sprintf("model |S11| at f0: %s drawn, %s without the discontinuity corrections, %s before re-centring", ModelDB(r.S11DBF0), ModelDB(r.S11DBF0Uncorr), ModelDB(r.Recentring.S11DBBefore))),
+		Minus(fmt.Sprintf("return loss %s, VSWR %.2f, network loss %.3f dB at f0", returnLossText(float64(r.ReturnLossDBF0)), r.VSWRF0, r.NetworkLossDBF0)))
 	if r.Bandwidth10DBHz > 0 {
-		lines = append(lines, minus(fmt.Sprintf("band |S11| < −10 dB: %s (%.1f MHz)", units.FormatFrequencyRange(r.Band10DBHz[0], r.Band10DBHz[1], 4), r.Bandwidth10DBHz/1e6)))
+		lines = append(lines, Minus(fmt.Sprintf("band |S11| < −10 dB: %s (%.1f MHz)", units.FormatFrequencyRange(r.Band10DBHz[0], r.Band10DBHz[1], 4), r.Bandwidth10DBHz/1e6)))
 	}
 	if t := r.Tolerance; t != nil {
-		lines = append(lines, minus(fmt.Sprintf("spreads: εr ±%.1f %%, h ±%.1f %%, width ±%.0f µm, copper ±%.1f %%; median %.1f dB, 90 %% %.1f dB, yield below %.0f dB %.1f %%",
+		lines = append(lines, Minus(fmt.Sprintf("spreads: εr ±%.1f %%, h ±%.1f %%, width ±%.0f µm, copper ±%.1f %%; median %.1f dB, 90 %% %.1f dB, yield below %.0f dB %.1f %%",
 			100*t.ErRel, 100*t.ThicknessRel, t.WidthUM, 100*t.CopperRel, t.P50S11DB, t.P90S11DB, t.YieldBelowDB, 100*t.Yield)))
 	}
 	lines = append(lines, "line model: "+r.Model)
@@ -553,7 +553,7 @@ func sensitivityLines(sens []ReportSensitivity) []string {
 		case s.BestMatchShiftMHz != nil:
 			move = fmt.Sprintf("best match %+.2f MHz; ", *s.BestMatchShiftMHz)
 		}
-		out = append(out, minus(fmt.Sprintf("%s, %s: %s|S11| at f0 becomes %s", s.ID, s.Step, move, ModelDB(s.S11DBF0AfterStep))))
+		out = append(out, Minus(fmt.Sprintf("%s, %s: %s|S11| at f0 becomes %s", s.ID, s.Step, move, ModelDB(s.S11DBF0AfterStep))))
 	}
 	return out
 }

@@ -76,7 +76,7 @@ func (d *doc) structuresSheet() {
 		// Purpose.
 		f.SetFont(fontSans, "", 6.5)
 		setText(f, colInk)
-		for _, line := range f.SplitText(minus(s.Note), w-4) {
+		for _, line := range f.SplitText(Minus(s.Note), w-4) {
 			f.Text(x+2, y+2.2, line)
 			y += 2.9
 		}
@@ -103,7 +103,7 @@ func (d *doc) structuresHeight(w float64) float64 {
 	h := 4.0
 	for _, s := range d.rep.Structures {
 		h += 6 + s.BoardMM[1]*structureScale(s, w) + 9 + 4
-		h += 2.9 * float64(len(f.SplitText(minus(s.Note), w-4)))
+		h += 2.9 * float64(len(f.SplitText(Minus(s.Note), w-4)))
 	}
 	return h
 }

@@ -278,7 +278,7 @@ func NewReport(r *synth.Result, version string) Report {
 		NetworkLossDBF0: Number(r.LossF0DB),
 		Bandwidth10DBHz: r.BW10.Width(), Band10DBHz: [2]float64{r.BW10.Lo, r.BW10.Hi},
 		Bandwidth20DBHz: r.BW20.Width(), Band20DBHz: [2]float64{r.BW20.Lo, r.BW20.Hi},
-		Notes: nonNil(r.Notes), Warnings: nonNil(r.Warnings), Cautions: Cautions(),
+		Notes: minusAll(r.Notes), Warnings: minusAll(r.Warnings), Cautions: Cautions(),
 	}
 	rep.Stackup = ReportStackup{Name: st.Name, Line: st.Line.String(), Er: st.Dielectric.Er, ErFrequencyHz: st.Dielectric.ErFrequency,
 		LossTangent: st.Dielectric.LossTangent, ThicknessMM: st.Dielectric.Thickness * 1e3,
@@ -368,7 +368,7 @@ func NewReport(r *synth.Result, version string) Report {
 	if b := r.Band; b != nil {
 		bf := b.BodeFano
 		rep.Band = &ReportBand{StartHz: b.Start, StopHz: b.Stop, WorstS11DB: b.WorstS11DB,
-			BodeFanoStatus: bf.Status.String(), BodeFanoNote: bf.String(),
+			BodeFanoStatus: bf.Status.String(), BodeFanoNote: Minus(bf.String()),
 			LoadFit: bf.FitText(), LoadFitCircuit: bf.FitCircuit(), LoadFitMisfitPct: 100 * bf.Fit.MaxRelErr,
 			Topology: b.Topology, Objective: b.Objective}
 		if b.GoalDB != 0 {
@@ -444,9 +444,11 @@ func (n Number) MarshalJSON() ([]byte, error) {
 	return json.Marshal(float64(n))
 }
 
-func nonNil(s []string) []string {
-	if s == nil {
-		return []string{}
+// minusAll is s with its minus signs written by Minus, never nil.
+func minusAll(s []string) []string {
+	out := make([]string, len(s))
+	for i, l := range s {
+		out[i] = Minus(l)
 	}
-	return s
+	return out
 }

@@ -72,7 +72,9 @@ func TestBandReportAgreesWithMatchedS1P(t *testing.T) {
 		}
 		// The summary states the band's worst beside the goal and the
 		// Bode-Fano limit, as report.json has them.
-		if want := fmt.Sprintf("worst |S11| %.2f dB, goal %.1f dB; Bode-Fano limit %s", rep.Band.WorstS11DB, *rep.Band.GoalDB, rep.Band.BodeFanoNote); !strings.Contains(stdout, want) {
+		// Negative figures are written with U+2212, as everywhere else.
+		trueMinus := func(format string, v float64) string { return strings.Replace(fmt.Sprintf(format, v), "-", "−", 1) }
+		if want := fmt.Sprintf("worst |S11| %s dB, goal %s dB; Bode-Fano limit %s", trueMinus("%.2f", rep.Band.WorstS11DB), trueMinus("%.1f", *rep.Band.GoalDB), rep.Band.BodeFanoNote); !strings.Contains(stdout, want) {
 			t.Errorf("%s: the summary lacks %q", name, want)
 		}
 		if b := rep.Band.BodeFanoS11DB; b != nil && rep.Band.WorstS11DB < *b {
@@ -131,13 +133,13 @@ func TestSolveBandAuto(t *testing.T) {
 // the reason.
 func TestSolveBandBodeFanoText(t *testing.T) {
 	antenna := filepath.Join("..", "..", "testdata", "designs", "antenna.s1p")
-	figure := regexp.MustCompile(`-?\d+(\.\d+)? dB`)
+	figure := regexp.MustCompile(`−?\d+(\.\d+)? dB`)
 	for _, c := range []struct {
 		args []string
 		want string
 	}{
-		{[]string{"--load", "31-j24"}, "Bode-Fano limit (lossless network, Fano 1950): below -60 dB"},
-		{[]string{"--load", "49-j1"}, "Bode-Fano limit (lossless network, Fano 1950): below -60 dB"},
+		{[]string{"--load", "31-j24"}, "Bode-Fano limit (lossless network, Fano 1950): below −60 dB"},
+		{[]string{"--load", "49-j1"}, "Bode-Fano limit (lossless network, Fano 1950): below −60 dB"},
 		{[]string{"--touchstone", antenna}, "load: series RLC, R = 28.01 ohm, L = 5.999 nH, C = 0.6246 pF"},
 		{[]string{"--load", "31-j24", "--band", "2GHz..3GHz"}, "Bode-Fano limit (lossless network, Fano 1950): not quoted: the best fit (series RC) misses the load by 13 %"},
 		{[]string{"--load", "50"}, "Bode-Fano limit (lossless network, Fano 1950): none"},
@@ -156,7 +158,7 @@ func TestSolveBandBodeFanoText(t *testing.T) {
 			}
 			for _, m := range figure.FindAllString(line, -1) {
 				var v float64
-				if _, err := fmt.Sscanf(m, "%g dB", &v); err == nil && v < -60 {
+				if _, err := fmt.Sscanf(strings.Replace(m, "−", "-", 1), "%g dB", &v); err == nil && v < -60 {
 					t.Errorf("%v: %q prints %s", c.args, line, m)
 				}
 			}

@@ -160,7 +160,7 @@ func printCompare(w io.Writer, rows []compareRow, minWidth float64) error {
 		for _, v := range r.WidthsMM {
 			ws = append(ws, fmt.Sprintf("%.3f", v))
 		}
-		p50, p90 := "-", "-"
+		p50, p90 := "—", "—"
 		if r.P50S11DB != nil {
 			p50 = fmt.Sprintf("%.1f", *r.P50S11DB)
 		}
@@ -171,8 +171,8 @@ func printCompare(w io.Writer, rows []compareRow, minWidth float64) error {
 		if !r.MeetsFab {
 			ok = "NO"
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%s\t%s\t%s\t%.2f\t%.2f\t%.3f\t%.3f\t%s\n", r.Stackup, p50, p90, strings.TrimSuffix(export.ModelDB(r.S11DBF0), " dB"),
-			strings.Join(ws, ", "), r.CopperLengthMM, r.CopperAreaMM2, r.InsertionDB, r.MinWidthMM, ok)
+		fmt.Fprint(tw, export.Minus(fmt.Sprintf("%s\t%s\t%s\t%s\t%s\t%.2f\t%.2f\t%.3f\t%.3f\t%s\n", r.Stackup, p50, p90, strings.TrimSuffix(export.ModelDB(r.S11DBF0), " dB"),
+			strings.Join(ws, ", "), r.CopperLengthMM, r.CopperAreaMM2, r.InsertionDB, r.MinWidthMM, ok)))
 	}
 	return tw.Flush()
 }

@@ -7,6 +7,7 @@ import (
 	"strings"
 	"text/tabwriter"
 
+	"stubcraft/export"
 	"stubcraft/physical/units"
 	"stubcraft/synth"
 )
@@ -102,16 +103,16 @@ func runSolveBand(w io.Writer, o solveOptions, b solveBandOptions) error {
 	}
 	fmt.Fprintf(w, "band %s (f0 %s) on %g Ω\n", units.FormatFrequencyRange(f1, f2, 6), units.FormatFrequency(res.F0, 6), z0)
 	fmt.Fprintf(w, "load: %s\n", res.BodeFano.FitText())
-	fmt.Fprintf(w, "Bode-Fano limit (lossless network, Fano 1950): %s\n\n", res.BodeFano)
+	fmt.Fprintf(w, "Bode-Fano limit (lossless network, Fano 1950): %s\n\n", export.Minus(res.BodeFano.String()))
 	var table strings.Builder
 	tw := tabwriter.NewWriter(&table, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "candidate\tworst |S11| in band (dB)\ttotal electrical length (°)\t")
 	for _, s := range res.Solutions {
 		if s.Err != "" {
-			fmt.Fprintf(tw, "%s\t—\t—\t%s\n", s.Name(), s.Err)
+			fmt.Fprintf(tw, "%s\t—\t—\t%s\n", s.Name(), export.Minus(s.Err))
 			continue
 		}
-		fmt.Fprintf(tw, "%s\t%.2f\t%.1f\t\n", s.Name(), s.WorstS11DB, s.TotalDeg)
+		fmt.Fprint(tw, export.Minus(fmt.Sprintf("%s\t%.2f\t%.1f\t\n", s.Name(), s.WorstS11DB, s.TotalDeg)))
 	}
 	if err := tw.Flush(); err != nil {
 		return err
@@ -119,7 +120,7 @@ func runSolveBand(w io.Writer, o solveOptions, b solveBandOptions) error {
 	writeTrimmedLines(w, table.String())
 	for _, s := range res.Solutions {
 		if s.Note != "" {
-			fmt.Fprintf(w, "\n%s: %s", s.Name(), s.Note)
+			fmt.Fprintf(w, "\n%s: %s", s.Name(), export.Minus(s.Note))
 		}
 	}
 	fmt.Fprintln(w, "\nideal lossless lines, lengths optimised for the worst |S11| at 41 points across the band; ranked by that, then by total electrical length (there is no board yet: build a design to rank by board area)")
