@@ -32,6 +32,7 @@ type Grid struct {
 	ports    [2]portPlan
 	EdgeCell float64   // the edge cell size used for the 1/3–2/3 rule, m
 	ext      Structure // the structure with the port lines drawn out into the absorbing layers
+	walls    []wall    // ground walls: the structure's own and those of coplanar port lines
 }
 
 // Cells returns the number of Yee cells.
@@ -120,6 +121,19 @@ func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, erro
 		x0, x1 := math.Min(pp.edge, far), math.Max(pp.edge, far)
 		ext.Copper = append(ext.Copper, RectPolygon(int64(math.Round(x0*1e9)), pt.Y-pt.Width/2,
 			int64(math.Round(x1*1e9)), pt.Y-pt.Width/2+pt.Width))
+		if pt.Gap > 0 {
+			lo, hi, wy := pt.sideGrounds()
+			for k := range lo {
+				ext.Copper = append(ext.Copper, RectPolygon(int64(math.Round(x0*1e9)), int64(math.Round(lo[k]*1e9)),
+					int64(math.Round(x1*1e9)), int64(math.Round(hi[k]*1e9))))
+				g.walls = append(g.walls, wall{y: wy[k], x0: x0, x1: x1})
+				yfix = append(yfix, wy[k])
+			}
+		}
+	}
+	for _, w := range s.walls {
+		g.walls = append(g.walls, w)
+		yfix = append(yfix, w.y)
 	}
 	ex, _ := edgeLines(ext, 0, d)
 	ey, _ := edgeLines(ext, 1, d)

@@ -115,6 +115,17 @@ func gradedLines(fixed []float64, minCell, dmax, ratio float64) []float64 {
 	}
 	out := []float64{f[0]}
 	for i := 0; i+1 < len(f); i++ {
+		// A gap no wider than the edge cell is left whole even where its
+		// neighbours are smaller than the ratio allows: it is the cell
+		// across a copper edge (the one-third/two-thirds pair), and a line
+		// inside it would put the edge in a cell whose middle lies in the
+		// copper, so that the copper reaches that line. Between the close
+		// edges of a 0.25 mm coplanar gap (edge cell h/4 on 0.51 mm) that
+		// narrowed the gap on the mesh and raised the line's εeff by 19 %.
+		if f[i+1]-f[i] <= minCell*(1+1e-9) {
+			out = append(out, f[i+1])
+			continue
+		}
 		out = append(out, fillGap(f[i], f[i+1], scale[i], scale[i+1], dmax, ratio)...)
 		out = append(out, f[i+1])
 	}

@@ -193,9 +193,7 @@ func newSim(g *Grid, s Structure, workers int) *sim {
 		}
 	}
 	m.dtmu = float32(dt / mu0)
-	// Materials: substrate below z = h, air above; Ex, Ey on the copper
-	// plane see the average weighted by the half cells on each side.
-	sigma := 2 * math.Pi * s.F0 * eps0 * s.Er * s.TanD
+	// Materials by z (substrate, mask, air; see zMaterials).
 	coef := func(er, sg float64) (float32, float32) {
 		e := eps0 * er
 		q := sg * dt / (2 * e)
@@ -203,22 +201,10 @@ func newSim(g *Grid, s Structure, workers int) *sim {
 	}
 	m.caT, m.cbT = make([]float32, nz), make([]float32, nz)
 	m.caZ, m.cbZ = make([]float32, nz), make([]float32, nz)
+	erT, sgT, erZ, sgZ := zMaterials(g, s)
 	for k := 0; k < nz; k++ {
-		erZ, sgZ := 1.0, 0.0
-		if k < g.KH {
-			erZ, sgZ = s.Er, sigma
-		}
-		m.caZ[k], m.cbZ[k] = coef(erZ, sgZ)
-		erT, sgT := 1.0, 0.0
-		switch {
-		case k < g.KH:
-			erT, sgT = s.Er, sigma
-		case k == g.KH:
-			below, above := g.Z[k]-g.Z[k-1], g.Z[k+1]-g.Z[k]
-			wb := below / (below + above)
-			erT, sgT = wb*s.Er+(1-wb), wb*sigma
-		}
-		m.caT[k], m.cbT[k] = coef(erT, sgT)
+		m.caZ[k], m.cbZ[k] = coef(erZ[k], sgZ[k])
+		m.caT[k], m.cbT[k] = coef(erT[k], sgT[k])
 	}
 	m.markPEC(g)
 	for _, l := range []*[]int32{&m.pecX, &m.pecY, &m.pecZ} {
@@ -250,6 +236,7 @@ func (m *sim) markPEC(g *Grid) {
 			}
 		}
 	}
+	m.markWalls(g)
 	for _, v := range s.Vias {
 		cx, cy := float64(v.Center.X)*1e-9, float64(v.Center.Y)*1e-9
 		r := float64(v.Diameter) * 1e-9 / 2

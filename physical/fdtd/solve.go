@@ -130,7 +130,7 @@ func Solve(ctx context.Context, s Structure, o Options) (*Result, error) {
 	}
 	start := time.Now()
 	runs := 3
-	if s.Ports[0].Width != s.Ports[1].Width {
+	if p0, p1 := s.Ports[0], s.Ports[1]; p0.Width != p1.Width || p0.Gap != p1.Gap || p0.GroundWidth != p1.GroundWidth {
 		runs = 4
 	}
 	var lines [2]lineData
@@ -198,9 +198,21 @@ func calibrateOn(ctx context.Context, s Structure, width int64, edge float64, ys
 	fmax := s.Freqs[len(s.Freqs)-1]
 	span := 0.35 * c0 / (fmax * math.Sqrt(s.Er))
 	L := int64(math.Round(math.Max(span-4*hw, 2*hw) * 1e9))
-	c := Structure{Er: s.Er, TanD: s.TanD, F0: s.F0, H: s.H, BoardMinX: 0, BoardMaxX: L, Freqs: s.Freqs,
+	c := Structure{Er: s.Er, TanD: s.TanD, F0: s.F0, H: s.H, Mask: s.Mask, BoardMinX: 0, BoardMaxX: L, Freqs: s.Freqs,
 		Copper: []Polygon{RectPolygon(0, -width/2, L, width-width/2)},
 		Ports:  [2]Port{{Side: Left, Y: 0, Width: width}, {Side: Right, Y: 0, Width: width}}}
+	if p := s.Ports[q]; p.Gap > 0 {
+		// A coplanar port line: its side grounds and their walls run the
+		// calibration line's whole length.
+		for i := range c.Ports {
+			c.Ports[i].Gap, c.Ports[i].GroundWidth = p.Gap, p.GroundWidth
+		}
+		lo, hi, wy := c.Ports[0].sideGrounds()
+		for k := range lo {
+			c.Copper = append(c.Copper, RectPolygon(0, int64(math.Round(lo[k]*1e9)), L, int64(math.Round(hi[k]*1e9))))
+			c.walls = append(c.walls, wall{y: wy[k], x0: 0, x1: float64(L) * 1e-9})
+		}
+	}
 	g, err := newGrid(c, o.Mesh, edge, ys)
 	if err != nil {
 		return lineData{}, 0, 0, err

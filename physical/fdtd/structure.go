@@ -40,14 +40,32 @@ const (
 // Port is a microstrip port on a board edge: the strip of width Width (nm)
 // centred on Y (nm) meets the edge, and the solver extends it straight out
 // of the board into the absorbing layer.
+//
+// With Gap > 0 the port line is grounded coplanar: two side grounds
+// GroundWidth wide, Gap from the strip's edges (nm), run out with the
+// strip, each held to the ground plane by a wall of vertical perfect
+// conductor along its middle (the side grounds at ground potential, as the
+// 2-D field solver takes them). The board's own copper must meet them at
+// the edge.
 type Port struct {
-	Side  Side
-	Y     int64
-	Width int64
+	Side             Side
+	Y                int64
+	Width            int64
+	Gap, GroundWidth int64
+}
+
+// Mask is a solder mask: a dielectric layer Thickness thick (m) over the
+// whole top face, copper and bare substrate alike, running on into the
+// absorbing layers like the substrate. The zero value is no mask.
+type Mask struct {
+	Thickness float64 // m; 0 for none
+	Er        float64 // relative permittivity
+	TanD      float64 // loss tangent at the structure's F0
 }
 
 // Structure is everything the solver needs to know about a board. Copper
-// is drawn at z = H on the top face; the ground plane is at z = 0.
+// is drawn at z = H on the top face; the ground plane is at z = 0; a
+// solder mask, when there is one, lies from z = H to H + Mask.Thickness.
 // BoardMinX and BoardMaxX are the x of the two edges the ports lie on
 // (the S-parameters' reference planes), nm.
 type Structure struct {
@@ -55,6 +73,7 @@ type Structure struct {
 	TanD   float64 // substrate loss tangent at F0
 	F0     float64 // frequency at which TanD becomes a conductivity, Hz
 	H      float64 // substrate height, m
+	Mask   Mask    // solder mask over the top face; zero value none
 	Copper []Polygon
 	Vias   []Via
 	// Ports: Ports[0] is port 1, Ports[1] port 2; one on each side.
@@ -63,6 +82,26 @@ type Structure struct {
 	Freqs                []float64 // sweep frequencies, Hz, ascending
 	// Zref is the reference impedance of the S-parameters, ohm; 0 means 50.
 	Zref float64
+	// walls are ground walls the package adds on its own boards (the side
+	// grounds of a coplanar port line's calibration).
+	walls []wall
+}
+
+// wall is a vertical perfect conductor from the ground plane to the top
+// face along y = Y (m), from X0 to X1 (m).
+type wall struct{ y, x0, x1 float64 }
+
+// sideGrounds returns the y ranges (m) of a coplanar port's two side
+// grounds and the y of the wall under each (its middle).
+func (p Port) sideGrounds() (lo, hi [2]float64, wallY [2]float64) {
+	yc, w := float64(p.Y)*1e-9, float64(p.Width)*1e-9
+	gap, gw := float64(p.Gap)*1e-9, float64(p.GroundWidth)*1e-9
+	lo = [2]float64{yc - w/2 - gap - gw, yc + w/2 + gap}
+	hi = [2]float64{yc - w/2 - gap, yc + w/2 + gap + gw}
+	for i := range wallY {
+		wallY[i] = (lo[i] + hi[i]) / 2
+	}
+	return lo, hi, wallY
 }
 
 // ErrStructure is wrapped by every error Validate returns.
@@ -82,6 +121,14 @@ func (s Structure) Validate() error {
 		return bad("f0 = %g Hz, want > 0 with a loss tangent", s.F0)
 	case !(s.H > 0) || s.H > 0.1:
 		return bad("h = %g m, want 0 to 0.1 m", s.H)
+	case !(s.Mask.Thickness >= 0) || s.Mask.Thickness > 1e-3:
+		return bad("mask thickness %g m, want 0 to 1 mm", s.Mask.Thickness)
+	case s.Mask.Thickness > 0 && (!(s.Mask.Er >= 1) || math.IsInf(s.Mask.Er, 0)):
+		return bad("mask εr = %g, want ≥ 1", s.Mask.Er)
+	case s.Mask.Thickness > 0 && (!(s.Mask.TanD >= 0) || s.Mask.TanD > 0.1):
+		return bad("mask tanδ = %g, want 0 to 0.1", s.Mask.TanD)
+	case s.Mask.Thickness > 0 && s.Mask.TanD > 0 && !(s.F0 > 0):
+		return bad("f0 = %g Hz, want > 0 with a mask loss tangent", s.F0)
 	case len(s.Freqs) == 0:
 		return bad("no sweep frequencies")
 	case s.BoardMaxX <= s.BoardMinX:
@@ -101,6 +148,9 @@ func (s Structure) Validate() error {
 	for i, p := range s.Ports {
 		if p.Width <= 0 {
 			return bad("port %d width %d nm, want > 0", i+1, p.Width)
+		}
+		if p.Gap < 0 || (p.Gap > 0 && p.GroundWidth <= 0) {
+			return bad("port %d gap %d nm and side-ground width %d nm: want no gap, or both > 0", i+1, p.Gap, p.GroundWidth)
 		}
 	}
 	for i, p := range s.Copper {

@@ -28,7 +28,20 @@ func lineCase(t *testing.T, er, h, wh float64, mesh MeshParams) (z, zHJ, ee, eeK
 	t.Helper()
 	w := wh * h
 	f := 1e9 * 1e-3 / h // f·h = 1 GHz·mm: the static Z0 still applies
-	s := straight(er, h, w, 2*h, []float64{0.5 * f, f, 1.5 * f})
+	z, ee = measureLine(t, straight(er, h, w, 2*h, []float64{0.5 * f, f, 1.5 * f}), mesh)
+	m, err := physical.NewMicrostrip(w, physical.Substrate{Er: er, Height: h})
+	if err != nil {
+		t.Fatal(err)
+	}
+	lp := m.At(f)
+	return z, lp.Z0, ee, lp.EpsEff
+}
+
+// measureLine runs the port-line calibration of s's first port (a uniform
+// line of its width on s's layers) and returns the full-wave Z0 (ohm) and
+// εeff at s.Freqs[1].
+func measureLine(t *testing.T, s Structure, mesh MeshParams) (z0, epsEff float64) {
+	t.Helper()
 	o := Options{Mesh: mesh}.withDefaults()
 	g, err := NewGrid(s, o.Mesh)
 	if err != nil {
@@ -38,13 +51,8 @@ func lineCase(t *testing.T, er, h, wh float64, mesh MeshParams) (z, zHJ, ee, eeK
 	if err != nil {
 		t.Fatal(err)
 	}
-	m, err := physical.NewMicrostrip(w, physical.Substrate{Er: er, Height: h})
-	if err != nil {
-		t.Fatal(err)
-	}
-	lp := m.At(f)
-	k := ld.gamma[1] * complex(c0/(2*math.Pi*f), 0)
-	return real(ld.z0[1]), lp.Z0, real(-k * k), lp.EpsEff
+	k := ld.gamma[1] * complex(c0/(2*math.Pi*s.Freqs[1]), 0)
+	return real(ld.z0[1]), real(-k * k)
 }
 
 // TestUniformLine checks a uniform line on the coarse mesh: its full-wave

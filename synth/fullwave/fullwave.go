@@ -5,7 +5,9 @@
 //
 // What the full-wave model leaves out, and says so in Report.Notes: the
 // copper's thickness and conductivity (it is a perfect, zero-thickness
-// conductor), the solder mask, and the board's outline (the substrate and
+// conductor), the solder mask's openings (a mask over the RF copper is one
+// layer over the whole top face, port pads included, as the circuit
+// model's masked lines are), and the board's outline (the substrate and
 // the ground plane run on into the absorbing layers on every side).
 package fullwave
 
@@ -40,7 +42,7 @@ func Structure(res *synth.Result, freqs []float64) (fdtd.Structure, error) {
 	s := fdtd.Structure{
 		Er: sub.Er, TanD: sub.LossTangent, F0: res.Design.Freq,
 		H: sub.Height, BoardMinX: bmin.X, BoardMaxX: bmax.X,
-		Freqs: freqs, Zref: res.Design.Z0,
+		Freqs: freqs, Zref: res.Design.Z0, Mask: maskOf(res),
 	}
 	for _, n := range l.Copper {
 		s.Copper = append(s.Copper, polygon(n.Outline))
@@ -73,7 +75,54 @@ func Structure(res *synth.Result, freqs []float64) (fdtd.Structure, error) {
 		}
 		s.Ports[i] = fdtd.Port{Side: q.side, Y: (lo + hi) / 2, Width: hi - lo}
 	}
+	coplanarPorts(&s, res, bmin, bmax)
 	return s, s.Validate()
+}
+
+// coplanarPorts makes a grounded-coplanar board's ports coplanar, as its
+// lines were sized: each port line runs on into the absorbing layer with
+// side grounds at the stackup's gap, as wide as the pour beside the strip
+// allows on both sides, held to the plane (fdtd.Port.Gap). The pour keeps
+// the edge clearance from the board edge; the side grounds are drawn on
+// over that strip of bare substrate to the edge, so that the line is
+// coplanar right up to the reference plane, where the circuit model takes
+// it. A microstrip board is left as it is.
+func coplanarPorts(s *fdtd.Structure, res *synth.Result, bmin, bmax geom.Point) {
+	st := res.Stackup
+	if st.Line != stackups.GCPW || !(st.Gap > 0) {
+		return
+	}
+	gap := geom.Nanometres(st.Gap)
+	clr := geom.Nanometres(res.Design.Layout.EdgeClearance)
+	for i := range s.Ports {
+		p := &s.Ports[i]
+		lo := p.Y - p.Width/2 - gap - (bmin.Y + clr)
+		hi := bmax.Y - clr - (p.Y - p.Width/2 + p.Width + gap)
+		gw := min(lo, hi)
+		if gw <= 0 {
+			continue
+		}
+		p.Gap, p.GroundWidth = gap, gw
+		x0, x1 := bmin.X, bmin.X+clr+1000 // 1 µm into the pour
+		if p.Side == fdtd.Right {
+			x0, x1 = bmax.X-clr-1000, bmax.X
+		}
+		ya := p.Y - p.Width/2 - gap
+		yb := p.Y - p.Width/2 + p.Width + gap
+		s.Copper = append(s.Copper, fdtd.RectPolygon(x0, ya-gw, x1, ya), fdtd.RectPolygon(x0, yb, x1, yb+gw))
+	}
+}
+
+// maskOf returns the solder mask over res's RF copper: the stackup's
+// [mask] when the layout covers the copper with it (layout.mask cover, or
+// auto on a masked stackup), the lines having been sized under it; none
+// when the copper is bare (open), however the rest of the board is masked.
+func maskOf(res *synth.Result) fdtd.Mask {
+	m := res.Stackup.Mask
+	if m == nil || res.Design.Layout.Mask != synth.MaskCover {
+		return fdtd.Mask{}
+	}
+	return fdtd.Mask{Thickness: m.Thickness, Er: m.Er, TanD: m.LossTangent}
 }
 
 func polygon(p geom.Polygon) fdtd.Polygon {
@@ -199,7 +248,11 @@ func Compare(res *synth.Result, s [][2][2]complex128) (*Report, error) {
 		return nil, err
 	}
 	rep := &Report{Freqs: freqs, Network: s, Circuit: circuit, Zref: z0}
-	rep.Notes = append(rep.Notes, "full-wave model: perfect zero-thickness copper, no solder mask, substrate and ground plane unbounded beside the board")
+	mask := "no solder mask over the RF copper"
+	if m := maskOf(res); m.Thickness > 0 {
+		mask = fmt.Sprintf("the %.3g µm solder mask (εr %.3g) over the whole top face, its openings at the port pads left out", m.Thickness*1e6, m.Er)
+	}
+	rep.Notes = append(rep.Notes, "full-wave model: perfect zero-thickness copper, "+mask+", substrate and ground plane unbounded beside the board")
 	if share, ok := ThicknessShare(res); ok {
 		rep.Notes = append(rep.Notes, fmt.Sprintf("the full-wave copper has zero thickness: with the stackup's %.1f µm copper the lines are %.2f %% electrically shorter (Hammerstad-Jensen thickness correction, weighted by electrical length), so the drawn board's best match lies about %.2f %% above the full-wave's on that account", res.Physical.Board.Sub.CopperThickness*1e6, 100*share, 100*share))
 	}

@@ -219,3 +219,111 @@ func TestThicknessShare(t *testing.T) {
 		t.Errorf("a grounded coplanar board got a microstrip thickness share (%.3f %%)", 100*s)
 	}
 }
+
+// TestStructureMask checks that the solder mask reaches the full-wave
+// board when the layout covers the RF copper with it: the masked example
+// (testdata/designs/stackups/thin-board.toml: 20 µm, εr 3.5, no loss
+// tangent given) as built, and the same design with [layout] mask = "open",
+// whose lines are sized bare and drawn under a window, without.
+func TestStructureMask(t *testing.T) {
+	for _, c := range []struct {
+		mode synth.MaskMode
+		want fdtd.Mask
+	}{
+		{synth.MaskAuto, fdtd.Mask{Thickness: 20e-6, Er: 3.5}},
+		{synth.MaskOpen, fdtd.Mask{}},
+	} {
+		in, err := synth.LoadDesign("../../testdata/designs/sensor-antenna-by-hand.toml", synth.LoadOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		in.SkipTolerance, in.AcceptMismatch = true, true
+		in.Design.Layout.Mask = c.mode
+		res, err := synth.Build(context.Background(), in)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s, err := Structure(res, res.Sweep.Freqs)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(s.Mask.Thickness-c.want.Thickness) > 1e-12 || s.Mask.Er != c.want.Er || s.Mask.TanD != c.want.TanD {
+			t.Errorf("layout.mask %s: full-wave mask %+v, want %+v", c.mode, s.Mask, c.want)
+		}
+	}
+}
+
+// TestStructureCoplanarPorts checks that a grounded-coplanar board's ports
+// are coplanar lines at the stackup's gap (gcpw-probe: 0.25 mm), with side
+// grounds drawn over the edge clearance to the board edge beside each port
+// strip, and that a microstrip board's (the demo's) are not.
+func TestStructureCoplanarPorts(t *testing.T) {
+	in, err := synth.LoadDesign("../../testdata/designs/gcpw-probe.toml", synth.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	in.SkipTolerance = true
+	res, err := synth.Build(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := Structure(res, res.Sweep.Freqs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, p := range s.Ports {
+		if p.Gap != 250000 || p.GroundWidth <= 0 {
+			t.Errorf("port %d: gap %d nm, side grounds %d nm wide: want the stackup's 250000 nm gap and side grounds", i+1, p.Gap, p.GroundWidth)
+			continue
+		}
+		// Copper right at the board edge, just outside the gap on each side.
+		x := s.BoardMinX + 100
+		if p.Side == fdtd.Right {
+			x = s.BoardMaxX - 100
+		}
+		for _, y := range []int64{p.Y - p.Width/2 - p.Gap - 1000, p.Y - p.Width/2 + p.Width + p.Gap + 1000} {
+			if !inAny(s.Copper, x, y) {
+				t.Errorf("port %d: no side ground at the board edge at y = %.3f mm", i+1, float64(y)/1e6)
+			}
+		}
+		if y := p.Y - p.Width/2 - p.Gap/2; inAny(s.Copper, x, y) {
+			t.Errorf("port %d: copper in the gap at the board edge", i+1)
+		}
+	}
+	demo, err := synth.LoadDemo(synth.LoadOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	demo.SkipTolerance = true
+	dres, err := synth.Build(context.Background(), demo)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ds, err := Structure(dres, dres.Sweep.Freqs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, p := range ds.Ports {
+		if p.Gap != 0 || p.GroundWidth != 0 {
+			t.Errorf("demo port %d: gap %d nm, side grounds %d nm: a microstrip port has none", i+1, p.Gap, p.GroundWidth)
+		}
+	}
+}
+
+// inAny reports whether (x, y) (nm) lies inside any of the polygons, by
+// the even-odd rule.
+func inAny(ps []fdtd.Polygon, x, y int64) bool {
+	for _, p := range ps {
+		in := false
+		for i, j := 0, len(p)-1; i < len(p); j, i = i, i+1 {
+			a, b := p[i], p[j]
+			if (a.Y > y) != (b.Y > y) && float64(x) < float64(b.X-a.X)*float64(y-a.Y)/float64(b.Y-a.Y)+float64(a.X) {
+				in = !in
+			}
+		}
+		if in {
+			return true
+		}
+	}
+	return false
+}

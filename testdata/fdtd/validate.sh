@@ -3,7 +3,9 @@
 # uniform-line set (a), the mesh convergence (b) and the published patch (e).
 # They write lines.tsv, convergence.tsv and patch.tsv here, each headed by
 # the command and the date; go test ./physical/fdtd checks the records.
-# ONLY=Lines (or Convergence, Patch) runs one of them.
+# ONLY=Lines (or Convergence, Patch) runs one of them. ONLY=MaskedLines runs
+# the solder-mask check (masked lines against the 2-D field solver, coarse
+# and normal mesh) into mask.tsv; it is not in the default set.
 # Usage: testdata/fdtd/validate.sh   (from anywhere; slow, runs at low priority)
 set -euo pipefail
 cd "$(dirname "$0")/../.."
