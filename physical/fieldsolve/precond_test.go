@@ -10,25 +10,25 @@ import (
 // sweeps): the reference for precond.
 func (m *micFactor) precondPlain(nx int, r, z []float64) {
 	n := len(r)
-	inv, fw, fs := m.inv[:n], m.fw[:n], m.fs[:n]
+	inv, ce, cn := m.inv[:n], m.ce[:n], m.cn[:n]
 	z = z[:n]
-	prev := 0.0
-	for k := 0; k < nx && k < n; k++ {
-		prev = r[k]*inv[k] - fw[k]*prev
+	prev := r[0] * inv[0]
+	z[0] = prev
+	for k := 1; k < nx && k < n; k++ {
+		prev = r[k]*inv[k] - (ce[k-1]*inv[k])*prev
 		z[k] = prev
 	}
 	for k := nx; k < n; k++ {
-		prev = r[k]*inv[k] - fs[k]*z[k-nx] - fw[k]*prev
+		prev = r[k]*inv[k] - (cn[k-nx]*inv[k])*z[k-nx] - (ce[k-1]*inv[k])*prev
 		z[k] = prev
 	}
-	be, bn := m.be[:n], m.bn[:n]
 	next := 0.0
 	for k := n - 1; k >= n-nx && k >= 0; k-- {
-		next = z[k] - be[k]*next
+		next = z[k] - (ce[k]*inv[k])*next
 		z[k] = next
 	}
 	for k := n - nx - 1; k >= 0; k-- {
-		next = z[k] - bn[k]*z[k+nx] - be[k]*next
+		next = z[k] - (cn[k]*inv[k])*z[k+nx] - (ce[k]*inv[k])*next
 		z[k] = next
 	}
 }

@@ -85,9 +85,8 @@ type scratch struct {
 }
 
 // systemArrays is the number of node arrays a system, its factorisation
-// and its solve take: gx, gy, diag, ce, cn, rhs; inv, fw, fs, be, bn; z,
-// p, q.
-const systemArrays = 14
+// and its solve take: gx, gy, diag, ce, cn, rhs; inv; z, p, q.
+const systemArrays = 10
 
 // reset frees the block for a grid of the given node count, growing it if
 // needed.
@@ -256,16 +255,15 @@ func (s *system) energy(phi []float64) float64 {
 // guards against breakdown on strongly graded grids.
 const micOmega = 0.97
 
-// micFactor is the MIC(0) factorisation M = (D+L)D⁻¹(D+Lᵀ), stored in the
-// form the two triangular sweeps use: the inverse pivots and the
-// off-diagonal couplings already divided by the pivot, so that each sweep
-// step is multiplications and subtractions only. The sweeps are a serial
-// chain through the previous node; a division on that chain made them
-// twice as slow.
+// micFactor is the MIC(0) factorisation M = (D+L)D⁻¹(D+Lᵀ), kept as the
+// inverse pivots beside the system's couplings: the sweeps multiply each
+// coupling by the inverse pivot off their serial chain, so that each chain
+// step is a multiplication and a subtraction (a division on that chain made
+// them twice as slow), and storing the scaled couplings, four more node
+// arrays, cost more in memory traffic than it saved.
 type micFactor struct {
 	inv    []float64 // 1/d[k]
-	fw, fs []float64 // forward: ce[k-1]/d[k], cn[k-nx]/d[k]
-	be, bn []float64 // backward: ce[k]/d[k], cn[k]/d[k]
+	ce, cn []float64 // the system's couplings
 }
 
 // factor returns the MIC(0) factorisation of the system. The pivots of
@@ -274,10 +272,7 @@ func (s *system) factor() (*micFactor, error) {
 	nx, ny := s.nx, s.ny
 	n := len(s.diag)
 	diag, ce, cn, lab := s.diag[:n], s.ce[:n], s.cn[:n], s.label[:n]
-	ws := s.ws
-	m := &micFactor{inv: ws.take(n), fw: ws.take(n), fs: ws.take(n), be: ws.take(n), bn: ws.take(n)}
-	m.fw[0] = 0
-	clear(m.fs[:min(nx, n)])
+	m := &micFactor{inv: s.ws.take(n), ce: ce, cn: cn}
 	// last[i] is the pivot of column i in this row once passed, else in
 	// the row below.
 	last := make([]float64, nx)
@@ -304,16 +299,7 @@ func (s *system) factor() (*micFactor, error) {
 				}
 			}
 			last[i] = v
-			iv := 1 / v
-			if k >= 1 {
-				m.fw[k] = ce[k-1] * iv
-			}
-			if k >= nx {
-				m.fs[k] = cn[k-nx] * iv
-			}
-			m.be[k] = ce[k] * iv
-			m.bn[k] = cn[k] * iv
-			m.inv[k] = iv
+			m.inv[k] = 1 / v
 		}
 	}
 	return m, nil
@@ -326,45 +312,52 @@ func (s *system) factor() (*micFactor, error) {
 //
 //	z[k+1] = (a[k+1] − f[k+1]·a[k]) + f[k+1]·f[k]·z[k-1],
 //
-// with a the part that does not depend on the chain, and z[k] from z[k-1]
-// beside it, which halves the chain (the same sums, rounded differently).
+// with a the part that does not depend on the chain and f the coupling
+// over the pivot, and z[k] from z[k-1] beside it, which halves the chain
+// (the same sums, rounded differently).
 func (m *micFactor) precond(nx int, r, z []float64) {
 	n := len(r)
-	inv, fw, fs := m.inv[:n], m.fw[:n], m.fs[:n]
+	inv, ce, cn := m.inv[:n], m.ce[:n], m.cn[:n]
 	z = z[:n]
 	prev := 0.0
 	for k := 0; k < nx && k < n; k++ {
-		prev = r[k]*inv[k] - fw[k]*prev
+		var fw float64
+		if k >= 1 {
+			fw = ce[k-1] * inv[k]
+		}
+		prev = r[k]*inv[k] - fw*prev
 		z[k] = prev
 	}
 	k := nx
 	for ; k+1 < n; k += 2 {
-		a0 := r[k]*inv[k] - fs[k]*z[k-nx]
-		a1 := r[k+1]*inv[k+1] - fs[k+1]*z[k+1-nx]
-		z[k] = a0 - fw[k]*prev
-		prev = (a1 - fw[k+1]*a0) + fw[k+1]*fw[k]*prev
+		iv0, iv1 := inv[k], inv[k+1]
+		fw0, fw1 := ce[k-1]*iv0, ce[k]*iv1
+		a0 := r[k]*iv0 - (cn[k-nx]*iv0)*z[k-nx]
+		a1 := r[k+1]*iv1 - (cn[k+1-nx]*iv1)*z[k+1-nx]
+		z[k] = a0 - fw0*prev
+		prev = (a1 - fw1*a0) + fw1*fw0*prev
 		z[k+1] = prev
 	}
 	for ; k < n; k++ {
-		prev = r[k]*inv[k] - fs[k]*z[k-nx] - fw[k]*prev
+		prev = r[k]*inv[k] - (cn[k-nx]*inv[k])*z[k-nx] - (ce[k-1]*inv[k])*prev
 		z[k] = prev
 	}
-	be, bn := m.be[:n], m.bn[:n]
 	next := 0.0
 	for k := n - 1; k >= n-nx && k >= 0; k-- {
-		next = z[k] - be[k]*next
+		next = z[k] - (ce[k]*inv[k])*next
 		z[k] = next
 	}
 	k = n - nx - 1
 	for ; k >= 1; k -= 2 {
-		b0 := z[k] - bn[k]*z[k+nx]
-		b1 := z[k-1] - bn[k-1]*z[k-1+nx]
-		z[k] = b0 - be[k]*next
-		next = (b1 - be[k-1]*b0) + be[k-1]*be[k]*next
+		be0, be1 := ce[k]*inv[k], ce[k-1]*inv[k-1]
+		b0 := z[k] - (cn[k]*inv[k])*z[k+nx]
+		b1 := z[k-1] - (cn[k-1]*inv[k-1])*z[k-1+nx]
+		z[k] = b0 - be0*next
+		next = (b1 - be1*b0) + be1*be0*next
 		z[k-1] = next
 	}
 	for ; k >= 0; k-- {
-		next = z[k] - bn[k]*z[k+nx] - be[k]*next
+		next = z[k] - (cn[k]*inv[k])*z[k+nx] - (ce[k]*inv[k])*next
 		z[k] = next
 	}
 }
