@@ -43,8 +43,9 @@ type MismatchError struct {
 const MismatchLimitDB = -10
 
 func (e *MismatchError) Error() string {
-	return fmt.Sprintf("the layout does not match: |S11| at %s is %.1f dB, the electrical network alone gives |Γ| = %.3f and the lines lose %.2f dB",
-		units.FormatFrequency(e.FreqHz, 6), e.S11DB, e.ElectricalGamma, e.LossDB)
+	s11 := strings.Replace(fmt.Sprintf("%.1f", e.S11DB), "-", "−", 1) // a true minus sign, as the reports write it
+	return fmt.Sprintf("the layout does not match: |S11| at %s is %s dB, the electrical network alone gives |Γ| = %.3f and the lines lose %.2f dB",
+		units.FormatFrequency(e.FreqHz, 6), s11, e.ElectricalGamma, e.LossDB)
 }
 
 // NarrowElement is one element narrower than the fab minimum.
