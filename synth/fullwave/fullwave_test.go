@@ -233,20 +233,7 @@ func TestStructureMask(t *testing.T) {
 		{synth.MaskAuto, fdtd.Mask{Thickness: 20e-6, Er: 3.5}},
 		{synth.MaskOpen, fdtd.Mask{}},
 	} {
-		in, err := synth.LoadDesign("../../testdata/designs/sensor-antenna-by-hand.toml", synth.LoadOptions{})
-		if err != nil {
-			t.Fatal(err)
-		}
-		in.SkipTolerance, in.AcceptMismatch = true, true
-		in.Design.Layout.Mask = c.mode
-		res, err := synth.Build(context.Background(), in)
-		if err != nil {
-			t.Fatal(err)
-		}
-		s, err := Structure(res, res.Sweep.Freqs)
-		if err != nil {
-			t.Fatal(err)
-		}
+		s := builtStructure(t, "sensor-antenna-by-hand", func(in *synth.BuildInput) { in.Design.Layout.Mask = c.mode })
 		if math.Abs(s.Mask.Thickness-c.want.Thickness) > 1e-12 || s.Mask.Er != c.want.Er || s.Mask.TanD != c.want.TanD {
 			t.Errorf("layout.mask %s: full-wave mask %+v, want %+v", c.mode, s.Mask, c.want)
 		}
@@ -258,19 +245,7 @@ func TestStructureMask(t *testing.T) {
 // grounds drawn over the edge clearance to the board edge beside each port
 // strip, and that a microstrip board's (the demo's) are not.
 func TestStructureCoplanarPorts(t *testing.T) {
-	in, err := synth.LoadDesign("../../testdata/designs/gcpw-probe.toml", synth.LoadOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	in.SkipTolerance = true
-	res, err := synth.Build(context.Background(), in)
-	if err != nil {
-		t.Fatal(err)
-	}
-	s, err := Structure(res, res.Sweep.Freqs)
-	if err != nil {
-		t.Fatal(err)
-	}
+	s := builtStructure(t, "gcpw-probe", nil)
 	for i, p := range s.Ports {
 		if p.Gap != 250000 || p.GroundWidth <= 0 {
 			t.Errorf("port %d: gap %d nm, side grounds %d nm wide: want the stackup's 250000 nm gap and side grounds", i+1, p.Gap, p.GroundWidth)
@@ -290,20 +265,7 @@ func TestStructureCoplanarPorts(t *testing.T) {
 			t.Errorf("port %d: copper in the gap at the board edge", i+1)
 		}
 	}
-	demo, err := synth.LoadDemo(synth.LoadOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	demo.SkipTolerance = true
-	dres, err := synth.Build(context.Background(), demo)
-	if err != nil {
-		t.Fatal(err)
-	}
-	ds, err := Structure(dres, dres.Sweep.Freqs)
-	if err != nil {
-		t.Fatal(err)
-	}
-	for i, p := range ds.Ports {
+	for i, p := range builtStructure(t, "demo", nil).Ports {
 		if p.Gap != 0 || p.GroundWidth != 0 {
 			t.Errorf("demo port %d: gap %d nm, side grounds %d nm: a microstrip port has none", i+1, p.Gap, p.GroundWidth)
 		}
@@ -326,4 +288,35 @@ func inAny(ps []fdtd.Polygon, x, y int64) bool {
 		}
 	}
 	return false
+}
+
+// builtStructure builds the embedded demo ("demo") or an example design of
+// testdata/designs (its name), changed by edit when edit is not nil,
+// without its tolerance analysis and accepting a mismatch, and returns its
+// full-wave structure at the build's sweep.
+func builtStructure(t *testing.T, name string, edit func(*synth.BuildInput)) fdtd.Structure {
+	t.Helper()
+	var in synth.BuildInput
+	var err error
+	if name == "demo" {
+		in, err = synth.LoadDemo(synth.LoadOptions{})
+	} else {
+		in, err = synth.LoadDesign("../../testdata/designs/"+name+".toml", synth.LoadOptions{})
+	}
+	if err != nil {
+		t.Fatal(err)
+	}
+	in.SkipTolerance, in.AcceptMismatch = true, true
+	if edit != nil {
+		edit(&in)
+	}
+	res, err := synth.Build(context.Background(), in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, err := Structure(res, res.Sweep.Freqs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s
 }
