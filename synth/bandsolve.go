@@ -178,7 +178,7 @@ func bandDoubleStub(d Design, m MatchSpec, c Candidate, zl complex128, load Load
 	if _, err := SolveDoubleStub(zl, d.Z0, 0, m.SpacingDeg, c.End); errors.As(err, &fe) {
 		note = fe.Error() + " (done)"
 	}
-	var double, single *bandStart
+	var starts []bandStart
 	for _, p := range []Pick{1, 2} {
 		m.Pick = p
 		secs, _, err := d.matchSections(m, c.Topology, c.End, zl, ElectricalOptions{})
@@ -191,21 +191,34 @@ func bandDoubleStub(d Design, m MatchSpec, c Candidate, zl complex128, load Load
 		}
 		b := bandStart{secs: secs, worst: worst}
 		b.single, b.gone, _ = singleStubOf(secs)
+		starts = append(starts, b)
+	}
+	return pickDoubleStub(c, starts, note), nil
+}
+
+// pickDoubleStub makes candidate c of the best start that kept both stubs,
+// with note; when none did, c carries the best single stub in Err, and
+// when a single stub did better than the double stub kept, the note says
+// so.
+func pickDoubleStub(c Candidate, starts []bandStart, note string) BandSolution {
+	var double, single *bandStart
+	for i := range starts {
+		b := &starts[i]
 		switch {
 		case b.single == nil && (double == nil || b.worst < double.worst):
-			double = &b
+			double = b
 		case b.single != nil && (single == nil || b.worst < single.worst):
-			single = &b
+			single = b
 		}
 	}
 	if double == nil {
 		c.Err = "no double stub: from each solution at f0 " + single.singleText()
-		return BandSolution{Candidate: c, Note: note}, nil
+		return BandSolution{Candidate: c, Note: note}
 	}
 	if single != nil && 20*math.Log10(single.worst) < 20*math.Log10(double.worst)-candidateTieDB {
 		note = joinNotes(note, "from the other solution at f0 "+single.singleText()+", better than this double stub")
 	}
-	return bandSolution(c, double.secs, double.worst, note), nil
+	return bandSolution(c, double.secs, double.worst, note)
 }
 
 // joinNotes joins two notes, either of which may be empty.

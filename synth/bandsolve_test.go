@@ -126,3 +126,51 @@ func TestSolveBandDoubleStubHasTwoStubs(t *testing.T) {
 		}
 	}
 }
+
+// Which start of a double stub is listed, and what is said: the best one
+// that kept both stubs; a single stub that did better is named in the
+// note; with no start that kept both, the candidate names the best single
+// stub in its error. The figures are the rows' own (|Γ| 0.01 is −40 dB,
+// 0.005 is −46.02 dB, 0.05 is −26.02 dB).
+func TestPickDoubleStub(t *testing.T) {
+	line := func(deg float64) Section { return Section{Kind: SeriesLine, Z0: 50, LengthDeg: deg} }
+	open := func(deg float64) Section { return Section{Kind: ShuntStub, End: Open, Z0: 50, LengthDeg: deg} }
+	start := func(worst float64, secs ...Section) bandStart {
+		b := bandStart{secs: secs, worst: worst}
+		b.single, b.gone, _ = singleStubOf(secs)
+		return b
+	}
+	double := []Section{line(52.6), open(139), line(54.7), open(199.2)}
+	other := []Section{line(57), open(119.9), line(127.7), open(145.7)}
+	single := []Section{line(45), open(135), line(121), open(1e-9)}
+	cases := []struct {
+		name      string
+		starts    []bandStart
+		wantSecs  []Section // nil: no double stub, Err set
+		wantDB    float64
+		wantNote  string // in the note ("" for none)
+		wantInErr string
+	}{
+		{"both kept two stubs: the better", []bandStart{start(0.02, other...), start(0.01, double...)}, double, -40, "", ""},
+		{"a single stub did worse: no note", []bandStart{start(0.05, single...), start(0.01, double...)}, double, -40, "", ""},
+		{"a single stub did better: the note says so", []bandStart{start(0.005, single...), start(0.01, double...)}, double, -40,
+			"from the other solution at f0 the band optimisation shrank stub 2 to 0.00°, leaving a single open stub (45.0° of line, stub 135.0°) with a worst |S11| of -46.02 dB in the band, better than this double stub", ""},
+		{"every start lost a stub", []bandStart{start(0.05, single...), start(0.1, line(40), open(0.2), line(100), open(30))}, nil, 0, "",
+			"no double stub: from each solution at f0 the band optimisation shrank stub 2 to 0.00°, leaving a single open stub (45.0° of line, stub 135.0°) with a worst |S11| of -26.02 dB in the band"},
+	}
+	for _, c := range cases {
+		got := pickDoubleStub(Candidate{Topology: TopologyDoubleStub, End: Open}, c.starts, "")
+		if c.wantSecs == nil {
+			if got.Err != c.wantInErr || got.Sections != nil {
+				t.Errorf("%s: err %q, sections %+v; want err %q and no sections", c.name, got.Err, got.Sections, c.wantInErr)
+			}
+			continue
+		}
+		if got.Err != "" || len(got.Sections) != len(c.wantSecs) || got.Sections[1] != c.wantSecs[1] || math.Abs(got.WorstS11DB-c.wantDB) > 1e-9 {
+			t.Errorf("%s: %+v, want the sections %+v at %g dB", c.name, got, c.wantSecs, c.wantDB)
+		}
+		if got.Note != c.wantNote {
+			t.Errorf("%s: note %q, want %q", c.name, got.Note, c.wantNote)
+		}
+	}
+}

@@ -164,12 +164,12 @@ func solveBandJSON(res synth.BandSolve, z0 float64) solveBandResult {
 	bf := res.BodeFano
 	out := solveBandResult{StartHz: res.Start, StopHz: res.Stop, F0Hz: res.F0, Z0Ohm: z0,
 		LoadFit: bf.FitText(), LoadFitCircuit: bf.FitCircuit(), LoadFitMisfitPct: 100 * bf.Fit.MaxRelErr,
-		BodeFanoStatus: bf.Status.String(), BodeFanoNote: bf.String(), Candidates: []solveCandidate{}}
+		BodeFanoStatus: bf.Status.String(), BodeFanoNote: export.Minus(bf.String()), Candidates: []solveCandidate{}}
 	if v, ok := bf.Quoted(); ok {
 		out.BodeFanoS11DB = &v
 	}
 	for _, s := range res.Solutions {
-		c := solveCandidate{Name: s.Name(), Topology: s.Topology, TotalDeg: s.TotalDeg, Sections: []solveSection{}, Note: s.Note, Error: s.Err}
+		c := solveCandidate{Name: s.Name(), Topology: s.Topology, TotalDeg: s.TotalDeg, Sections: []solveSection{}, Note: export.Minus(s.Note), Error: export.Minus(s.Err)}
 		if s.Err == "" {
 			c.WorstS11DB = solveFinite(s.WorstS11DB)
 		}
