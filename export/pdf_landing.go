@@ -116,10 +116,6 @@ func (b boardModel) fenceRow(side float64) (near, next viaMM, offset float64, ok
 	return row[0], row[1], offset, true
 }
 
-// landingScales are the magnifications the detail view may take, largest
-// first.
-var landingScales = []float64{10, 8, 6, 5, 4, 3, 2, 1}
-
 // landingSheet draws the source port's edge-launch landing and the via
 // fence beside it, magnified, with what a fab and a bench need to check
 // them: the signal pad's length and width, the gap to each ground pad,
@@ -154,8 +150,10 @@ func (d *doc) landingSheet(b boardModel) {
 	reg := rect{math.Max(0, b.w-reach-1), math.Max(0, b.centreY-across-1), b.w, math.Min(b.h, b.centreY+across+1)}
 	x, y, w, h := d.contentBox()
 	const room = 38.0 // paper mm around the board part for dimensions
-	scale := landingScales[len(landingScales)-1]
-	for _, s := range landingScales {
+	// The magnifications the detail view may take, largest first.
+	scales := [...]float64{10, 8, 6, 5, 4, 3, 2, 1}
+	scale := scales[len(scales)-1]
+	for _, s := range scales {
 		if (reg.x1-reg.x0)*s <= w-2*room && (reg.y1-reg.y0)*s <= h/2 {
 			scale = s
 			break
