@@ -236,7 +236,7 @@ func (d *doc) landingArt(k *ink, b boardModel, v view, reg rect) {
 	f.Rect(v.X(reg.x0), v.Y(reg.y1), v.s*(reg.x1-reg.x0), v.s*(reg.y1-reg.y0), "F")
 	// The cut edges dashed, the board's own edges solid.
 	setDraw(f, colBoardEdge)
-	corners := []ptMM{{reg.x0, reg.y0}, {reg.x1, reg.y0}, {reg.x1, reg.y1}, {reg.x0, reg.y1}}
+	corners := reg.corners()
 	for i := range corners {
 		a, c := corners[i], corners[(i+1)%4]
 		edge := a.x == c.x && (a.x == 0 || a.x == b.w) || a.y == c.y && (a.y == 0 || a.y == b.h)
@@ -276,7 +276,7 @@ func (d *doc) landingArt(k *ink, b boardModel, v view, reg rect) {
 		r = rect{math.Max(r.x0, reg.x0), math.Max(r.y0, reg.y0), math.Min(r.x1, reg.x1), math.Min(r.y1, reg.y1)}
 		setFill(f, colCopper)
 		f.Rect(v.X(r.x0), v.Y(r.y1), v.s*(r.x1-r.x0), v.s*(r.y1-r.y0), "F")
-		k.pl.add(newObstacle(obsCopper, 0, true, ptMM{v.X(r.x0), v.Y(r.y1)}, ptMM{v.X(r.x1), v.Y(r.y1)}, ptMM{v.X(r.x1), v.Y(r.y0)}, ptMM{v.X(r.x0), v.Y(r.y0)}))
+		k.pl.add(newObstacle(obsCopper, 0, true, rect{v.X(r.x0), v.Y(r.y1), v.X(r.x1), v.Y(r.y0)}.corners()...))
 		outlines = append(outlines, r)
 	}
 	for _, via := range b.vias {

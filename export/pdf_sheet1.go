@@ -280,7 +280,7 @@ func (d *doc) drawBoard(b boardModel, v view, measured bool, bounds rect, option
 		// A landing's ground pad is copper of its own.
 		x0, y0 := v.X(p.c.x-p.w/2), v.Y(p.c.y+p.h/2)
 		f.Rect(x0, y0, v.s*p.w, v.s*p.h, "F")
-		k.pl.add(newObstacle(obsCopper, 0, true, ptMM{x0, y0}, ptMM{x0 + v.s*p.w, y0}, ptMM{x0 + v.s*p.w, y0 + v.s*p.h}, ptMM{x0, y0 + v.s*p.h}))
+		k.pl.add(newObstacle(obsCopper, 0, true, rect{x0, y0, x0 + v.s*p.w, y0 + v.s*p.h}.corners()...))
 	}
 	for _, via := range b.vias {
 		k.pl.add(newObstacle(obsCopper, 0, true, square(v.X(via.c.x), v.Y(via.c.y), v.s*via.pad/2)...))

@@ -30,6 +30,11 @@ func (r rect) grow(d float64) rect { return rect{r.x0 - d, r.y0 - d, r.x1 + d, r
 
 func (r rect) contains(p ptMM) bool { return p.x > r.x0 && p.x < r.x1 && p.y > r.y0 && p.y < r.y1 }
 
+// corners are r's corners as a polygon: (x0, y0), (x1, y0), (x1, y1), (x0, y1).
+func (r rect) corners() []ptMM {
+	return []ptMM{{r.x0, r.y0}, {r.x1, r.y0}, {r.x1, r.y1}, {r.x0, r.y1}}
+}
+
 // inside reports whether r lies wholly within o.
 func (r rect) inside(o rect) bool {
 	return r.x0 >= o.x0 && r.x1 <= o.x1 && r.y0 >= o.y0 && r.y1 <= o.y1
