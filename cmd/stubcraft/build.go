@@ -231,8 +231,8 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 		if e.Feed {
 			role = "feed"
 		}
-		fmt.Fprint(tw, export.Minus(fmt.Sprintf("%s\t%s\t%s\t%.1f\t%.3f\t%.2f\t%.3f\t%+.3f\t%+.3f\t%+.3f\t%+.3f\t%.3f\t\n", e.ID, role, end, e.Z0Ohm, e.WidthMM,
-			e.ElectricalDeg, e.LineLengthMM, e.OpenEndMM, e.TeeMM, e.ViaMM, e.RecentreMM, e.DrawnLengthMM)))
+		printfMinus(tw, "%s\t%s\t%s\t%.1f\t%.3f\t%.2f\t%.3f\t%+.3f\t%+.3f\t%+.3f\t%+.3f\t%.3f\t\n", e.ID, role, end, e.Z0Ohm, e.WidthMM,
+			e.ElectricalDeg, e.LineLengthMM, e.OpenEndMM, e.TeeMM, e.ViaMM, e.RecentreMM, e.DrawnLengthMM)
 	}
 	if err := tw.Flush(); err != nil {
 		return err
@@ -250,13 +250,13 @@ func printSummary(w io.Writer, rep export.Report, dir string, files []artefact) 
 		if b.GoalDB != nil {
 			goal = fmt.Sprintf("goal %.1f dB", *b.GoalDB)
 		}
-		fmt.Fprintln(w, export.Minus(fmt.Sprintf("across %s (%s, objective %s): worst |S11| %.2f dB, %s; Bode-Fano limit %s",
-			units.FormatFrequencyRange(b.StartHz, b.StopHz, 6), b.Topology, b.Objective, b.WorstS11DB, goal, b.BodeFanoNote)))
+		printfMinus(w, "across %s (%s, objective %s): worst |S11| %.2f dB, %s; Bode-Fano limit %s\n",
+			units.FormatFrequencyRange(b.StartHz, b.StopHz, 6), b.Topology, b.Objective, b.WorstS11DB, goal, b.BodeFanoNote)
 	}
 	fmt.Fprintf(w, "network loss at f0: %.3f dB\n", rep.NetworkLossDBF0)
 	if t := rep.Tolerance; t != nil {
-		fmt.Fprintln(w, export.Minus(fmt.Sprintf("tolerance (%d boards, seed %d): |S11| at f0 median %.1f dB, 90th percentile %.1f dB, yield below %.0f dB %.1f %%",
-			t.Samples, t.Seed, t.P50S11DB, t.P90S11DB, t.YieldBelowDB, 100*t.Yield)))
+		printfMinus(w, "tolerance (%d boards, seed %d): |S11| at f0 median %.1f dB, 90th percentile %.1f dB, yield below %.0f dB %.1f %%\n",
+			t.Samples, t.Seed, t.P50S11DB, t.P90S11DB, t.YieldBelowDB, 100*t.Yield)
 	}
 	if err := printSensitivity(w, rep.Sensitivity); err != nil {
 		return err
@@ -282,7 +282,7 @@ func printCentring(w io.Writer, c *export.ReportFullwaveCentre, rec *synth.Fullw
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 	fmt.Fprintln(tw, "run\tbest match (GHz)\tfrom f0 (%)\t|S11| at f0 (dB)\tmapped circuit best match (GHz)\tcells\tsteps\ttime (s)\t")
 	for i, r := range c.Runs {
-		fmt.Fprint(tw, export.Minus(fmt.Sprintf("%d\t%.4f\t%+.2f\t%.1f\t%.4f\t%d\t%d\t%.0f\t\n", r.Run, r.BestMatchHz/1e9, r.BestMatchOffsetPct, r.S11DBF0, r.CircuitBestMatchHz/1e9, r.Cells, r.Steps, rec.Runs[i].Seconds)))
+		printfMinus(tw, "%d\t%.4f\t%+.2f\t%.1f\t%.4f\t%d\t%d\t%.0f\t\n", r.Run, r.BestMatchHz/1e9, r.BestMatchOffsetPct, r.S11DBF0, r.CircuitBestMatchHz/1e9, r.Cells, r.Steps, rec.Runs[i].Seconds)
 	}
 	if err := tw.Flush(); err != nil {
 		return err
@@ -312,7 +312,7 @@ func printSensitivity(w io.Writer, sens []export.ReportSensitivity) error {
 		case s.BestMatchShiftMHz != nil:
 			move = fmt.Sprintf("%+.2f", *s.BestMatchShiftMHz)
 		}
-		fmt.Fprint(tw, export.Minus(fmt.Sprintf("%s\t%s\t%s\t%s\t\n", s.ID, s.Step, move, export.ModelDB(s.S11DBF0AfterStep))))
+		printfMinus(tw, "%s\t%s\t%s\t%s\t\n", s.ID, s.Step, move, export.ModelDB(s.S11DBF0AfterStep))
 	}
 	return tw.Flush()
 }

@@ -171,8 +171,8 @@ func printCompare(w io.Writer, rows []compareRow, minWidth float64) error {
 		if !r.MeetsFab {
 			ok = "NO"
 		}
-		fmt.Fprint(tw, export.Minus(fmt.Sprintf("%s\t%s\t%s\t%s\t%s\t%.2f\t%.2f\t%.3f\t%.3f\t%s\n", r.Stackup, p50, p90, strings.TrimSuffix(export.ModelDB(r.S11DBF0), " dB"),
-			strings.Join(ws, ", "), r.CopperLengthMM, r.CopperAreaMM2, r.InsertionDB, r.MinWidthMM, ok)))
+		printfMinus(tw, "%s\t%s\t%s\t%s\t%s\t%.2f\t%.2f\t%.3f\t%.3f\t%s\n", r.Stackup, p50, p90, strings.TrimSuffix(export.ModelDB(r.S11DBF0), " dB"),
+			strings.Join(ws, ", "), r.CopperLengthMM, r.CopperAreaMM2, r.InsertionDB, r.MinWidthMM, ok)
 	}
 	return tw.Flush()
 }

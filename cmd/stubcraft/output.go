@@ -9,6 +9,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"stubcraft/cmd/stubcraft/internal/outdir"
+	"stubcraft/export"
 )
 
 // printJSON writes v as indented JSON followed by a newline.
@@ -16,6 +17,12 @@ func printJSON(w io.Writer, v any) error {
 	enc := json.NewEncoder(w)
 	enc.SetIndent("", "  ")
 	return enc.Encode(v)
+}
+
+// printfMinus writes format and a as fmt.Fprintf does, with the minus
+// signs of its figures written as U+2212 (export.Minus).
+func printfMinus(w io.Writer, format string, a ...any) {
+	fmt.Fprint(w, export.Minus(fmt.Sprintf(format, a...)))
 }
 
 // artefact is one file of a build's output directory.

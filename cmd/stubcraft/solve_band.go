@@ -112,7 +112,7 @@ func runSolveBand(w io.Writer, o solveOptions, b solveBandOptions) error {
 			fmt.Fprintf(tw, "%s\t—\t—\t%s\n", s.Name(), export.Minus(s.Err))
 			continue
 		}
-		fmt.Fprint(tw, export.Minus(fmt.Sprintf("%s\t%.2f\t%.1f\t\n", s.Name(), s.WorstS11DB, s.TotalDeg)))
+		printfMinus(tw, "%s\t%.2f\t%.1f\t\n", s.Name(), s.WorstS11DB, s.TotalDeg)
 	}
 	if err := tw.Flush(); err != nil {
 		return err

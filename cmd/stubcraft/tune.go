@@ -167,7 +167,7 @@ func printTune(w io.Writer, r tuneReport, dir string) error {
 	fmt.Fprintf(w, "%s against %s (%d points)\n", r.Design, r.Measurement, r.Points)
 	fmt.Fprintf(w, "measured best match: %s (design f0 %s)\n", tuneHz(r.MeasuredBestMatchHz), tuneHz(r.FrequencyHz))
 	fmt.Fprintf(w, "fitted εr: %.4g (%.4f ± %.4f of the design's)\n", r.FittedEr, r.FittedErRatio, r.FittedErRatioSigma)
-	fmt.Fprintln(w, export.Minus(fmt.Sprintf("fitted etch: %+.1f ± %.1f µm per edge (positive: narrower than drawn)", r.FittedEtchUM, r.FittedEtchUMSigma)))
+	printfMinus(w, "fitted etch: %+.1f ± %.1f µm per edge (positive: narrower than drawn)\n", r.FittedEtchUM, r.FittedEtchUMSigma)
 	if r.FittedLoadScale != nil {
 		fmt.Fprintf(w, "fitted load scale: %.4f ± %.4f\n", *r.FittedLoadScale, *r.FittedLoadScaleSigma)
 	}
@@ -176,7 +176,7 @@ func printTune(w io.Writer, r tuneReport, dir string) error {
 		tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', tabwriter.AlignRight)
 		fmt.Fprintln(tw, "\nstub\tcut from the open end (mm)\t")
 		for _, t := range r.Trims {
-			fmt.Fprint(tw, export.Minus(fmt.Sprintf("%s\t%.3f\t\n", t.ID, t.TrimMM)))
+			printfMinus(tw, "%s\t%.3f\t\n", t.ID, t.TrimMM)
 		}
 		if err := tw.Flush(); err != nil {
 			return err

@@ -90,7 +90,7 @@ embedded demo. A run that does not converge writes nothing.`,
 				return printJSON(cmd.OutOrStdout(), vr)
 			}
 			w := cmd.OutOrStdout()
-			fmt.Fprintln(w, export.Minus(fmt.Sprintf("full-wave |S11| at f0: %.1f dB (circuit model %.1f dB)", vr.S11DBF0, vr.CircuitS11DBF0)))
+			printfMinus(w, "full-wave |S11| at f0: %.1f dB (circuit model %.1f dB)\n", vr.S11DBF0, vr.CircuitS11DBF0)
 			fmt.Fprintf(w, "best match: %.4f GHz full-wave, %.4f GHz circuit model (f0 %.4f GHz)\n", vr.BestMatchHz/1e9, vr.CircuitBestMatchHz/1e9, vr.FrequencyHz/1e9)
 			fmt.Fprintf(w, "largest |S_fullwave − S_circuit| of the network: %.3f\n", vr.MaxSDifference)
 			fmt.Fprintf(w, "%d cells, %d steps, %.1f s; files in %s\n", vr.Cells, vr.Steps, vr.Seconds, outDir)
