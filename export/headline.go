@@ -23,11 +23,12 @@ import (
 // below it is reported as "below −40 dB". See DEVELOPERS.md.
 const ModelFloorDB = -40.0
 
-// ModelDB prints a simulated |S11| in dB, as "below −40 dB" under
-// ModelFloorDB.
+// ModelDB prints a simulated |S11| in dB with a true minus sign (Minus),
+// as "below −40 dB" under ModelFloorDB; its callers need not apply Minus
+// again.
 func ModelDB(db float64) string {
 	if db < ModelFloorDB {
-		return fmt.Sprintf("below %s dB", Minus(fmt.Sprintf("%.0f", ModelFloorDB)))
+		return Minus(fmt.Sprintf("below %.0f dB", ModelFloorDB))
 	}
 	return Minus(fmt.Sprintf("%.1f dB", db))
 }

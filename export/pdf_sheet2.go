@@ -257,7 +257,7 @@ func (d *doc) s11Chart(x, y, w, h float64) {
 		yv := math.Max(d.rep.S11DBF0, ylo)
 		setFill(f, colCurveA)
 		f.Circle(c.X(f0), c.Y(yv), 0.7, "F")
-		label(f, Minus(ModelDB(d.rep.S11DBF0)+" at f0"), c.X(f0)+1.5, math.Min(c.Y(yv)+2.5, y+h-2), "L", noteFontPt, colCurveA)
+		label(f, ModelDB(d.rep.S11DBF0)+" at f0", c.X(f0)+1.5, math.Min(c.Y(yv)+2.5, y+h-2), "L", noteFontPt, colCurveA)
 	}
 }
 
@@ -441,7 +441,7 @@ func (d *doc) results(x, y, w float64) {
 	f := d.pdf
 	r := d.rep
 	lines := append(headlineFigures(r),
-		Minus(fmt.Sprintf("model |S11| at f0: %s drawn, %s without the discontinuity corrections, %s before re-centring", ModelDB(r.S11DBF0), ModelDB(r.S11DBF0Uncorr), ModelDB(r.Recentring.S11DBBefore))),
+		fmt.Sprintf("model |S11| at f0: %s drawn, %s without the discontinuity corrections, %s before re-centring", ModelDB(r.S11DBF0), ModelDB(r.S11DBF0Uncorr), ModelDB(r.Recentring.S11DBBefore)),
 		Minus(fmt.Sprintf("return loss %s, VSWR %.2f, network loss %.3f dB at f0", returnLossText(float64(r.ReturnLossDBF0)), r.VSWRF0, r.NetworkLossDBF0)))
 	if r.Bandwidth10DBHz > 0 {
 		lines = append(lines, Minus(fmt.Sprintf("band |S11| < −10 dB: %s (%.1f MHz)", units.FormatFrequencyRange(r.Band10DBHz[0], r.Band10DBHz[1], 4), r.Bandwidth10DBHz/1e6)))
