@@ -5,8 +5,6 @@ import (
 	"math"
 	"sort"
 
-	"github.com/jung-kurt/gofpdf"
-
 	"stubcraft/synth/geom"
 )
 
@@ -257,15 +255,8 @@ func (d *doc) landingArt(k *ink, b boardModel, v view, reg rect) {
 		if len(cut) < 3 {
 			continue
 		}
-		pts := make([]gofpdf.PointType, len(cut))
-		area := make([]ptMM, len(cut))
-		for j, q := range cut {
-			pts[j] = gofpdf.PointType{X: v.X(q.x), Y: v.Y(q.y)}
-			area[j] = ptMM{v.X(q.x), v.Y(q.y)}
-		}
 		setFill(f, colCopper)
-		f.Polygon(pts, "FD")
-		k.pl.add(newObstacle(obsCopper, 0, true, area...))
+		copperPolygon(f, k, v, cut)
 	}
 	var outlines []rect
 	for _, p := range b.pads {

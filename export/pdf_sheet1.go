@@ -259,14 +259,7 @@ func (d *doc) drawBoard(b boardModel, v view, measured bool, bounds rect, option
 		if b.pour[i] {
 			setFill(f, colPour)
 		}
-		pts := make([]gofpdf.PointType, len(poly))
-		area := make([]ptMM, len(poly))
-		for j, q := range poly {
-			pts[j] = gofpdf.PointType{X: v.X(q.x), Y: v.Y(q.y)}
-			area[j] = ptMM{v.X(q.x), v.Y(q.y)}
-		}
-		f.Polygon(pts, "FD")
-		k.pl.add(newObstacle(obsCopper, 0, true, area...))
+		copperPolygon(f, k, v, poly)
 	}
 	for _, p := range b.pads {
 		if p.round {
@@ -306,6 +299,19 @@ func (d *doc) drawBoard(b boardModel, v view, measured bool, bounds rect, option
 	d.portLabels(k, b, v)
 	d.boardDims(k, b, v)
 	return k.flush()
+}
+
+// copperPolygon draws poly (board mm) in view v, filled with the current
+// fill and outlined, and makes it copper that k's labels keep clear of.
+func copperPolygon(f *gofpdf.Fpdf, k *ink, v view, poly []ptMM) {
+	pts := make([]gofpdf.PointType, len(poly))
+	area := make([]ptMM, len(poly))
+	for j, q := range poly {
+		pts[j] = gofpdf.PointType{X: v.X(q.x), Y: v.Y(q.y)}
+		area[j] = ptMM{v.X(q.x), v.Y(q.y)}
+	}
+	f.Polygon(pts, "FD")
+	k.pl.add(newObstacle(obsCopper, 0, true, area...))
 }
 
 // square is the square of half side r about (x, y), as a polygon.
