@@ -178,6 +178,7 @@ func (d *doc) headlineStrip(x, y, w float64) {
 		case i == 0:
 			style = "B"
 		case i < figures:
+			// The Bode-Fano limit: plain ink, as the figures.
 		case i == figures && d.rep.Summary.Verdict == "matches":
 			col = colAccent
 		default:
