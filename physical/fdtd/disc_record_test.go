@@ -71,6 +71,9 @@ func writeDiscRecord(t *testing.T, name, header string, rows []string) {
 	if v := os.Getenv("CASES"); v != "" {
 		sel = " CASES=" + v
 	}
+	if v := os.Getenv("DIVISIONS"); v != "" {
+		sel += " DIVISIONS=" + v
+	}
 	this := fmt.Sprintf("# made by: MESH=%s%s testdata/discontinuities/run.sh (STUBCRAFT_DISC_RECORD=1 go test ./physical/fdtd -run %s)", mesh, sel, t.Name())
 	for _, l := range made {
 		if !strings.HasPrefix(l, this+" at ") { // the same run's earlier line is replaced
