@@ -223,3 +223,23 @@ func TestBoardViaToGroundRow(t *testing.T) {
 		t.Errorf("3 mm stub: row %v (want %v), one via %v", b, want, a)
 	}
 }
+
+// TestViaRangeWarning checks the edge of the range the full-wave via study
+// checked (h/r ≥ 4, TestViaColumnConverges).
+func TestViaRangeWarning(t *testing.T) {
+	for _, c := range []struct {
+		h, drill float64
+		warn     bool
+	}{
+		{0.8e-3, 0.4e-3, false}, // h/r 4: the study's case 0
+		{1.6e-3, 0.3e-3, false}, // h/r 10.7: the default drill on a 1.6 mm board
+		{0.8e-3, 0.8e-3, true},  // h/r 2: the study's fat via
+		{0.79e-3, 0.5e-3, true}, // h/r 3.2
+		{0.2e-3, 0.3e-3, true},  // a thin prepreg
+	} {
+		got := ViaRangeWarning(c.h, c.drill/2) != ""
+		if got != c.warn {
+			t.Errorf("h %.2f mm drill %.2f mm: warning %v, want %v", c.h*1e3, c.drill*1e3, got, c.warn)
+		}
+	}
+}

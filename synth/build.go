@@ -446,6 +446,12 @@ func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
 			break
 		}
 	}
+	for _, e := range ph.Elements {
+		if e.Via != 0 {
+			r.Notes = append(r.Notes, viaNote)
+			break
+		}
+	}
 	if in.Stackup.Line == stackups.GCPW {
 		r.Warnings = append(r.Warnings, "grounded coplanar lines: the T-junction, open-end and via models are microstrip models and only approximate the coplanar discontinuities; measure before trusting the last dB")
 	}
@@ -749,3 +755,11 @@ func (r *Result) sweep(sim *physical.Sim, load Load) error {
 	}
 	return nil
 }
+
+// viaNote is the build note of a design with a via to ground: what the
+// via model is and how far the project's full-wave via study confirms it
+// (DEVELOPERS.md, "Via").
+const viaNote = "the via to ground is Goldfarb and Pucel's (1991) per via, a row of vias with its mutual inductance and the pad's overhang as a capacitance; " +
+	"the project's full-wave (FDTD) via study (testdata/discontinuities/via-column.tsv: h 0.635–1.6 mm, εr 3.66–10.2, the via column refined until it converges) " +
+	"confirms one via with h/r 4–5.3 within 0.2° of the strip at f·h ≈ 4 GHz·mm (full-wave/model 0.96–1.05) and finds the model overstating a via row's and a fatter via's inductance, " +
+	"which the build warns about; the corrections are listed per element (via_mm)"

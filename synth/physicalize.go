@@ -401,7 +401,11 @@ func (p *Physical) correctStub(st *Element, tee physical.TeeParams, throughW flo
 			endLen = 0
 		}
 		st.Via = -endLen
+		if w := physical.ViaRangeWarning(sub.Height, via.Drill/2); w != "" {
+			p.warn(st.ID + ": " + w)
+		}
 		if n, sp := physical.ViaRow(st.Width, via.Drill, via.Pad, via.Pitch); n > 1 {
+			p.warn(st.ID + ": " + physical.ViaRowWarning(n))
 			p.note(fmt.Sprintf("%s: %.3g mm wide, ends in a row of %d vias at %.3g mm; modelled in parallel with their mutual inductance (filament form after Grover), %.3g pH against %.3g pH for one via",
 				st.ID, st.Width*1e3, n, sp*1e3, imag(zv)/(2*math.Pi*f0)*1e12, physical.ViaInductance(sub.Height, via.Drill/2)*1e12))
 		}

@@ -47,6 +47,9 @@ func writeDiscRecord(t *testing.T, name, header string, rows []string) {
 	if mesh != "coarse" { // a refined run is a record of its own
 		name = strings.TrimSuffix(name, ".tsv") + "-" + mesh + ".tsv"
 	}
+	if v := os.Getenv("RECORD_FILE"); v != "" { // a run beside another on the same record, merged by hand
+		name = filepath.Base(v)
+	}
 	path := filepath.Join(discDir, name)
 	// With CASES set, the rows of the other cases already recorded stay,
 	// under their own "made by" lines.
@@ -257,39 +260,6 @@ func roundPad(c Point, d int64) Polygon {
 		p = append(p, Point{c.X + nm(float64(d)*1e-9/2*math.Cos(a)), c.Y + nm(float64(d)*1e-9/2*math.Sin(a))})
 	}
 	return p
-}
-
-// TestRecordVia simulates, for each via case, a strip from port 1 that
-// ends in the via (or via row) the build draws for a shorted stub: the
-// strip runs half a pad past the via centre, a round pad sits on the via,
-// and a row's outer pads are flush with the strip's sides
-// (physical.ViaRow). Port 2's strip starts 10 h beyond, so the board is a
-// one-port seen from port 1.
-func TestRecordVia(t *testing.T) {
-	mesh := discRecording(t)
-	var rows []string
-	for ci, c := range viaCases {
-		if !caseSelected(ci) {
-			continue
-		}
-		s := viaBoard(c)
-		n := len(s.Vias)
-		xv := s.Vias[0].Center.X
-		vm := mesh
-		vm.ViaEdges = os.Getenv("VIA_EDGES") != "off"
-		r, err := Solve(context.Background(), s, Options{Mesh: vm})
-		if err != nil {
-			t.Fatal(err)
-		}
-		t.Logf("via case %d (%d vias): %d cells, %d steps, %.0f s", ci, n, r.Cells, r.Steps, r.Seconds)
-		pre := fmt.Sprintf("%d\t%g\t%g\t%g\t%g\t%g\t%g\t%g", ci, c.er, c.h*1e3, c.w*1e3, c.drill*1e3, c.pad*1e3, c.pitch*1e3, float64(xv)*1e-6)
-		rows = append(rows, portRows(pre, r)...)
-		name := "via.tsv"
-		if !vm.ViaEdges {
-			name = "via-centre-line-only.tsv"
-		}
-		writeDiscRecord(t, name, "case\ter\th_mm\tw_mm\tdrill_mm\tpad_mm\tpitch_mm\tvia_from_edge_mm\t"+sColumns, rows)
-	}
 }
 
 // bendCases are the mitred-bend boards: substrate, strip width and the

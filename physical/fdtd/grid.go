@@ -155,9 +155,6 @@ func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, erro
 		xfix = append(xfix, cx)
 		yfix = append(yfix, cy)
 		k := p.ViaDivisions
-		if k == 0 && p.ViaEdges {
-			k = 1
-		}
 		if v.Stitch {
 			k = 0
 		}

@@ -36,16 +36,13 @@ type MeshParams struct {
 	EdgeDivisions  float64 // the edge cell is at most the narrowest strip width / EdgeDivisions
 	Grading        float64 // largest ratio of neighbouring cells
 	PMLCells       int     // cells in each absorbing layer
-	// ViaEdges adds grid lines through each via's edges (x and y at the
-	// centre ± the radius), so that the column is the centre node and the
-	// four at its rim rather than the centre node alone. Off in the mesh
-	// levels, so verify's grids are as before; the via record of
-	// testdata/discontinuities turns it on.
-	ViaEdges bool
 	// ViaDivisions, when positive, puts grid lines at the via centre and
 	// at i/ViaDivisions of the radius on each side (i = 1 … ViaDivisions)
 	// in x and y, so that the column is every node within the radius on a
-	// locally uniform grid; 1 is ViaEdges. It overrides ViaEdges.
+	// locally uniform grid (1: lines through the centre and the rim). 0,
+	// the mesh levels' setting, draws the column as the nodes within its
+	// radius on the grid the rest of the board gives (often the centre node
+	// alone). See the via column study in DEVELOPERS.md.
 	ViaDivisions int
 	// PortLinesOnBoardGrid calibrates each port line on the board's own y
 	// grid lines (moved to the line's centre) instead of the line's own,

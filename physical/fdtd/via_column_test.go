@@ -61,7 +61,7 @@ func lowFreqL(r *Result) float64 {
 var viaColumnDivisions = []int{0, 1, 2, 4, 8}
 
 // TestRecordViaColumn is the mesh study of the via column: each via case
-// of TestRecordVia drawn with more and more nodes across the column
+// (viaCases) drawn with more and more nodes across the column
 // (MeshParams.ViaDivisions), the rest of the mesh as the level has it.
 // Each port line is calibrated on the board's own y grid lines
 // (MeshParams.PortLinesOnBoardGrid). It records the raw S-parameters in
