@@ -63,7 +63,7 @@ func ViaRowWarning(n int) string {
 
 // viaRowFinding is the via column study's figure for its via rows, quoted
 // by ViaRowWarning.
-const viaRowFinding = "a row of two 0.4 mm vias on 0.8 mm: 111 pH modelled against 93 pH full-wave at the finest drawing, about 71 pH extrapolated; a row of three on 1.6 mm: 268 pH against 201 pH, about 171 pH"
+const viaRowFinding = "a row of two 0.4 mm vias on 0.8 mm: 111 pH modelled against 84 pH full-wave at the finest drawing, about 75 pH extrapolated; a row of three on 1.6 mm: 268 pH against 201 pH, about 171 pH"
 
 // ViaResistance returns the resistance (ohm) at freq (Hz) of a solid
 // cylindrical via of radius radius (m) and height h (m) in a metal of
