@@ -18,7 +18,8 @@ import (
 // that is 0.3° = 0.005 rad, and a single-stub match turns a phase error δ
 // into |Γ| of order 2δ·|Γload| ≈ 0.005 for a load with |Γ| ≈ 0.5, about
 // −46 dB. The discontinuity models (open end, T-junction, via) add more,
-// and the T-junction model is written from memory and unchecked. −40 dB
+// and the T-junction model is fitted to the project's full-wave tee sweep
+// (0.95° on the stub; DEVELOPERS.md). −40 dB
 // (|Γ| = 0.01) is the round figure above all of these: a model figure
 // below it is reported as "below −40 dB". See DEVELOPERS.md.
 const ModelFloorDB = -40.0

@@ -23,7 +23,7 @@ func gcpwLine(er, h, w, gap, gw, f float64) Structure {
 // gaps 0.25 mm), the cell across each copper edge must not be split, so
 // that every Ey cell whose middle lies in copper lies wholly in copper
 // (the copper on the mesh ends inside the drawn copper, by the
-// one-third/two-thirds rule, common practice). Splitting it put the strip
+// one-third/two-thirds rule: common practice, no source). Splitting it put the strip
 // 30 µm beyond its edge on the mesh and raised the line's εeff by 19 %.
 func TestEdgeCellKeptWhole(t *testing.T) {
 	const h, w, gap = 0.51e-3, 0.8467e-3, 0.25e-3

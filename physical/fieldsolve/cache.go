@@ -17,7 +17,8 @@ type Cache struct {
 	maxEntries int    // bound of the on-disk cache
 	diskHits   int
 	// spare is working memory of finished solves, for the next: fresh
-	// memory costs page faults and clearing, a large part of a solve.
+	// memory costs page faults and clearing (a18e064: process CPU of trace
+	// 1.2× lower with it, measured as an A/B in one run).
 	spare [][2]*scratch
 }
 

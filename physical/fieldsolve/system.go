@@ -258,8 +258,8 @@ const micOmega = 0.97
 // micFactor is the MIC(0) factorisation M = (D+L)D⁻¹(D+Lᵀ), kept as the
 // inverse pivots beside the system's couplings: the sweeps multiply each
 // coupling by the inverse pivot off their serial chain, so that each chain
-// step is a multiplication and a subtraction (a division on that chain made
-// them twice as slow), and storing the scaled couplings, four more node
+// step is a multiplication and a subtraction (a division costs several
+// multiplications on that chain), and storing the scaled couplings, four more node
 // arrays, cost more in memory traffic than it saved.
 type micFactor struct {
 	inv    []float64 // 1/d[k]

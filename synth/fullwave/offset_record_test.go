@@ -216,15 +216,20 @@ func TestRecordedDemoOffset(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	demoRows := 0
 	for _, line := range strings.Split(string(acc), "\n") {
 		c := strings.Split(line, "\t")
 		if c[0] != "demo" || len(c) < 6 {
 			continue
 		}
+		demoRows++
 		f0, _ := strconv.ParseFloat(c[1], 64)
 		best, _ := strconv.ParseFloat(c[5], 64)
 		if off := 100 * (best/f0 - 1); math.Abs(off-normal.offset) > 0.01 {
 			t.Errorf("acceptance.tsv's demo %+.3f %% and offset.tsv's normal mesh %+.3f %% differ: one of the records is stale", off, normal.offset)
 		}
+	}
+	if demoRows != 1 {
+		t.Errorf("acceptance.tsv has %d demo rows, want 1 to compare with offset.tsv", demoRows)
 	}
 }
