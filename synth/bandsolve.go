@@ -60,7 +60,7 @@ func SolveBand(load Load, z0, f1, f2 float64, topology string, end StubEnd, sect
 		}
 	}
 	d := Design{Name: "solve", Freq: f0, Z0: z0, Source: "solve"}
-	fs := BandSamples(f1, f2, 41)
+	fs := BandSamples(f1, f2, idealBandSamples)
 	for _, c := range specs {
 		mc := m
 		mc.Sections = c.Sections
@@ -152,6 +152,7 @@ func singleStubOf(secs []Section) (single []Section, gone int, ok bool) {
 // bandStart is one double stub optimised across the band from one of its
 // solutions at f0.
 type bandStart struct {
+	pick  Pick // the solution at f0 it started from
 	secs  []Section
 	worst float64 // |Γ| in the band
 	// single is what is left when a stub went (singleStubOf); gone names it.
@@ -166,41 +167,55 @@ func (b bandStart) singleText() string {
 }
 
 // bandDoubleStub optimises double stub c from each of its two solutions at
-// f0 and keeps the best one whose two stubs are both there. The band
-// optimisation keeps lengths positive, so it can shrink an open stub to 0°
-// but not carry it on to 180°, and from one of the two starts it often
-// does: what is left is a single stub, which is no double stub. When every
-// start ends so, the candidate says so in Err, with the single stub; when
-// a single stub did better than the double stub kept, its note says so.
+// f0 and keeps the best one whose two stubs are both there
+// (pickDoubleStub), with a note on the forbidden region when the load lies
+// in it.
 func bandDoubleStub(d Design, m MatchSpec, c Candidate, zl complex128, load Load, fs []float64) (BandSolution, error) {
 	var note string
 	var fe *ForbiddenRegionError
 	if _, err := SolveDoubleStub(zl, d.Z0, 0, m.SpacingDeg, c.End); errors.As(err, &fe) {
 		note = fe.Error() + " (done)"
 	}
+	starts, err := doubleStubStarts(d, m, c, zl, load, fs, ElectricalOptions{})
+	if err != nil {
+		return BandSolution{}, err
+	}
+	s, _ := pickDoubleStub(c, starts, note)
+	return s, nil
+}
+
+// doubleStubStarts optimises double stub c on lossless lines across fs
+// from each of its two solutions at f0 (solved with opt, as
+// Design.matchSections does). The band optimisation keeps lengths
+// positive, so it can shrink an open stub to 0° but not carry it on to
+// 180°, and from one of the two starts it often does: what is left is a
+// single stub, which is no double stub. SolveBand lists the start
+// pickDoubleStub keeps; Simulate builds the board from its solution.
+func doubleStubStarts(d Design, m MatchSpec, c Candidate, zl complex128, load Load, fs []float64, opt ElectricalOptions) ([]bandStart, error) {
 	var starts []bandStart
 	for _, p := range []Pick{1, 2} {
 		m.Pick = p
-		secs, _, err := d.matchSections(m, c.Topology, c.End, zl, ElectricalOptions{})
+		secs, _, err := d.matchSections(m, c.Topology, c.End, zl, opt)
 		if err != nil {
-			return BandSolution{}, err
+			return nil, err
 		}
 		secs, worst, err := OptimiseIdeal(secs, load, d.Z0, d.Freq, fs, false, MinLineZ0, MaxLineZ0)
 		if err != nil {
-			return BandSolution{}, err
+			return nil, err
 		}
-		b := bandStart{secs: secs, worst: worst}
+		b := bandStart{pick: p, secs: secs, worst: worst}
 		b.single, b.gone, _ = singleStubOf(secs)
 		starts = append(starts, b)
 	}
-	return pickDoubleStub(c, starts, note), nil
+	return starts, nil
 }
 
 // pickDoubleStub makes candidate c of the best start that kept both stubs,
-// with note; when none did, c carries the best single stub in Err, and
-// when a single stub did better than the double stub kept, the note says
-// so.
-func pickDoubleStub(c Candidate, starts []bandStart, note string) BandSolution {
+// with note, and says which solution at f0 it started from; when none
+// did, c carries the best single stub in Err and the solution is that
+// single stub's. When a single stub did better than the double stub kept,
+// the note says so.
+func pickDoubleStub(c Candidate, starts []bandStart, note string) (BandSolution, Pick) {
 	var double, single *bandStart
 	for i := range starts {
 		b := &starts[i]
@@ -213,12 +228,47 @@ func pickDoubleStub(c Candidate, starts []bandStart, note string) BandSolution {
 	}
 	if double == nil {
 		c.Err = "no double stub: from each solution at f0 " + single.singleText()
-		return BandSolution{Candidate: c, Note: note}
+		return BandSolution{Candidate: c, Note: note}, single.pick
 	}
 	if single != nil && 20*math.Log10(single.worst) < 20*math.Log10(double.worst)-candidateTieDB {
 		note = joinNotes(note, "from the other solution at f0 "+single.singleText()+", better than this double stub")
 	}
-	return bandSolution(c, double.secs, double.worst, note)
+	return bandSolution(c, double.secs, double.worst, note), double.pick
+}
+
+// idealBandSamples is the number of frequencies across the band at which
+// the band optimisation on lossless lines evaluates |S11|.
+const idealBandSamples = 41
+
+// bandDoubleStubStart chooses where Simulate starts a band-matched double
+// stub: the start SolveBand would list (doubleStubStarts, pickDoubleStub),
+// with the first line solved as the layout needs it (opt), and its
+// lengths as that band optimisation on lossless lines left them. The
+// board's own band optimisation moves each length by at most MaxBandMove,
+// often too little to reach them from the solution at f0 (100−j50 Ω on
+// 2.4–2.4835 GHz: a spacing 135° → 26°), and from there it kept a stub of
+// 0.1 mm. secs is nil, and the board starts from solution pick at f0, when
+// no start kept both stubs (a warning names the single stub) or the first
+// line came out shorter than the feed.
+func bandDoubleStubStart(d Design, m MatchSpec, c Candidate, zl complex128, load Load, opt ElectricalOptions) (pick Pick, secs []Section, notes, warnings []string, err error) {
+	fs := BandSamples(m.Band[0], m.Band[1], idealBandSamples)
+	starts, err := doubleStubStarts(d, m, c, zl, load, fs, opt)
+	if err != nil {
+		return 0, nil, nil, nil, err
+	}
+	s, p := pickDoubleStub(c, starts, "")
+	if s.Err != "" {
+		return p, nil, nil, []string{fmt.Sprintf("%s; built from solution %d at f0 all the same: the band optimisation of the board may shorten that stub to nothing too", s.Err, p)}, nil
+	}
+	if s.Sections[0].LengthDeg < opt.FeedDeg {
+		return p, nil, []string{fmt.Sprintf("double stub: solution %d at f0 is built, the start whose band optimisation on lossless lines keeps both stubs with the lower worst |S11| (%.2f dB over %d frequencies); its first line (%.2f°) is shorter than the load-side feed (%.2f°), so the board starts from the solution at f0", p, s.WorstS11DB, len(fs), s.Sections[0].LengthDeg, opt.FeedDeg)}, nil, nil
+	}
+	notes = []string{fmt.Sprintf("double stub: solution %d at f0, the start whose band optimisation on lossless lines keeps both stubs with the lower worst |S11| (%.2f dB over %d frequencies); the board starts from those lengths: %.2f° of line, stub %.2f°, %.2f° spacing, stub %.2f°",
+		p, s.WorstS11DB, len(fs), s.Sections[0].LengthDeg, s.Sections[1].LengthDeg, s.Sections[2].LengthDeg, s.Sections[3].LengthDeg)}
+	if s.Note != "" {
+		notes = append(notes, s.Note)
+	}
+	return p, s.Sections, notes, nil, nil
 }
 
 // joinNotes joins two notes, either of which may be empty.

@@ -1,6 +1,8 @@
 package synth
 
 import (
+	"context"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -150,16 +152,24 @@ func TestPickDoubleStub(t *testing.T) {
 		wantDB    float64
 		wantNote  string // in the note ("" for none)
 		wantInErr string
+		wantPick  Pick // the solution at f0 of the start kept (starts are solutions 1, 2 in order)
 	}{
-		{"both kept two stubs: the better", []bandStart{start(0.02, other...), start(0.01, double...)}, double, -40, "", ""},
-		{"a single stub did worse: no note", []bandStart{start(0.05, single...), start(0.01, double...)}, double, -40, "", ""},
+		{"both kept two stubs: the better", []bandStart{start(0.02, other...), start(0.01, double...)}, double, -40, "", "", 2},
+		{"the first start the better", []bandStart{start(0.01, double...), start(0.02, other...)}, double, -40, "", "", 1},
+		{"a single stub did worse: no note", []bandStart{start(0.05, single...), start(0.01, double...)}, double, -40, "", "", 2},
 		{"a single stub did better: the note says so", []bandStart{start(0.005, single...), start(0.01, double...)}, double, -40,
-			"from the other solution at f0 the band optimisation shrank stub 2 to 0.00°, leaving a single open stub (45.0° of line, stub 135.0°) with a worst |S11| of -46.02 dB in the band, better than this double stub", ""},
+			"from the other solution at f0 the band optimisation shrank stub 2 to 0.00°, leaving a single open stub (45.0° of line, stub 135.0°) with a worst |S11| of -46.02 dB in the band, better than this double stub", "", 2},
 		{"every start lost a stub", []bandStart{start(0.05, single...), start(0.1, line(40), open(0.2), line(100), open(30))}, nil, 0, "",
-			"no double stub: from each solution at f0 the band optimisation shrank stub 2 to 0.00°, leaving a single open stub (45.0° of line, stub 135.0°) with a worst |S11| of -26.02 dB in the band"},
+			"no double stub: from each solution at f0 the band optimisation shrank stub 2 to 0.00°, leaving a single open stub (45.0° of line, stub 135.0°) with a worst |S11| of -26.02 dB in the band", 1},
 	}
 	for _, c := range cases {
-		got := pickDoubleStub(Candidate{Topology: TopologyDoubleStub, End: Open}, c.starts, "")
+		for i := range c.starts {
+			c.starts[i].pick = Pick(i + 1)
+		}
+		got, pick := pickDoubleStub(Candidate{Topology: TopologyDoubleStub, End: Open}, c.starts, "")
+		if pick != c.wantPick {
+			t.Errorf("%s: started from solution %d, want %d", c.name, pick, c.wantPick)
+		}
 		if c.wantSecs == nil {
 			if got.Err != c.wantInErr || got.Sections != nil {
 				t.Errorf("%s: err %q, sections %+v; want err %q and no sections", c.name, got.Err, got.Sections, c.wantInErr)
@@ -171,6 +181,80 @@ func TestPickDoubleStub(t *testing.T) {
 		}
 		if got.Note != c.wantNote {
 			t.Errorf("%s: note %q, want %q", c.name, got.Note, c.wantNote)
+		}
+	}
+}
+
+// build starts a band-matched double stub where solve --band's listed one
+// is: from the solution at f0 whose band optimisation on lossless lines
+// keeps both stubs, at the lengths it reached (was: from the shortest
+// solution at f0, from which the board's own optimisation shrank open
+// stub 2 of 100−j50 Ω to 0.091 mm, −26.7 dB across the band). Each stub's
+// electrical length on the built board is its design length plus the
+// band optimisation's change over its guided wavelength; the test cascades
+// the built lines and stubs as lossless TEM lines of their target
+// impedances (chain matrices, Pozar, Microwave Engineering, 4th ed., table
+// 4.1) and takes the worst |S11| at 41 frequencies across the band.
+func TestBuildBandDoubleStubHasTwoStubs(t *testing.T) {
+	// Judgement, no source: solve --band lists these double stubs at −52
+	// to −61 dB on lossless lines; the built board's full model must come
+	// within a few dB of that, and the test's cascade, which leaves out the
+	// junctions and open ends the band optimisation compensated, within
+	// −35 dB (the start the old build kept reached −23 to −33 dB by the
+	// cascade, −27 to −47 dB by the full model).
+	const maxCascadeDB, maxBuildDB = -35.0, -50.0
+	cases := []struct {
+		zl, end string
+		wantIn  string // in a note
+	}{
+		{"100-j50", "open", "double stub: solution 1 at f0"},
+		{"80-j60", "open", "double stub: solution"},
+		{"90-j20", "open", "double stub: solution"},
+		{"100-j50", "short", "double stub: solution"},
+	}
+	for _, c := range cases {
+		d := decodeTestDesign(t, fmt.Sprintf(`name = "b"
+z0 = 50
+stackup = "fr4-1.6mm"
+[load]
+impedance = %q
+[match]
+topology = "double-stub"
+stub = %q
+band = ["2.4GHz", "2.4835GHz"]
+`, c.zl, c.end))
+		r, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true, SkipSensitivity: true})
+		if err != nil {
+			t.Fatal(err)
+		}
+		deg := func(e Element) float64 { return e.ElectricalDeg + 360*e.Recentre/e.Params.GuidedWavelength() }
+		var secs []Section
+		stubs := 0
+		for i, e := range r.Physical.Elements {
+			if e.Role == RoleStub {
+				continue
+			}
+			secs = append(secs, Section{Kind: SeriesLine, Z0: e.Z0, LengthDeg: deg(e)})
+			for _, s := range r.Physical.Elements {
+				if s.Role == RoleStub && s.At == i {
+					stubs++
+					if drawn := 360 * s.Drawn() / s.Params.GuidedWavelength(); deg(s) < MinOpenStubDeg || drawn < MinOpenStubDeg {
+						t.Errorf("%s %s: %s is %.3f°, drawn %.3f mm (%.3f°)", c.zl, c.end, s.ID, deg(s), s.Drawn()*1e3, drawn)
+					}
+					secs = append(secs, Section{Kind: ShuntStub, End: s.End, Z0: s.Z0, LengthDeg: deg(s)})
+				}
+			}
+		}
+		if stubs != 2 {
+			t.Errorf("%s %s: %d stubs", c.zl, c.end, stubs)
+		}
+		zl, _ := ConstantLoad(d.Load.Impedance).Impedance(0)
+		got := cascadeWorstDB(secs, zl, 50, d.Freq, BandSamples(2.4e9, 2.4835e9, 41))
+		if got > maxCascadeDB || r.Band.WorstS11DB > maxBuildDB {
+			t.Errorf("%s %s: worst |S11| in the band %.2f dB by the test's cascade, %.2f dB by the build; want below %g and %g dB", c.zl, c.end, got, r.Band.WorstS11DB, maxCascadeDB, maxBuildDB)
+		}
+		if !strings.Contains(strings.Join(r.Notes, "\n"), c.wantIn) {
+			t.Errorf("%s %s: no note with %q in %q", c.zl, c.end, c.wantIn, r.Notes)
 		}
 	}
 }

@@ -400,9 +400,23 @@ func (s simContext) run(ctx context.Context, c *Candidate) (*Result, error) {
 			opt.FeedDeg = ElectricalDegrees(w.Params, d.Layout.FeedLength)
 		}
 		notes = []string{d.loadNote(zl)}
-		var more []string
-		sections, more, err = d.matchSections(m, c.Topology, c.End, zl, opt)
-		notes = append(notes, more...)
+		var more, warnings []string
+		var bandSecs []Section
+		if c.Topology == TopologyDoubleStub && m.HasBand() && m.Pick == PickShortest {
+			// An error here is matchSections' own (it reports it below,
+			// through the loss rule) or the load's in the band
+			// (bandOptimise reports it with its key).
+			if pick, secs, n, w, perr := bandDoubleStubStart(d, m, *c, zl, in.Load, opt); perr == nil {
+				m.Pick, bandSecs, more, warnings = pick, secs, n, w
+				s.warnings = append(warnings, s.warnings...)
+			}
+		}
+		var f0Notes []string
+		sections, f0Notes, err = d.matchSections(m, c.Topology, c.End, zl, opt)
+		notes = append(append(notes, f0Notes...), more...)
+		if err == nil && bandSecs != nil {
+			sections = bandSecs
+		}
 	}
 	if err != nil {
 		if gamma := LoadGamma(zl, z0); gamma > MaxLoadGamma && !in.AcceptLoss {
