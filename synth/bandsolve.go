@@ -191,23 +191,51 @@ func bandDoubleStub(d Design, m MatchSpec, c Candidate, zl complex128, load Load
 // 180°, and from one of the two starts it often does: what is left is a
 // single stub, which is no double stub. SolveBand lists the start
 // pickDoubleStub keeps; Simulate builds the board from its solution.
+//
+// The load-side feed (opt.FeedDeg) is part of the first line but cannot
+// get shorter, so the optimisation sees the load through it and moves
+// only the rest of that line.
 func doubleStubStarts(d Design, m MatchSpec, c Candidate, zl complex128, load Load, fs []float64, opt ElectricalOptions) ([]bandStart, error) {
 	var starts []bandStart
+	seen := load
+	if opt.FeedDeg > 0 {
+		seen = feedLoad{load: load, z0: d.Z0, deg: opt.FeedDeg, f0: d.Freq}
+	}
 	for _, p := range []Pick{1, 2} {
 		m.Pick = p
 		secs, _, err := d.matchSections(m, c.Topology, c.End, zl, opt)
 		if err != nil {
 			return nil, err
 		}
-		secs, worst, err := OptimiseIdeal(secs, load, d.Z0, d.Freq, fs, false, MinLineZ0, MaxLineZ0)
+		// The rest of the first line starts a hair above 0°: OptimiseIdeal
+		// keeps every length positive.
+		secs[0].LengthDeg = math.Max(secs[0].LengthDeg-opt.FeedDeg, 1e-3)
+		secs, worst, err := OptimiseIdeal(secs, seen, d.Z0, d.Freq, fs, false, MinLineZ0, MaxLineZ0)
 		if err != nil {
 			return nil, err
 		}
+		secs[0].LengthDeg += opt.FeedDeg
 		b := bandStart{pick: p, secs: secs, worst: worst}
 		b.single, b.gone, _ = singleStubOf(secs)
 		starts = append(starts, b)
 	}
 	return starts, nil
+}
+
+// feedLoad is a load seen through a lossless line of z0 and deg degrees
+// at f0.
+type feedLoad struct {
+	load        Load
+	z0, deg, f0 float64
+}
+
+// Impedance implements Load.
+func (l feedLoad) Impedance(f float64) (complex128, error) {
+	z, err := l.load.Impedance(f)
+	if err != nil {
+		return 0, err
+	}
+	return SectionsInput([]Section{{Kind: SeriesLine, Z0: l.z0, LengthDeg: l.deg * f / l.f0}}, z), nil
 }
 
 // pickDoubleStub makes candidate c of the best start that kept both stubs,
@@ -241,30 +269,37 @@ func pickDoubleStub(c Candidate, starts []bandStart, note string) (BandSolution,
 const idealBandSamples = 41
 
 // bandDoubleStubStart chooses where Simulate starts a band-matched double
-// stub: the start SolveBand would list (doubleStubStarts, pickDoubleStub),
-// with the first line solved as the layout needs it (opt), and its
-// lengths as that band optimisation on lossless lines left them. The
+// stub: the start SolveBand lists (doubleStubStarts, pickDoubleStub) at
+// the lengths its band optimisation on lossless lines left, or, when that
+// one's first line is shorter than the load-side feed (opt.FeedDeg) or no
+// start kept both stubs, the same choice made again with the feed kept. The
 // board's own band optimisation moves each length by at most MaxBandMove,
 // often too little to reach them from the solution at f0 (100−j50 Ω on
 // 2.4–2.4835 GHz: a spacing 135° → 26°), and from there it kept a stub of
 // 0.1 mm. secs is nil, and the board starts from solution pick at f0, when
-// no start kept both stubs (a warning names the single stub) or the first
-// line came out shorter than the feed.
+// no start kept both stubs (a warning names the single stub).
 func bandDoubleStubStart(d Design, m MatchSpec, c Candidate, zl complex128, load Load, opt ElectricalOptions) (pick Pick, secs []Section, notes, warnings []string, err error) {
 	fs := BandSamples(m.Band[0], m.Band[1], idealBandSamples)
-	starts, err := doubleStubStarts(d, m, c, zl, load, fs, opt)
+	starts, err := doubleStubStarts(d, m, c, zl, load, fs, ElectricalOptions{})
 	if err != nil {
 		return 0, nil, nil, nil, err
 	}
 	s, p := pickDoubleStub(c, starts, "")
+	what := "as solve --band lists it"
+	if opt.FeedDeg > 0 && (s.Err != "" || s.Sections[0].LengthDeg < opt.FeedDeg) {
+		// solve --band's double stub has no room for the feed, or none:
+		// optimise again with the feed kept.
+		if starts, err = doubleStubStarts(d, m, c, zl, load, fs, opt); err != nil {
+			return 0, nil, nil, nil, err
+		}
+		s, p = pickDoubleStub(c, starts, "")
+		what = fmt.Sprintf("with the load-side feed (%.2f°) kept in its first line", opt.FeedDeg)
+	}
 	if s.Err != "" {
 		return p, nil, nil, []string{fmt.Sprintf("%s; built from solution %d at f0 all the same: the band optimisation of the board may shorten that stub to nothing too", s.Err, p)}, nil
 	}
-	if s.Sections[0].LengthDeg < opt.FeedDeg {
-		return p, nil, []string{fmt.Sprintf("double stub: solution %d at f0 is built, the start whose band optimisation on lossless lines keeps both stubs with the lower worst |S11| (%.2f dB over %d frequencies); its first line (%.2f°) is shorter than the load-side feed (%.2f°), so the board starts from the solution at f0", p, s.WorstS11DB, len(fs), s.Sections[0].LengthDeg, opt.FeedDeg)}, nil, nil
-	}
-	notes = []string{fmt.Sprintf("double stub: solution %d at f0, the start whose band optimisation on lossless lines keeps both stubs with the lower worst |S11| (%.2f dB over %d frequencies); the board starts from those lengths: %.2f° of line, stub %.2f°, %.2f° spacing, stub %.2f°",
-		p, s.WorstS11DB, len(fs), s.Sections[0].LengthDeg, s.Sections[1].LengthDeg, s.Sections[2].LengthDeg, s.Sections[3].LengthDeg)}
+	notes = []string{fmt.Sprintf("double stub: solution %d at f0, the start whose band optimisation on lossless lines (%s) keeps both stubs with the lower worst |S11| (%.2f dB over %d frequencies); the board starts from those lengths: %.2f° of line, stub %.2f°, %.2f° spacing, stub %.2f°",
+		p, what, s.WorstS11DB, len(fs), s.Sections[0].LengthDeg, s.Sections[1].LengthDeg, s.Sections[2].LengthDeg, s.Sections[3].LengthDeg)}
 	if s.Note != "" {
 		notes = append(notes, s.Note)
 	}

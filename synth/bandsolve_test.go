@@ -206,11 +206,15 @@ func TestBuildBandDoubleStubHasTwoStubs(t *testing.T) {
 	cases := []struct {
 		zl, end string
 		wantIn  string // in a note
+		// asSolve: the board starts from the double stub solve --band
+		// lists, whose first line has room for the 5 mm feed (26.73°)
+		asSolve bool
 	}{
-		{"100-j50", "open", "double stub: solution 1 at f0"},
-		{"80-j60", "open", "double stub: solution"},
-		{"90-j20", "open", "double stub: solution"},
-		{"100-j50", "short", "double stub: solution"},
+		{"100-j50", "open", "double stub: solution 1 at f0, the start whose band optimisation on lossless lines (as solve --band lists it)", true},
+		{"80-j60", "open", "double stub: solution", true},
+		{"90-j20", "open", "double stub: solution", true},
+		{"100-j50", "short", "double stub: solution", true},
+		{"40-j10", "open", "with the load-side feed (26.73°) kept in its first line", false},
 	}
 	for _, c := range cases {
 		d := decodeTestDesign(t, fmt.Sprintf(`name = "b"
@@ -256,5 +260,28 @@ band = ["2.4GHz", "2.4835GHz"]
 		if !strings.Contains(strings.Join(r.Notes, "\n"), c.wantIn) {
 			t.Errorf("%s %s: no note with %q in %q", c.zl, c.end, c.wantIn, r.Notes)
 		}
+		end, _ := ParseStubEnd(c.end)
+		sb, err := SolveBand(ConstantLoad(zl), 50, 2.4e9, 2.4835e9, TopologyDoubleStub, end, 0, 0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if listed := sb.Solutions[0].Sections; c.asSolve && !sameSections(r.Sections, listed) {
+			t.Errorf("%s %s: the board starts from %+v, solve --band lists %+v", c.zl, c.end, r.Sections, listed)
+		}
 	}
+}
+
+// sameSections says whether a and b are the same sections, lengths within
+// 1e-9°.
+func sameSections(a, b []Section) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		x, y := a[i], b[i]
+		if x.Kind != y.Kind || x.End != y.End || x.Z0 != y.Z0 || math.Abs(x.LengthDeg-y.LengthDeg) > 1e-9 {
+			return false
+		}
+	}
+	return true
 }
