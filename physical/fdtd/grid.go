@@ -28,6 +28,7 @@ type portPlan struct {
 type Grid struct {
 	X, Y, Z  []float64
 	KH       int // index of z = h
+	KT       int // index of the copper's top face z = h + t; KH when the copper is drawn as a sheet
 	NPML     int
 	ports    [2]portPlan
 	EdgeCell float64   // the edge cell size used for the 1/3–2/3 rule, m
@@ -206,9 +207,20 @@ func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, erro
 	for i := 1; i <= nsub; i++ {
 		z = append(z, float64(i)*h/float64(nsub))
 	}
-	g.KH = nsub
+	g.KH, g.KT = nsub, nsub
 	top := h + math.Max(6*h, 3*wport)
-	for s := dz; z[len(z)-1] < top; {
+	first := dz
+	// Copper no thinner than the substrate's z cell gets its own cell,
+	// from h to h + t, and the air grading starts from it: the smallest
+	// z spacing, and with it the time step, stays that of the sheet.
+	// Thinner copper would shorten the step in proportion and stays a
+	// sheet at h.
+	if t := s.CopperThickness; t > 0 && t >= dz*(1-1e-9) {
+		z = append(z, h+t)
+		g.KT = nsub + 1
+		first = t
+	}
+	for s := first; z[len(z)-1] < top; {
 		s = math.Min(s*p.Grading, dmaxAir)
 		z = append(z, z[len(z)-1]+s)
 	}

@@ -215,17 +215,22 @@ func newSim(g *Grid, s Structure, workers int) *sim {
 }
 
 // markPEC lists the E components forced to zero: tangential E on the copper
-// plane inside copper, and Ez (with Ex, Ey) inside via columns.
+// plane inside copper (on both faces of thick copper, with Ez between
+// them), and Ez (with Ex, Ey) inside via columns.
 func (m *sim) markPEC(g *Grid) {
 	s := g.ext
 	kh := g.KH
 	nz, ny := m.nz, m.ny
 	at := func(i, j, k int) int32 { return int32((i*ny+j)*nz + k) }
+	kt := g.KT
 	for i := 0; i+1 < m.nx; i++ {
 		xm := (g.X[i] + g.X[i+1]) / 2
 		for j := 0; j < m.ny; j++ {
 			if s.inCopper(xm, g.Y[j]) {
 				m.pecX = append(m.pecX, at(i, j, kh))
+				if kt != kh {
+					m.pecX = append(m.pecX, at(i, j, kt))
+				}
 			}
 		}
 	}
@@ -233,6 +238,21 @@ func (m *sim) markPEC(g *Grid) {
 		for j := 0; j+1 < m.ny; j++ {
 			if s.inCopper(g.X[i], (g.Y[j]+g.Y[j+1])/2) {
 				m.pecY = append(m.pecY, at(i, j, kh))
+				if kt != kh {
+					m.pecY = append(m.pecY, at(i, j, kt))
+				}
+			}
+		}
+	}
+	// Thick copper: vertical E inside its outline, between the faces.
+	if kt != kh {
+		for i := 0; i < m.nx; i++ {
+			for j := 0; j < m.ny; j++ {
+				if s.inCopper(g.X[i], g.Y[j]) {
+					for k := kh; k < kt; k++ {
+						m.pecZ = append(m.pecZ, at(i, j, k))
+					}
+				}
 			}
 		}
 	}

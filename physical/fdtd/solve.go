@@ -198,7 +198,7 @@ func calibrateOn(ctx context.Context, s Structure, width int64, edge float64, ys
 	fmax := s.Freqs[len(s.Freqs)-1]
 	span := 0.35 * c0 / (fmax * math.Sqrt(s.Er))
 	L := int64(math.Round(math.Max(span-4*hw, 2*hw) * 1e9))
-	c := Structure{Er: s.Er, TanD: s.TanD, F0: s.F0, H: s.H, Mask: s.Mask, BoardMinX: 0, BoardMaxX: L, Freqs: s.Freqs,
+	c := Structure{Er: s.Er, TanD: s.TanD, F0: s.F0, H: s.H, Mask: s.Mask, CopperThickness: s.CopperThickness, BoardMinX: 0, BoardMaxX: L, Freqs: s.Freqs,
 		Copper: []Polygon{RectPolygon(0, -width/2, L, width-width/2)},
 		Ports:  [2]Port{{Side: Left, Y: 0, Width: width}, {Side: Right, Y: 0, Width: width}}}
 	if p := s.Ports[q]; p.Gap > 0 {
@@ -317,15 +317,19 @@ func runOnce(ctx context.Context, g *Grid, s Structure, o Options, p, runIdx, ru
 		return v
 	}
 	// current returns the +x strip current on the loop at x index i+½.
+	// The loop runs under the copper's bottom face (Hy at kh−1), over its
+	// top face (Hy at kt) and up the sides (Hz from kh to kt).
 	current := func(i, ja, jb int) float64 {
-		kh := g.KH
-		dzd := (g.Z[kh+1] - g.Z[kh-1]) / 2
+		kh, kt := g.KH, g.KT
 		sum := 0.0
 		for j := ja + 1; j <= jb; j++ {
 			dyd := (g.Y[j+1] - g.Y[j-1]) / 2
-			sum += float64(m.hy[(i*m.ny+j)*m.nz+kh-1]-m.hy[(i*m.ny+j)*m.nz+kh]) * dyd
+			sum += float64(m.hy[(i*m.ny+j)*m.nz+kh-1]-m.hy[(i*m.ny+j)*m.nz+kt]) * dyd
 		}
-		sum += float64(m.hz[(i*m.ny+jb)*m.nz+kh]-m.hz[(i*m.ny+ja)*m.nz+kh]) * dzd
+		for k := kh; k <= kt; k++ {
+			dzd := (g.Z[k+1] - g.Z[k-1]) / 2
+			sum += float64(m.hz[(i*m.ny+jb)*m.nz+k]-m.hz[(i*m.ny+ja)*m.nz+k]) * dzd
+		}
 		return sum
 	}
 	// Source: a sine-modulated Gaussian, zero mean, covering the sweep.

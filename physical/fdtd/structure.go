@@ -74,7 +74,12 @@ type Structure struct {
 	F0     float64 // frequency at which TanD becomes a conductivity, Hz
 	H      float64 // substrate height, m
 	Mask   Mask    // solder mask over the top face; zero value none
-	Copper []Polygon
+	// CopperThickness is the copper's thickness, m (0: zero-thickness
+	// copper). The grid draws it, as a z line at H + CopperThickness,
+	// only where that costs no time step: when it is no thinner than the
+	// substrate's z cell (see NewGrid); thinner copper stays a sheet at H.
+	CopperThickness float64
+	Copper          []Polygon
 	Vias   []Via
 	// Ports: Ports[0] is port 1, Ports[1] port 2; one on each side.
 	Ports                [2]Port
@@ -129,6 +134,8 @@ func (s Structure) Validate() error {
 		return bad("mask tanδ = %g, want 0 to 0.1", s.Mask.TanD)
 	case s.Mask.Thickness > 0 && s.Mask.TanD > 0 && !(s.F0 > 0):
 		return bad("f0 = %g Hz, want > 0 with a mask loss tangent", s.F0)
+	case !(s.CopperThickness >= 0) || s.CopperThickness > 1e-3:
+		return bad("copper thickness %g m, want 0 to 1 mm", s.CopperThickness)
 	case len(s.Freqs) == 0:
 		return bad("no sweep frequencies")
 	case s.BoardMaxX <= s.BoardMinX:

@@ -42,7 +42,7 @@ func Structure(res *synth.Result, freqs []float64) (fdtd.Structure, error) {
 	s := fdtd.Structure{
 		Er: sub.Er, TanD: sub.LossTangent, F0: res.Design.Freq,
 		H: sub.Height, BoardMinX: bmin.X, BoardMaxX: bmax.X,
-		Freqs: freqs, Zref: res.Design.Z0, Mask: maskOf(res),
+		Freqs: freqs, Zref: res.Design.Z0, Mask: maskOf(res), CopperThickness: sub.CopperThickness,
 	}
 	for _, n := range l.Copper {
 		s.Copper = append(s.Copper, polygon(n.Outline))

@@ -1,0 +1,110 @@
+package fdtd
+
+import (
+	"context"
+	"math"
+	"slices"
+	"testing"
+	"time"
+
+	"stubcraft/physical"
+	"stubcraft/physical/fieldsolve"
+)
+
+// TestThickCopperAgainstFieldSolver checks the drawn copper thickness on a
+// uniform 50 Ω-class line (W/h 1.9) of 35 µm copper on a 0.2 mm board of
+// εr 4.35, coarse mesh: the full-wave εeff and Z0 with the thickness drawn
+// must lie closer to the 2-D field solver (physical/fieldsolve, an
+// independent electrostatic computation on the cross-section with the
+// 35 µm strip) than with the copper as a sheet, and within 1 % (εeff) and
+// 2 % (Z0) of it.
+func TestThickCopperAgainstFieldSolver(t *testing.T) {
+	const er, h, wh, tc = 4.35, 0.2e-3, 1.9, 35e-6
+	w := wh * h
+	f := 1e9 * 1e-3 / h
+	cs := fieldsolve.CrossSection{Geometry: fieldsolve.Microstrip, Width: w, Height: h, Er: er, Thickness: tc}
+	m, err := fieldsolve.NewLineModelOptions(cs, physical.Substrate{Er: er, Height: h}, nil, fieldsolve.Options{Tolerance: 0.001})
+	if err != nil {
+		t.Fatal(err)
+	}
+	zFS, _ := m.Static()
+	eeFS := m.At(f).EpsEff
+	var ee, z [2]float64
+	for i, th := range []float64{0, tc} {
+		s := straight(er, h, w, 2*h, []float64{0.5 * f, f, 1.5 * f})
+		s.CopperThickness = th
+		if th > 0 {
+			g, err := NewGrid(s, Coarse.Params())
+			if err != nil {
+				t.Fatal(err)
+			}
+			if g.KT != g.KH+1 || math.Abs(g.Z[g.KT]-h-tc) > 1e-12 {
+				t.Fatalf("35 µm copper on 0.2 mm: top face index %d (plane %d), z %g m: want a line at h + t", g.KT, g.KH, g.Z[g.KT])
+			}
+		}
+		z[i], ee[i] = measureLine(t, s, Coarse.Params())
+	}
+	t.Logf("field solver (35 µm): εeff %.4f, Z0 %.2f Ω; sheet: εeff %.4f (%+.2f %%), Z0 %.2f Ω (%+.2f %%); drawn: εeff %.4f (%+.2f %%), Z0 %.2f Ω (%+.2f %%)",
+		eeFS, zFS, ee[0], 100*(ee[0]/eeFS-1), z[0], 100*(z[0]/zFS-1), ee[1], 100*(ee[1]/eeFS-1), z[1], 100*(z[1]/zFS-1))
+	for _, c := range []struct {
+		name         string
+		sheet, thick float64
+		ref, tol     float64
+	}{{"εeff", ee[0], ee[1], eeFS, 0.01}, {"Z0", z[0], z[1], zFS, 0.02}} {
+		es, et := math.Abs(c.sheet/c.ref-1), math.Abs(c.thick/c.ref-1)
+		if et >= es {
+			t.Errorf("%s: drawn copper %.2f %% off the field solver, the sheet %.2f %%: want closer", c.name, 100*et, 100*es)
+		}
+		if et > c.tol {
+			t.Errorf("%s: drawn copper %.2f %% off the field solver, want within %.0f %%", c.name, 100*et, 100*c.tol)
+		}
+	}
+}
+
+// TestThinCopperChangesNothing checks that copper thinner than the
+// substrate's z cell (35 µm on 1.6 mm, not drawn) and copper of zero
+// thickness leave the mesh, the conductor marks and the fields of a run
+// bitwise as the structure without a thickness.
+func TestThinCopperChangesNothing(t *testing.T) {
+	bare := straight(4.35, 1.6e-3, 3e-3, 3.2e-3, []float64{5e9, 10e9, 15e9})
+	o := Options{DecayDB: 10}.withDefaults()
+	var recs [2][2]probeSet
+	var sims [2]*sim
+	var grids [2]*Grid
+	thin := bare
+	thin.CopperThickness = 35e-6
+	for i, s := range []Structure{bare, thin} {
+		g, err := NewGrid(s, o.Mesh)
+		if err != nil {
+			t.Fatal(err)
+		}
+		grids[i] = g
+		sims[i] = newSim(g, s, 1)
+		sims[i].close()
+		if recs[i], _, err = runOnce(context.Background(), g, s, o, 0, 0, 1, time.Now()); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if grids[1].KT != grids[1].KH {
+		t.Fatalf("35 µm copper on 1.6 mm drawn (top face index %d, plane %d): want a sheet", grids[1].KT, grids[1].KH)
+	}
+	for _, c := range []struct {
+		name string
+		a, b []float64
+	}{{"grid x", grids[0].X, grids[1].X}, {"grid y", grids[0].Y, grids[1].Y}, {"grid z", grids[0].Z, grids[1].Z}} {
+		if !slices.Equal(c.a, c.b) {
+			t.Fatalf("%s differs with thin copper", c.name)
+		}
+	}
+	if !slices.Equal(sims[0].pecX, sims[1].pecX) || !slices.Equal(sims[0].pecY, sims[1].pecY) || !slices.Equal(sims[0].pecZ, sims[1].pecZ) {
+		t.Fatal("the conductor marks differ with thin copper")
+	}
+	for p := range recs[0] {
+		a, b := recs[0][p], recs[1][p]
+		for f := range a.vf1 {
+			if a.vf1[f] != b.vf1[f] || a.vb1[f] != b.vb1[f] || a.ifr[f] != b.ifr[f] || a.ib[f] != b.ib[f] {
+				t.Fatalf("port %d, frequency %d: the recorded spectra differ with thin copper", p+1, f)
+			}
+		}
+	}
+}
