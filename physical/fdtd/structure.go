@@ -69,18 +69,18 @@ type Mask struct {
 // BoardMinX and BoardMaxX are the x of the two edges the ports lie on
 // (the S-parameters' reference planes), nm.
 type Structure struct {
-	Er     float64 // substrate relative permittivity
-	TanD   float64 // substrate loss tangent at F0
-	F0     float64 // frequency at which TanD becomes a conductivity, Hz
-	H      float64 // substrate height, m
-	Mask   Mask    // solder mask over the top face; zero value none
+	Er   float64 // substrate relative permittivity
+	TanD float64 // substrate loss tangent at F0
+	F0   float64 // frequency at which TanD becomes a conductivity, Hz
+	H    float64 // substrate height, m
+	Mask Mask    // solder mask over the top face; zero value none
 	// CopperThickness is the copper's thickness, m (0: zero-thickness
 	// copper). The grid draws it, as a z line at H + CopperThickness,
 	// only where that costs no time step: when it is no thinner than the
 	// substrate's z cell (see NewGrid); thinner copper stays a sheet at H.
 	CopperThickness float64
 	Copper          []Polygon
-	Vias   []Via
+	Vias            []Via
 	// Ports: Ports[0] is port 1, Ports[1] port 2; one on each side.
 	Ports                [2]Port
 	BoardMinX, BoardMaxX int64
