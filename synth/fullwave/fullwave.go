@@ -4,8 +4,9 @@
 // math and compares the result with the circuit model's.
 //
 // What the full-wave model leaves out, and says so in Report.Notes: the
-// copper's thickness and conductivity (it is a perfect, zero-thickness
-// conductor), the solder mask's openings (a mask over the RF copper is one
+// copper's conductivity (it is a perfect conductor; its thickness, the
+// stackup's, is drawn where the mesh's substrate cells are no taller, as
+// on thin boards, and elsewhere it is a zero-thickness sheet), the solder mask's openings (a mask over the RF copper is one
 // layer over the whole top face, port pads included, as the circuit
 // model's masked lines are), and the board's outline (the substrate and
 // the ground plane run on into the absorbing layers on every side).
@@ -206,7 +207,11 @@ func Verify(ctx context.Context, res *synth.Result, o fdtd.Options) (*Report, er
 	if err != nil {
 		return nil, err
 	}
-	rep, err := Compare(res, r.S)
+	drawn := 0.0
+	if g := r.Grid; g != nil && g.KT > g.KH {
+		drawn = g.Z[g.KT] - g.Z[g.KH]
+	}
+	rep, err := compare(res, r.S, drawn)
 	if err != nil {
 		return nil, err
 	}
@@ -233,6 +238,12 @@ func checkSweep(res *synth.Result) error {
 // is the build's own value at f0. The run's figures (cells, steps,
 // seconds) are left to the caller.
 func Compare(res *synth.Result, s [][2][2]complex128) (*Report, error) {
+	return compare(res, s, 0)
+}
+
+// compare is Compare for a solve that drew the copper drawn thick (m; 0
+// for a sheet), which its notes say.
+func compare(res *synth.Result, s [][2][2]complex128, drawn float64) (*Report, error) {
 	if err := checkSweep(res); err != nil {
 		return nil, err
 	}
@@ -252,8 +263,12 @@ func Compare(res *synth.Result, s [][2][2]complex128) (*Report, error) {
 	if m := maskOf(res); m.Thickness > 0 {
 		mask = fmt.Sprintf("the %.3g µm solder mask (εr %.3g) over the whole top face, its openings at the port pads left out", m.Thickness*1e6, m.Er)
 	}
-	rep.Notes = append(rep.Notes, "full-wave model: perfect zero-thickness copper, "+mask+", substrate and ground plane unbounded beside the board")
-	if share, ok := ThicknessShare(res); ok {
+	copper := "perfect zero-thickness copper"
+	if drawn > 0 {
+		copper = fmt.Sprintf("perfect copper %.3g µm thick", drawn*1e6)
+	}
+	rep.Notes = append(rep.Notes, "full-wave model: "+copper+", "+mask+", substrate and ground plane unbounded beside the board")
+	if share, ok := ThicknessShare(res); ok && drawn == 0 {
 		rep.Notes = append(rep.Notes, fmt.Sprintf("the full-wave copper has zero thickness: with the stackup's %.1f µm copper the lines are %.2f %% electrically shorter (Hammerstad-Jensen thickness correction, weighted by electrical length), so the drawn board's best match lies about %.2f %% above the full-wave's on that account", res.Physical.Board.Sub.CopperThickness*1e6, 100*share, 100*share))
 	}
 	if trim := res.Design.Layout.Trim; trim > 0 {

@@ -214,6 +214,21 @@ func TestThicknessShare(t *testing.T) {
 	if !found {
 		t.Errorf("no note on the zero-thickness copper among %q", rep.Notes)
 	}
+	// A solve that drew the copper thick says so and gives no share.
+	thick, err := compare(res, res.Sweep.Network, 34.8e-6)
+	if err != nil {
+		t.Fatal(err)
+	}
+	found = false
+	for _, n := range thick.Notes {
+		if strings.Contains(n, "zero thickness") || strings.Contains(n, "zero-thickness") {
+			t.Errorf("copper drawn 34.8 µm thick, yet the note %q", n)
+		}
+		found = found || strings.Contains(n, "perfect copper 34.8 µm thick")
+	}
+	if !found {
+		t.Errorf("no note on the drawn copper thickness among %q", thick.Notes)
+	}
 	gcpw := buildExample(t, "gcpw-probe")
 	if s, ok := ThicknessShare(gcpw); ok {
 		t.Errorf("a grounded coplanar board got a microstrip thickness share (%.3f %%)", 100*s)
@@ -224,7 +239,8 @@ func TestThicknessShare(t *testing.T) {
 // board when the layout covers the RF copper with it: the masked example
 // (testdata/designs/stackups/thin-board.toml: 20 µm, εr 3.5, no loss
 // tangent given) as built, and the same design with [layout] mask = "open",
-// whose lines are sized bare and drawn under a window, without.
+// whose lines are sized bare and drawn under a window, without; and that
+// the stackup's 35 µm copper thickness reaches it in both.
 func TestStructureMask(t *testing.T) {
 	for _, c := range []struct {
 		mode synth.MaskMode
@@ -236,6 +252,9 @@ func TestStructureMask(t *testing.T) {
 		s := builtStructure(t, "sensor-antenna-by-hand", func(in *synth.BuildInput) { in.Design.Layout.Mask = c.mode })
 		if math.Abs(s.Mask.Thickness-c.want.Thickness) > 1e-12 || s.Mask.Er != c.want.Er || s.Mask.TanD != c.want.TanD {
 			t.Errorf("layout.mask %s: full-wave mask %+v, want %+v", c.mode, s.Mask, c.want)
+		}
+		if math.Abs(s.CopperThickness-35e-6) > 1e-12 {
+			t.Errorf("layout.mask %s: full-wave copper thickness %g m, want the stackup's 35 µm", c.mode, s.CopperThickness)
 		}
 	}
 }
