@@ -1,7 +1,11 @@
 // Package fdtd is a three-dimensional finite-difference time-domain solver
 // for microstrip circuits: a substrate of relative permittivity εr and loss
-// tangent tanδ on a perfectly conducting ground plane, zero-thickness
-// perfectly conducting copper on its top face, optionally a solder mask
+// tangent tanδ on a perfectly conducting ground plane, perfectly
+// conducting copper on its top face (a zero-thickness sheet, or with its
+// thickness where that is no less than the substrate's z cell: a z line
+// at h + t, tangential E zero on both faces inside the copper and vertical
+// E between them, so the time step is that of the sheet; checked against
+// the 2-D field solver physical/fieldsolve), optionally a solder mask
 // (a dielectric layer of its own εr, tanδ and thickness over the whole top
 // face), perfectly conducting via columns, and a microstrip port at each of
 // the board's two x edges. It returns the two-port scattering parameters
