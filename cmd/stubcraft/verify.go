@@ -36,8 +36,8 @@ func newVerifyCmd() *cobra.Command {
 		Short: "Check the drawn copper with a full-wave (3-D FDTD) solve",
 		Long: `Build the design with the same checks as build, then solve the drawn copper
 full-wave (three-dimensional FDTD: perfect copper, its thickness drawn
-where the substrate's cells are no taller and a sheet elsewhere, the
-substrate and its loss tangent, the ground plane and the vias), attach the
+where the substrate's cells are no taller and there is no solder mask, a
+sheet elsewhere, the substrate and its loss tangent, the ground plane and the vias), attach the
 load by network math and compare with the circuit model. It writes
 fullwave.s2p (the network alone, port 1 the source side, port 2 the load
 port, as network.s2p), fullwave-matched.s1p, fullwave.json and plots that

@@ -61,9 +61,9 @@ func TestThickCopperAgainstFieldSolver(t *testing.T) {
 }
 
 // TestThinCopperChangesNothing checks that copper thinner than the
-// substrate's z cell (35 µm on 1.6 mm, not drawn) and copper of zero
-// thickness leave the mesh, the conductor marks and the fields of a run
-// bitwise as the structure without a thickness.
+// substrate's z cell (35 µm on 1.6 mm, not drawn) leaves the mesh, the
+// conductor marks and the fields of a run bitwise as copper of zero
+// thickness, and that thick copper under a mask is not drawn.
 func TestThinCopperChangesNothing(t *testing.T) {
 	bare := straight(4.35, 1.6e-3, 3e-3, 3.2e-3, []float64{5e9, 10e9, 15e9})
 	o := Options{DecayDB: 10}.withDefaults()
@@ -86,6 +86,14 @@ func TestThinCopperChangesNothing(t *testing.T) {
 	}
 	if grids[1].KT != grids[1].KH {
 		t.Fatalf("35 µm copper on 1.6 mm drawn (top face index %d, plane %d): want a sheet", grids[1].KT, grids[1].KH)
+	}
+	// Under a mask thick copper stays a sheet (see newGrid).
+	masked := straight(4.35, 0.2e-3, 0.38e-3, 0.4e-3, []float64{2.5e9, 5e9, 7.5e9})
+	masked.CopperThickness, masked.Mask = 35e-6, Mask{Thickness: 20e-6, Er: 3.5}
+	if g, err := NewGrid(masked, o.Mesh); err != nil {
+		t.Fatal(err)
+	} else if g.KT != g.KH {
+		t.Fatalf("35 µm copper on 0.2 mm under a mask drawn (top face index %d, plane %d): want a sheet", g.KT, g.KH)
 	}
 	for _, c := range []struct {
 		name string

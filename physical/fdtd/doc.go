@@ -2,7 +2,8 @@
 // for microstrip circuits: a substrate of relative permittivity εr and loss
 // tangent tanδ on a perfectly conducting ground plane, perfectly
 // conducting copper on its top face (a zero-thickness sheet, or with its
-// thickness where that is no less than the substrate's z cell: a z line
+// thickness where that is no less than the substrate's z cell and there
+// is no solder mask: a z line
 // at h + t, tangential E zero on both faces inside the copper and vertical
 // E between them, so the time step is that of the sheet; checked against
 // the 2-D field solver physical/fieldsolve), optionally a solder mask

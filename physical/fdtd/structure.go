@@ -77,7 +77,8 @@ type Structure struct {
 	// CopperThickness is the copper's thickness, m (0: zero-thickness
 	// copper). The grid draws it, as a z line at H + CopperThickness,
 	// only where that costs no time step: when it is no thinner than the
-	// substrate's z cell (see NewGrid); thinner copper stays a sheet at H.
+	// substrate's z cell, and only without a solder mask (see NewGrid);
+	// elsewhere the copper stays a sheet at H.
 	CopperThickness float64
 	Copper          []Polygon
 	Vias            []Via

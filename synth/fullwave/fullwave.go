@@ -6,7 +6,8 @@
 // What the full-wave model leaves out, and says so in Report.Notes: the
 // copper's conductivity (it is a perfect conductor; its thickness, the
 // stackup's, is drawn where the mesh's substrate cells are no taller, as
-// on thin boards, and elsewhere it is a zero-thickness sheet), the solder mask's openings (a mask over the RF copper is one
+// on thin boards, and there is no solder mask over the RF copper;
+// elsewhere it is a zero-thickness sheet), the solder mask's openings (a mask over the RF copper is one
 // layer over the whole top face, port pads included, as the circuit
 // model's masked lines are), and the board's outline (the substrate and
 // the ground plane run on into the absorbing layers on every side).
