@@ -1,11 +1,9 @@
 package fdtd
 
 import (
-	"context"
 	"math"
 	"slices"
 	"testing"
-	"time"
 
 	"stubcraft/physical"
 	"stubcraft/physical/fieldsolve"
@@ -67,23 +65,9 @@ func TestThickCopperAgainstFieldSolver(t *testing.T) {
 func TestThinCopperChangesNothing(t *testing.T) {
 	bare := straight(4.35, 1.6e-3, 3e-3, 3.2e-3, []float64{5e9, 10e9, 15e9})
 	o := Options{DecayDB: 10}.withDefaults()
-	var recs [2][2]probeSet
-	var sims [2]*sim
-	var grids [2]*Grid
 	thin := bare
 	thin.CopperThickness = 35e-6
-	for i, s := range []Structure{bare, thin} {
-		g, err := NewGrid(s, o.Mesh)
-		if err != nil {
-			t.Fatal(err)
-		}
-		grids[i] = g
-		sims[i] = newSim(g, s, 1)
-		sims[i].close()
-		if recs[i], _, err = runOnce(context.Background(), g, s, o, 0, 0, 1, time.Now()); err != nil {
-			t.Fatal(err)
-		}
-	}
+	grids, sims, recs := runPair(t, bare, thin, o)
 	if grids[1].KT != grids[1].KH {
 		t.Fatalf("35 µm copper on 1.6 mm drawn (top face index %d, plane %d): want a sheet", grids[1].KT, grids[1].KH)
 	}
@@ -106,12 +90,5 @@ func TestThinCopperChangesNothing(t *testing.T) {
 	if !slices.Equal(sims[0].pecX, sims[1].pecX) || !slices.Equal(sims[0].pecY, sims[1].pecY) || !slices.Equal(sims[0].pecZ, sims[1].pecZ) {
 		t.Fatal("the conductor marks differ with thin copper")
 	}
-	for p := range recs[0] {
-		a, b := recs[0][p], recs[1][p]
-		for f := range a.vf1 {
-			if a.vf1[f] != b.vf1[f] || a.vb1[f] != b.vb1[f] || a.ifr[f] != b.ifr[f] || a.ib[f] != b.ib[f] {
-				t.Fatalf("port %d, frequency %d: the recorded spectra differ with thin copper", p+1, f)
-			}
-		}
-	}
+	sameSpectra(t, recs, "with thin copper")
 }

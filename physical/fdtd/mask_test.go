@@ -73,21 +73,7 @@ func TestZeroMaskChangesNothing(t *testing.T) {
 	// A 10 dB decay is enough to compare: the runs need not converge, only
 	// take the same steps.
 	o := Options{DecayDB: 10}.withDefaults()
-	var recs [2][2]probeSet
-	var sims [2]*sim
-	var grids [2]*Grid
-	for i, s := range []Structure{bare, zero} {
-		g, err := NewGrid(s, o.Mesh)
-		if err != nil {
-			t.Fatal(err)
-		}
-		grids[i] = g
-		sims[i] = newSim(g, s, 1)
-		sims[i].close()
-		if recs[i], _, err = runOnce(context.Background(), g, s, o, 0, 0, 1, time.Now()); err != nil {
-			t.Fatal(err)
-		}
-	}
+	grids, sims, recs := runPair(t, bare, zero, o)
 	same := func(name string, a, b []float64) {
 		if len(a) != len(b) {
 			t.Fatalf("%s: %d against %d values", name, len(a), len(b))
@@ -107,11 +93,37 @@ func TestZeroMaskChangesNothing(t *testing.T) {
 	}{{"caT", sims[0].caT, sims[1].caT}, {"cbT", sims[0].cbT, sims[1].cbT}, {"caZ", sims[0].caZ, sims[1].caZ}, {"cbZ", sims[0].cbZ, sims[1].cbZ}} {
 		same(c.name, widen(c.a), widen(c.b))
 	}
+	sameSpectra(t, recs, "with a zero-thickness mask")
+}
+
+// runPair meshes and runs structures a and b the same way (one worker, from
+// step 0), for tests that compare the two bitwise; the sims are closed.
+func runPair(t *testing.T, a, b Structure, o Options) (grids [2]*Grid, sims [2]*sim, recs [2][2]probeSet) {
+	t.Helper()
+	for i, s := range []Structure{a, b} {
+		g, err := NewGrid(s, o.Mesh)
+		if err != nil {
+			t.Fatal(err)
+		}
+		grids[i] = g
+		sims[i] = newSim(g, s, 1)
+		sims[i].close()
+		if recs[i], _, err = runOnce(context.Background(), g, s, o, 0, 0, 1, time.Now()); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return grids, sims, recs
+}
+
+// sameSpectra fails t unless the two runs recorded bitwise the same port
+// spectra; what names the difference between them.
+func sameSpectra(t *testing.T, recs [2][2]probeSet, what string) {
+	t.Helper()
 	for p := range recs[0] {
 		a, b := recs[0][p], recs[1][p]
 		for f := range a.vf1 {
 			if a.vf1[f] != b.vf1[f] || a.vb1[f] != b.vb1[f] || a.ifr[f] != b.ifr[f] || a.ib[f] != b.ib[f] {
-				t.Fatalf("port %d, frequency %d: the recorded spectra differ with a zero-thickness mask", p+1, f)
+				t.Fatalf("port %d, frequency %d: the recorded spectra differ %s", p+1, f, what)
 			}
 		}
 	}
