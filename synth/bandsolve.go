@@ -280,26 +280,37 @@ const idealBandSamples = 41
 // no start kept both stubs (a warning names the single stub).
 func bandDoubleStubStart(d Design, m MatchSpec, c Candidate, zl complex128, load Load, opt ElectricalOptions) (pick Pick, secs []Section, notes, warnings []string, err error) {
 	fs := BandSamples(m.Band[0], m.Band[1], idealBandSamples)
-	starts, err := doubleStubStarts(d, m, c, zl, load, fs, ElectricalOptions{})
+	starts := func(o ElectricalOptions) ([]bandStart, error) {
+		return doubleStubStarts(d, m, c, zl, load, fs, o)
+	}
+	return chooseDoubleStubStart(c, opt, len(fs), starts)
+}
+
+// chooseDoubleStubStart is bandDoubleStubStart's choice among the starts
+// that starts gives (doubleStubStarts over nFreqs frequencies): first
+// without the feed, as solve --band lists them, then, when needed, with
+// opt's feed kept; with the notes and warnings that say which.
+func chooseDoubleStubStart(c Candidate, opt ElectricalOptions, nFreqs int, starts func(ElectricalOptions) ([]bandStart, error)) (pick Pick, secs []Section, notes, warnings []string, err error) {
+	bs, err := starts(ElectricalOptions{})
 	if err != nil {
 		return 0, nil, nil, nil, err
 	}
-	s, p := pickDoubleStub(c, starts, "")
+	s, p := pickDoubleStub(c, bs, "")
 	what := "as solve --band lists it"
 	if opt.FeedDeg > 0 && (s.Err != "" || s.Sections[0].LengthDeg < opt.FeedDeg) {
 		// solve --band's double stub has no room for the feed, or none:
 		// optimise again with the feed kept.
-		if starts, err = doubleStubStarts(d, m, c, zl, load, fs, opt); err != nil {
+		if bs, err = starts(opt); err != nil {
 			return 0, nil, nil, nil, err
 		}
-		s, p = pickDoubleStub(c, starts, "")
+		s, p = pickDoubleStub(c, bs, "")
 		what = fmt.Sprintf("with the load-side feed (%.2f°) kept in its first line", opt.FeedDeg)
 	}
 	if s.Err != "" {
 		return p, nil, nil, []string{fmt.Sprintf("%s; built from solution %d at f0 all the same: the band optimisation of the board may shorten that stub to nothing too", s.Err, p)}, nil
 	}
 	notes = []string{fmt.Sprintf("double stub: solution %d at f0, the start whose band optimisation on lossless lines (%s) keeps both stubs with the lower worst |S11| (%.2f dB over %d frequencies); the board starts from those lengths: %.2f° of line, stub %.2f°, %.2f° spacing, stub %.2f°",
-		p, what, s.WorstS11DB, len(fs), s.Sections[0].LengthDeg, s.Sections[1].LengthDeg, s.Sections[2].LengthDeg, s.Sections[3].LengthDeg)}
+		p, what, s.WorstS11DB, nFreqs, s.Sections[0].LengthDeg, s.Sections[1].LengthDeg, s.Sections[2].LengthDeg, s.Sections[3].LengthDeg)}
 	if s.Note != "" {
 		notes = append(notes, s.Note)
 	}

@@ -285,3 +285,76 @@ func sameSections(a, b []Section) bool {
 	}
 	return true
 }
+
+// build's choice of a band double stub's start, and what it says: the
+// double stub solve --band lists when its first line has room for the
+// load-side feed; the choice made again with the feed kept when it has
+// not, or when no start keeps two stubs; and, when even then no start
+// keeps two stubs, a warning that names the single stub and says the
+// board is built from that solution at f0 all the same. The starts are
+// the rows' own (|Γ| 0.01 is −40 dB, 0.05 is −26.02 dB).
+func TestChooseDoubleStubStart(t *testing.T) {
+	line := func(deg float64) Section { return Section{Kind: SeriesLine, Z0: 50, LengthDeg: deg} }
+	open := func(deg float64) Section { return Section{Kind: ShuntStub, End: Open, Z0: 50, LengthDeg: deg} }
+	starts := func(worsts []float64, secs ...[]Section) []bandStart {
+		var out []bandStart
+		for i, s := range secs {
+			b := bandStart{pick: Pick(i + 1), secs: s, worst: worsts[i]}
+			b.single, b.gone, _ = singleStubOf(s)
+			out = append(out, b)
+		}
+		return out
+	}
+	double := []Section{line(52.6), open(139), line(54.7), open(199.2)}
+	shortLine := []Section{line(10), open(139), line(54.7), open(199.2)}
+	single := []Section{line(45), open(135), line(121), open(1e-9)}
+	single1 := []Section{line(40), open(0.2), line(100), open(30)}
+	const feed = 26.73
+	cases := []struct {
+		name               string
+		bare, fed          []bandStart // the starts without and with the feed kept
+		wantPick           Pick
+		wantSecs           []Section // nil: none, the board starts from the solution at f0
+		wantNote, wantWarn string    // in the first note and the warning ("" for none)
+		wantStartsWithFeed bool      // the choice was made again with the feed kept
+	}{
+		{"as solve --band lists it", starts([]float64{0.05, 0.01}, single, double), nil, 2, double,
+			"double stub: solution 2 at f0, the start whose band optimisation on lossless lines (as solve --band lists it) keeps both stubs with the lower worst |S11| (-40.00 dB over 41 frequencies); the board starts from those lengths: 52.60° of line, stub 139.00°, 54.70° spacing, stub 199.20°", "", false},
+		{"first line shorter than the feed: again with the feed kept", starts([]float64{0.01, 0.05}, shortLine, single), starts([]float64{0.05, 0.01}, single, double), 2, double,
+			"(with the load-side feed (26.73°) kept in its first line)", "", true},
+		{"no start keeps two stubs: again with the feed kept", starts([]float64{0.05, 0.1}, single, single1), starts([]float64{0.01, 0.05}, double, single), 1, double,
+			"(with the load-side feed (26.73°) kept in its first line)", "", true},
+		{"no start keeps two stubs even with the feed kept: a warning", starts([]float64{0.05, 0.1}, single, single1), starts([]float64{0.1, 0.05}, single1, single), 2, nil,
+			"", "no double stub: from each solution at f0 the band optimisation shrank stub 2 to 0.00°, leaving a single open stub (45.0° of line, stub 135.0°) with a worst |S11| of -26.02 dB in the band; built from solution 2 at f0 all the same: the band optimisation of the board may shorten that stub to nothing too", true},
+	}
+	for _, c := range cases {
+		withFeed := false
+		get := func(o ElectricalOptions) ([]bandStart, error) {
+			switch o.FeedDeg {
+			case 0:
+				return c.bare, nil
+			case feed:
+				withFeed = true
+				return c.fed, nil
+			}
+			return nil, fmt.Errorf("starts asked for a feed of %g°, want 0 or %g°", o.FeedDeg, feed)
+		}
+		pick, secs, notes, warnings, err := chooseDoubleStubStart(Candidate{Topology: TopologyDoubleStub, End: Open}, ElectricalOptions{FeedDeg: feed}, 41, get)
+		if err != nil {
+			t.Errorf("%s: %v", c.name, err)
+			continue
+		}
+		if pick != c.wantPick || !sameSections(secs, c.wantSecs) || withFeed != c.wantStartsWithFeed {
+			t.Errorf("%s: solution %d, sections %+v, again with the feed %v; want %d, %+v, %v", c.name, pick, secs, withFeed, c.wantPick, c.wantSecs, c.wantStartsWithFeed)
+		}
+		if c.wantWarn == "" {
+			if len(warnings) != 0 || len(notes) == 0 || !strings.Contains(notes[0], c.wantNote) {
+				t.Errorf("%s: notes %q, warnings %q; want a note with %q and no warning", c.name, notes, warnings, c.wantNote)
+			}
+			continue
+		}
+		if len(warnings) != 1 || warnings[0] != c.wantWarn || len(notes) != 0 {
+			t.Errorf("%s: warnings %q, notes %q; want the one warning %q and no note", c.name, warnings, notes, c.wantWarn)
+		}
+	}
+}
