@@ -149,6 +149,20 @@ func singleStubOf(secs []Section) (single []Section, gone int, ok bool) {
 	return []Section{line, secs[3]}, 1, true
 }
 
+// MinStubSpacingDeg is the electrical length at f0 of the line between the
+// two stubs of a band solution below which they stand in parallel at one
+// point: a line of z0 that short turns the admittance between them by
+// under 2° on the chart, so a reader takes the two for one shunt stub of
+// their combined admittance, which is no double stub (judgement, no
+// source, as MinOpenStubDeg).
+const MinStubSpacingDeg = 1.0
+
+// parallelStubs says whether the two stubs of a double stub (line, stub,
+// line, stub from the load) are less than MinStubSpacingDeg apart.
+func parallelStubs(secs []Section) bool {
+	return len(secs) == 4 && secs[1].Kind == ShuntStub && secs[3].Kind == ShuntStub && secs[2].LengthDeg < MinStubSpacingDeg
+}
+
 // bandStart is one double stub optimised across the band from one of its
 // solutions at f0.
 type bandStart struct {
@@ -158,10 +172,29 @@ type bandStart struct {
 	// single is what is left when a stub went (singleStubOf); gone names it.
 	single []Section
 	gone   int
+	// parallel: both stubs are there but in parallel at one point
+	// (parallelStubs), one stub of their combined admittance.
+	parallel bool
 }
 
-// singleText describes the single stub a start ended as.
+// newBandStart classifies the sections one start of a double stub reached.
+func newBandStart(pick Pick, secs []Section, worst float64) bandStart {
+	b := bandStart{pick: pick, secs: secs, worst: worst}
+	b.single, b.gone, _ = singleStubOf(secs)
+	b.parallel = b.single == nil && parallelStubs(secs)
+	return b
+}
+
+// double says whether the start kept a double stub: two stubs, apart.
+func (b bandStart) double() bool { return b.single == nil && !b.parallel }
+
+// singleText describes the single stub a start ended as: the stub that is
+// left, or the two in parallel.
 func (b bandStart) singleText() string {
+	if b.parallel {
+		return fmt.Sprintf("the band optimisation shrank the spacing to %.2f°, leaving two %s stubs in parallel at one point (%.1f° of line, stubs %.1f° and %.1f°), a single stub of their combined admittance, with a worst |S11| of %.2f dB in the band",
+			b.secs[2].LengthDeg, b.secs[1].End, b.secs[0].LengthDeg, b.secs[1].LengthDeg, b.secs[3].LengthDeg, 20*math.Log10(b.worst))
+	}
 	return fmt.Sprintf("the band optimisation shrank stub %d to %.2f°, leaving a single %s stub (%.1f° of line, stub %.1f°) with a worst |S11| of %.2f dB in the band",
 		b.gone, b.secs[2*b.gone-1].LengthDeg, b.single[1].End, b.single[0].LengthDeg, b.single[1].LengthDeg, 20*math.Log10(b.worst))
 }
@@ -189,8 +222,11 @@ func bandDoubleStub(d Design, m MatchSpec, c Candidate, zl complex128, load Load
 // Design.matchSections does). The band optimisation keeps lengths
 // positive, so it can shrink an open stub to 0° but not carry it on to
 // 180°, and from one of the two starts it often does: what is left is a
-// single stub, which is no double stub. SolveBand lists the start
-// pickDoubleStub keeps; Simulate builds the board from its solution.
+// single stub, which is no double stub. It can shrink the spacing to 0°
+// too, leaving the two stubs in parallel at one point, which is one stub
+// of their combined admittance and no double stub either. SolveBand lists
+// the start pickDoubleStub keeps; Simulate builds the board from its
+// solution.
 //
 // The load-side feed (opt.FeedDeg) is part of the first line but cannot
 // get shorter, so the optimisation sees the load through it and moves
@@ -215,9 +251,7 @@ func doubleStubStarts(d Design, m MatchSpec, c Candidate, zl complex128, load Lo
 			return nil, err
 		}
 		secs[0].LengthDeg += opt.FeedDeg
-		b := bandStart{pick: p, secs: secs, worst: worst}
-		b.single, b.gone, _ = singleStubOf(secs)
-		starts = append(starts, b)
+		starts = append(starts, newBandStart(p, secs, worst))
 	}
 	return starts, nil
 }
@@ -238,19 +272,19 @@ func (l feedLoad) Impedance(f float64) (complex128, error) {
 	return SectionsInput([]Section{{Kind: SeriesLine, Z0: l.z0, LengthDeg: l.deg * f / l.f0}}, z), nil
 }
 
-// pickDoubleStub makes candidate c of the best start that kept both stubs,
-// with note, and says which solution at f0 it started from; when none
-// did, c carries the best single stub in Err and the solution is that
-// single stub's. When a single stub did better than the double stub kept,
-// the note says so.
+// pickDoubleStub makes candidate c of the best start that kept a double
+// stub (two stubs, apart), with note, and says which solution at f0 it
+// started from; when none did, c carries the best single stub (one left,
+// or two in parallel) in Err and the solution is that single stub's. When
+// a single stub did better than the double stub kept, the note says so.
 func pickDoubleStub(c Candidate, starts []bandStart, note string) (BandSolution, Pick) {
 	var double, single *bandStart
 	for i := range starts {
 		b := &starts[i]
 		switch {
-		case b.single == nil && (double == nil || b.worst < double.worst):
+		case b.double() && (double == nil || b.worst < double.worst):
 			double = b
-		case b.single != nil && (single == nil || b.worst < single.worst):
+		case !b.double() && (single == nil || b.worst < single.worst):
 			single = b
 		}
 	}

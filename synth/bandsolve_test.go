@@ -137,14 +137,11 @@ func TestSolveBandDoubleStubHasTwoStubs(t *testing.T) {
 func TestPickDoubleStub(t *testing.T) {
 	line := func(deg float64) Section { return Section{Kind: SeriesLine, Z0: 50, LengthDeg: deg} }
 	open := func(deg float64) Section { return Section{Kind: ShuntStub, End: Open, Z0: 50, LengthDeg: deg} }
-	start := func(worst float64, secs ...Section) bandStart {
-		b := bandStart{secs: secs, worst: worst}
-		b.single, b.gone, _ = singleStubOf(secs)
-		return b
-	}
+	start := func(worst float64, secs ...Section) bandStart { return newBandStart(0, secs, worst) }
 	double := []Section{line(52.6), open(139), line(54.7), open(199.2)}
 	other := []Section{line(57), open(119.9), line(127.7), open(145.7)}
 	single := []Section{line(45), open(135), line(121), open(1e-9)}
+	parallel := []Section{line(56.5), open(149), line(1e-9), open(149)}
 	cases := []struct {
 		name      string
 		starts    []bandStart
@@ -161,6 +158,10 @@ func TestPickDoubleStub(t *testing.T) {
 			"from the other solution at f0 the band optimisation shrank stub 2 to 0.00°, leaving a single open stub (45.0° of line, stub 135.0°) with a worst |S11| of -46.02 dB in the band, better than this double stub", "", 2},
 		{"every start lost a stub", []bandStart{start(0.05, single...), start(0.1, line(40), open(0.2), line(100), open(30))}, nil, 0, "",
 			"no double stub: from each solution at f0 the band optimisation shrank stub 2 to 0.00°, leaving a single open stub (45.0° of line, stub 135.0°) with a worst |S11| of -26.02 dB in the band", 1},
+		{"stubs in parallel that did better are no double stub: the note names them", []bandStart{start(0.005, parallel...), start(0.01, double...)}, double, -40,
+			"from the other solution at f0 the band optimisation shrank the spacing to 0.00°, leaving two open stubs in parallel at one point (56.5° of line, stubs 149.0° and 149.0°), a single stub of their combined admittance, with a worst |S11| of -46.02 dB in the band, better than this double stub", "", 2},
+		{"stubs in parallel or a stub gone: no double stub", []bandStart{start(0.05, single...), start(0.01, parallel...)}, nil, 0, "",
+			"no double stub: from each solution at f0 the band optimisation shrank the spacing to 0.00°, leaving two open stubs in parallel at one point (56.5° of line, stubs 149.0° and 149.0°), a single stub of their combined admittance, with a worst |S11| of -40.00 dB in the band", 2},
 	}
 	for _, c := range cases {
 		for i := range c.starts {
@@ -299,9 +300,7 @@ func TestChooseDoubleStubStart(t *testing.T) {
 	starts := func(worsts []float64, secs ...[]Section) []bandStart {
 		var out []bandStart
 		for i, s := range secs {
-			b := bandStart{pick: Pick(i + 1), secs: s, worst: worsts[i]}
-			b.single, b.gone, _ = singleStubOf(s)
-			out = append(out, b)
+			out = append(out, newBandStart(Pick(i+1), s, worsts[i]))
 		}
 		return out
 	}
@@ -355,6 +354,80 @@ func TestChooseDoubleStubStart(t *testing.T) {
 		}
 		if len(warnings) != 1 || warnings[0] != c.wantWarn || len(notes) != 0 {
 			t.Errorf("%s: warnings %q, notes %q; want the one warning %q and no note", c.name, warnings, notes, c.wantWarn)
+		}
+	}
+}
+
+// Two stubs with (almost) no line between them stand in parallel at one
+// point: one shunt stub of their combined admittance, which a reader does
+// not take for a double stub. Exact: with a 0° line between them the pair
+// reflects what one shunt element of the summed admittance does; a stub
+// that went is named as such first.
+func TestParallelStubs(t *testing.T) {
+	line := func(deg float64) Section { return Section{Kind: SeriesLine, Z0: 50, LengthDeg: deg} }
+	stub := func(end StubEnd, deg float64) Section {
+		return Section{Kind: ShuntStub, End: end, Z0: 50, LengthDeg: deg}
+	}
+	cases := []struct {
+		name          string
+		secs          []Section
+		parallel, dbl bool
+	}{
+		{"spacing 1e-9°", []Section{line(56.5), stub(Open, 149), line(1e-9), stub(Open, 149)}, true, false},
+		{"spacing 0.5° (under 1°)", []Section{line(56.5), stub(Short, 60), line(0.5), stub(Short, 58)}, true, false},
+		{"spacing 1.5° stays a double stub", []Section{line(56.5), stub(Short, 60), line(1.5), stub(Short, 58)}, false, true},
+		{"a stub gone as well: a single stub, not two in parallel", []Section{line(56.5), stub(Open, 149), line(1e-9), stub(Open, 1e-9)}, false, false},
+		{"a double stub", []Section{line(52.6), stub(Open, 139), line(54.7), stub(Open, 199.2)}, false, true},
+	}
+	for _, c := range cases {
+		b := newBandStart(1, c.secs, 0.1)
+		if b.parallel != c.parallel || b.double() != c.dbl {
+			t.Errorf("%s: in parallel %v, double stub %v; want %v, %v", c.name, b.parallel, b.double(), c.parallel, c.dbl)
+		}
+	}
+	// The pair at 0° reflects as the one shunt element of both
+	// admittances: Y = jY0·(tan θ1 + tan θ2) for open stubs (Pozar,
+	// Microwave Engineering, 4th ed., eq. 2.44), here folded into one open
+	// stub of that susceptance at f0 only, where it is exact.
+	secs := []Section{line(56.5), stub(Open, 149), line(0), stub(Open, 140)}
+	one := []Section{line(56.5), stub(Open, 180+math.Atan(math.Tan(149*math.Pi/180)+math.Tan(140*math.Pi/180))*180/math.Pi)}
+	zl := complex(150, -30)
+	if a, b := cascadeWorstDB(secs, zl, 50, 2.44e9, []float64{2.44e9}), cascadeWorstDB(one, zl, 50, 2.44e9, []float64{2.44e9}); math.Abs(a-b) > 1e-9 {
+		t.Errorf("two open stubs at one point reflect %.9f dB, the one stub of their admittance %.9f dB", a, b)
+	}
+}
+
+// solve --band lists no stubs in parallel as a double stub: from solution
+// 1 at f0 the band optimisation of 150+j100 Ω, short, 2.4–2.4835 GHz
+// shrank the spacing to under 0.001° (−23.7 dB), and that was listed as
+// the double stub; now the double stub from solution 2 is listed (−14.6
+// dB) with a note naming the stubs in parallel. 150−j30 Ω, open, keeps
+// its double stub (solution 1, −51.9 dB), and its stubs in parallel
+// (−22.5 dB) are worse and not named.
+func TestSolveBandParallelStubsAreNoDoubleStub(t *testing.T) {
+	cases := []struct {
+		zl       complex128
+		end      StubEnd
+		wantNote string // "" for none
+	}{
+		{complex(150, 100), Short, "from the other solution at f0 the band optimisation shrank the spacing to 0.00°, leaving two short stubs in parallel at one point"},
+		{complex(150, -30), Open, ""},
+	}
+	for _, c := range cases {
+		res, err := SolveBand(ConstantLoad(c.zl), 50, 2.4e9, 2.4835e9, TopologyDoubleStub, c.end, 0, 0)
+		if err != nil {
+			t.Fatal(err)
+		}
+		s := res.Solutions[0]
+		if s.Err != "" {
+			t.Errorf("%v %s: %s", c.zl, s.Name(), s.Err)
+			continue
+		}
+		if parallelStubs(s.Sections) {
+			t.Errorf("%v %s: stubs %.3g° apart listed as a double stub: %+v", c.zl, s.Name(), s.Sections[2].LengthDeg, s.Sections)
+		}
+		if c.wantNote == "" && s.Note != "" || !strings.Contains(s.Note, c.wantNote) {
+			t.Errorf("%v %s: note %q, want one with %q", c.zl, s.Name(), s.Note, c.wantNote)
 		}
 	}
 }
