@@ -4,6 +4,8 @@ import (
 	"errors"
 	"fmt"
 	"math"
+
+	"stubcraft/physical/units"
 )
 
 // BandSolution is one network of SolveBand: its sections after the band
@@ -42,7 +44,7 @@ func SolveBand(load Load, z0, f1, f2 float64, topology string, end StubEnd, sect
 	out := BandSolve{Start: f1, Stop: f2, F0: f0, BodeFano: BodeFanoOf(load, f1, f2, bandSamples)}
 	zl, err := load.Impedance(f0)
 	if err != nil {
-		return BandSolve{}, err
+		return BandSolve{}, fmt.Errorf("the load at the band's centre %s: %w", units.FormatFrequency(f0, 6), err)
 	}
 	m := DefaultMatch(z0)
 	m.Topology, m.Band, m.End = topology, [2]float64{f1, f2}, end
@@ -67,12 +69,6 @@ func SolveBand(load Load, z0, f1, f2 float64, topology string, end StubEnd, sect
 		if c.Pick > 0 {
 			mc.Pick = Pick(c.Pick)
 		}
-		secs, _, err := d.matchSections(mc, c.Topology, c.End, zl, ElectricalOptions{})
-		if err != nil {
-			c.Err = err.Error()
-			out.Solutions = append(out.Solutions, BandSolution{Candidate: c})
-			continue
-		}
 		if c.Topology == TopologyDoubleStub {
 			s, err := bandDoubleStub(d, mc, c, zl, load, fs)
 			if err != nil {
@@ -81,9 +77,15 @@ func SolveBand(load Load, z0, f1, f2 float64, topology string, end StubEnd, sect
 			out.Solutions = append(out.Solutions, s)
 			continue
 		}
+		secs, _, err := d.matchSections(mc, c.Topology, c.End, zl, ElectricalOptions{})
+		if err != nil {
+			c.Err = err.Error()
+			out.Solutions = append(out.Solutions, BandSolution{Candidate: c})
+			continue
+		}
 		secs, worst, err := OptimiseIdeal(secs, load, z0, f0, fs, c.Topology == TopologyQuarterWave, MinLineZ0, MaxLineZ0)
 		if err != nil {
-			return BandSolve{}, err
+			return BandSolve{}, fmt.Errorf("%s: %w", c.Name(), err)
 		}
 		out.Solutions = append(out.Solutions, bandSolution(c, secs, worst, ""))
 	}
@@ -202,53 +204,76 @@ func (b bandStart) singleText() string {
 // bandDoubleStub optimises double stub c from each of its two solutions at
 // f0 and keeps the best one whose two stubs are both there
 // (pickDoubleStub), with a note on the forbidden region when the load lies
-// in it.
+// in it. A double stub that cannot be solved at f0 is a candidate that
+// carries its error; an optimisation that fails is an error.
 func bandDoubleStub(d Design, m MatchSpec, c Candidate, zl complex128, load Load, fs []float64) (BandSolution, error) {
-	var note string
-	var fe *ForbiddenRegionError
-	if _, err := SolveDoubleStub(zl, d.Z0, 0, m.SpacingDeg, c.End); errors.As(err, &fe) {
-		note = fe.Error() + " (done)"
-	}
-	starts, err := doubleStubStarts(d, m, c, zl, load, fs, ElectricalOptions{})
+	sols, note, err := d.doubleStubSolutions(m, c.End, zl, ElectricalOptions{})
 	if err != nil {
-		return BandSolution{}, err
+		c.Err = err.Error()
+		return BandSolution{Candidate: c}, nil
+	}
+	starts, err := doubleStubStarts(d, sols, load, fs, ElectricalOptions{})
+	if err != nil {
+		return BandSolution{}, fmt.Errorf("%s: %w", c.Name(), err)
 	}
 	s, _ := pickDoubleStub(c, starts, note)
 	return s, nil
 }
 
-// doubleStubStarts optimises double stub c on lossless lines across fs
-// from each of its two solutions at f0 (solved with opt, as
-// Design.matchSections does). The band optimisation keeps lengths
-// positive, so it can shrink an open stub to 0° but not carry it on to
-// 180°, and from one of the two starts it often does: what is left is a
-// single stub, which is no double stub. It can shrink the spacing to 0°
-// too, leaving the two stubs in parallel at one point, which is one stub
-// of their combined admittance and no double stub either. SolveBand lists
-// the start pickDoubleStub keeps; Simulate builds the board from its
-// solution.
+// doubleStubSolutions solves double stub m with end at f0 once, as
+// Design.matchSections does: with opt.FeedDeg of line before the first
+// stub or, when the load lies in the forbidden region there, with the line
+// that takes it out, which note then names. Its error names the design's
+// source and wraps SolveDoubleStub's.
+func (d Design) doubleStubSolutions(m MatchSpec, end StubEnd, zl complex128, opt ElectricalOptions) (sols []DoubleStubSolution, note string, err error) {
+	sols, err = SolveDoubleStub(zl, d.Z0, opt.FeedDeg, m.SpacingDeg, end)
+	var fe *ForbiddenRegionError
+	if errors.As(err, &fe) {
+		note = fe.Error() + " (done)"
+		sols, err = SolveDoubleStub(zl, d.Z0, fe.FixLineDeg, m.SpacingDeg, end)
+	}
+	if err != nil {
+		return nil, note, fmt.Errorf("%s: %w", d.Source, err)
+	}
+	return sols, note, nil
+}
+
+// doubleStubPick is solution pick (1 or 2) of sols, or the first for any
+// other pick or when there is only one.
+func doubleStubPick(sols []DoubleStubSolution, pick Pick) DoubleStubSolution {
+	if p := int(pick); p >= 1 && p <= len(sols) {
+		return sols[p-1]
+	}
+	return sols[0]
+}
+
+// doubleStubStarts optimises a double stub on lossless lines across fs
+// from each of its two solutions at f0, sols (doubleStubSolutions with
+// opt). The band optimisation keeps lengths positive, so it can shrink an
+// open stub to 0° but not carry it on to 180°, and from one of the two
+// starts it often does: what is left is a single stub, which is no double
+// stub. It can shrink the spacing to 0° too, leaving the two stubs in
+// parallel at one point, which is one stub of their combined admittance
+// and no double stub either. SolveBand lists the start pickDoubleStub
+// keeps; Simulate builds the board from its solution.
 //
 // The load-side feed (opt.FeedDeg) is part of the first line but cannot
 // get shorter, so the optimisation sees the load through it and moves
 // only the rest of that line.
-func doubleStubStarts(d Design, m MatchSpec, c Candidate, zl complex128, load Load, fs []float64, opt ElectricalOptions) ([]bandStart, error) {
+func doubleStubStarts(d Design, sols []DoubleStubSolution, load Load, fs []float64, opt ElectricalOptions) ([]bandStart, error) {
 	var starts []bandStart
 	seen := load
 	if opt.FeedDeg > 0 {
 		seen = feedLoad{load: load, z0: d.Z0, deg: opt.FeedDeg, f0: d.Freq}
 	}
 	for _, p := range []Pick{1, 2} {
-		m.Pick = p
-		secs, _, err := d.matchSections(m, c.Topology, c.End, zl, opt)
-		if err != nil {
-			return nil, err
-		}
+		secs := doubleStubPick(sols, p).Sections()
 		// The rest of the first line starts a hair above 0°: OptimiseIdeal
 		// keeps every length positive.
 		secs[0].LengthDeg = math.Max(secs[0].LengthDeg-opt.FeedDeg, 1e-3)
 		secs, worst, err := OptimiseIdeal(secs, seen, d.Z0, d.Freq, fs, false, MinLineZ0, MaxLineZ0)
 		if err != nil {
-			return nil, err
+			return nil, fmt.Errorf("from solution %d at f0: %w", p, err)
 		}
 		secs[0].LengthDeg += opt.FeedDeg
 		starts = append(starts, newBandStart(p, secs, worst))
@@ -315,7 +340,11 @@ const idealBandSamples = 41
 func bandDoubleStubStart(d Design, m MatchSpec, c Candidate, zl complex128, load Load, opt ElectricalOptions) (pick Pick, secs []Section, notes, warnings []string, err error) {
 	fs := BandSamples(m.Band[0], m.Band[1], idealBandSamples)
 	starts := func(o ElectricalOptions) ([]bandStart, error) {
-		return doubleStubStarts(d, m, c, zl, load, fs, o)
+		sols, _, err := d.doubleStubSolutions(m, c.End, zl, o)
+		if err != nil {
+			return nil, err
+		}
+		return doubleStubStarts(d, sols, load, fs, o)
 	}
 	return chooseDoubleStubStart(c, opt, len(fs), starts)
 }
@@ -327,7 +356,7 @@ func bandDoubleStubStart(d Design, m MatchSpec, c Candidate, zl complex128, load
 func chooseDoubleStubStart(c Candidate, opt ElectricalOptions, nFreqs int, starts func(ElectricalOptions) ([]bandStart, error)) (pick Pick, secs []Section, notes, warnings []string, err error) {
 	bs, err := starts(ElectricalOptions{})
 	if err != nil {
-		return 0, nil, nil, nil, err
+		return 0, nil, nil, nil, fmt.Errorf("%s: %w", c.Name(), err)
 	}
 	s, p := pickDoubleStub(c, bs, "")
 	what := "as solve --band lists it"
@@ -335,7 +364,7 @@ func chooseDoubleStubStart(c Candidate, opt ElectricalOptions, nFreqs int, start
 		// solve --band's double stub has no room for the feed, or none:
 		// optimise again with the feed kept.
 		if bs, err = starts(opt); err != nil {
-			return 0, nil, nil, nil, err
+			return 0, nil, nil, nil, fmt.Errorf("%s, with the load-side feed kept: %w", c.Name(), err)
 		}
 		s, p = pickDoubleStub(c, bs, "")
 		what = fmt.Sprintf("with the load-side feed (%.2f°) kept in its first line", opt.FeedDeg)

@@ -2,6 +2,7 @@ package synth
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"math"
 	"strings"
@@ -428,6 +429,52 @@ func TestSolveBandParallelStubsAreNoDoubleStub(t *testing.T) {
 		}
 		if c.wantNote == "" && s.Note != "" || !strings.Contains(s.Note, c.wantNote) {
 			t.Errorf("%v %s: note %q, want one with %q", c.zl, s.Name(), s.Note, c.wantNote)
+		}
+	}
+}
+
+// failingLoad is a load whose impedance cannot be had.
+type failingLoad struct{ err error }
+
+func (l failingLoad) Impedance(float64) (complex128, error) { return 0, l.err }
+
+// The band solve's errors wrap what went wrong (errors.Is finds it) and
+// say where: the load at the band's centre, the double stub at f0 (the
+// design's source, the sentinel of SolveDoubleStub), the starts of
+// build's choice (the candidate, and whether the feed was kept).
+func TestBandSolveErrorsWrap(t *testing.T) {
+	errLoad := errors.New("no data")
+	d := Design{Name: "solve", Freq: 2.44e9, Z0: 50, Source: "solve"}
+	m := DefaultMatch(50)
+	c := Candidate{Topology: TopologyDoubleStub, End: Open}
+	_, _, errMatched := d.doubleStubSolutions(m, Open, complex(50, 0), ElectricalOptions{})
+	_, _, errReactive := d.doubleStubSolutions(m, Open, complex(0, 30), ElectricalOptions{})
+	_, errSolve := SolveBand(failingLoad{errLoad}, 50, 2.4e9, 2.4835e9, TopologyDoubleStub, Open, 0, 0)
+	fails := func(fail ElectricalOptions) func(ElectricalOptions) ([]bandStart, error) {
+		return func(o ElectricalOptions) ([]bandStart, error) {
+			if o == fail {
+				return nil, errLoad
+			}
+			return []bandStart{newBandStart(1, []Section{{Kind: SeriesLine, Z0: 50, LengthDeg: 10}, {Kind: ShuntStub, End: Open, Z0: 50, LengthDeg: 40}, {Kind: SeriesLine, Z0: 50, LengthDeg: 50}, {Kind: ShuntStub, End: Open, Z0: 50, LengthDeg: 60}}, 0.01)}, nil
+		}
+	}
+	_, _, _, _, errBare := chooseDoubleStubStart(c, ElectricalOptions{FeedDeg: 26.73}, 41, fails(ElectricalOptions{}))
+	_, _, _, _, errFed := chooseDoubleStubStart(c, ElectricalOptions{FeedDeg: 26.73}, 41, fails(ElectricalOptions{FeedDeg: 26.73}))
+	cases := []struct {
+		name   string
+		err    error
+		target error
+		want   string // the message
+	}{
+		{"matched load at f0", errMatched, ErrMatched, "solve: load 50+j0 ohm on 50 ohm: the load is already matched (|Γ| = 0), no stub is needed"},
+		{"purely reactive load at f0", errReactive, ErrUnmatchable, "solve: load 0+j30 ohm: the load cannot be matched by a single shunt stub: it is purely reactive (|Γ| = 1)"},
+		{"the load at the band's centre", errSolve, errLoad, "the load at the band's centre 2.44175 GHz: no data"},
+		{"build's starts without the feed", errBare, errLoad, "double-stub (open): no data"},
+		{"build's starts with the feed kept", errFed, errLoad, "double-stub (open), with the load-side feed kept: no data"},
+	}
+	for _, c := range cases {
+		if !errors.Is(c.err, c.target) || c.err.Error() != c.want {
+			t.Errorf("%s: %v; want %q wrapping %v", c.name, c.err, c.want, c.target)
 		}
 	}
 }

@@ -2,7 +2,6 @@ package synth
 
 import (
 	"cmp"
-	"errors"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -387,21 +386,14 @@ func (d Design) matchSections(m MatchSpec, topology string, end StubEnd, zl comp
 			{Kind: ShuntStub, End: s.End, Z0: s.StubZ0, LengthDeg: s.StubDeg},
 		}, notes, nil
 	case TopologyDoubleStub:
-		line := opt.FeedDeg
-		sols, err := SolveDoubleStub(zl, d.Z0, line, m.SpacingDeg, end)
-		var fe *ForbiddenRegionError
-		if errors.As(err, &fe) {
-			notes = append(notes, fe.Error()+" (done)")
-			line = fe.FixLineDeg
-			sols, err = SolveDoubleStub(zl, d.Z0, line, m.SpacingDeg, end)
+		sols, note, err := d.doubleStubSolutions(m, end, zl, opt)
+		if note != "" {
+			notes = append(notes, note)
 		}
 		if err != nil {
-			return nil, nil, fmt.Errorf("%s: %w", d.Source, err)
+			return nil, nil, err
 		}
-		s := sols[0]
-		if p := int(m.Pick); p >= 1 && p <= len(sols) {
-			s = sols[p-1]
-		}
+		s := doubleStubPick(sols, m.Pick)
 		notes = append(notes, fmt.Sprintf("double-stub match: %.2f° of %g ohm line, %s stub %.2f°, %.2f° spacing, %s stub %.2f° (of %d solutions)",
 			s.LineDeg, d.Z0, end, s.Stub1Deg, s.SpacingDeg, end, s.Stub2Deg, len(sols)))
 		return s.Sections(), notes, nil
