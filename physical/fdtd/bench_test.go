@@ -56,3 +56,35 @@ func benchSteps(b *testing.B, m *sim, g *Grid) {
 	}
 	b.ReportMetric(float64(g.Cells()), "cells")
 }
+
+// BenchmarkConformalMask times whole time steps of a masked line of 35 µm
+// copper on a 0.2 mm board (the thin board of the examples, normal mesh):
+// "conformal" with the mask following the copper (the fixes after each E
+// update), "layered" the same grid and coefficients with the fixes left
+// out, in one run, so that their ratio is the fixes' cost.
+func BenchmarkConformalMask(b *testing.B) {
+	s := straight(4.1, 0.2e-3, 0.38e-3, 40e-3, []float64{2e9, 3e9})
+	s.CopperThickness, s.Mask = 35e-6, Mask{Thickness: 20e-6, Er: 3.5}
+	g, err := NewGrid(s, Normal.Params())
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, c := range []struct {
+		name      string
+		conformal bool
+	}{{"conformal", true}, {"layered", false}} {
+		b.Run(c.name, func(b *testing.B) {
+			m := newSim(g, s, 0)
+			defer m.close()
+			n := len(m.fixes[0]) + len(m.fixes[1]) + len(m.fixes[2])
+			if n == 0 {
+				b.Fatal("no conformal fixes on a masked thick-copper line")
+			}
+			if !c.conformal {
+				m.fixes = [3]fixList{}
+			}
+			benchSteps(b, m, g)
+			b.ReportMetric(float64(n), "fixes")
+		})
+	}
+}

@@ -61,7 +61,7 @@ func TestThickCopperAgainstFieldSolver(t *testing.T) {
 // TestThinCopperChangesNothing checks that copper thinner than the
 // substrate's z cell (35 µm on 1.6 mm, not drawn) leaves the mesh, the
 // conductor marks and the fields of a run bitwise as copper of zero
-// thickness, and that thick copper under a mask is not drawn.
+// thickness, and that thick copper under a mask is drawn.
 func TestThinCopperChangesNothing(t *testing.T) {
 	bare := straight(4.35, 1.6e-3, 3e-3, 3.2e-3, []float64{5e9, 10e9, 15e9})
 	o := Options{DecayDB: 10}.withDefaults()
@@ -71,13 +71,14 @@ func TestThinCopperChangesNothing(t *testing.T) {
 	if grids[1].KT != grids[1].KH {
 		t.Fatalf("35 µm copper on 1.6 mm drawn (top face index %d, plane %d): want a sheet", grids[1].KT, grids[1].KH)
 	}
-	// Under a mask thick copper stays a sheet (see newGrid).
+	// Under a mask thick copper is drawn too, the mask following it
+	// (conformalFixes).
 	masked := straight(4.35, 0.2e-3, 0.38e-3, 0.4e-3, []float64{2.5e9, 5e9, 7.5e9})
 	masked.CopperThickness, masked.Mask = 35e-6, Mask{Thickness: 20e-6, Er: 3.5}
 	if g, err := NewGrid(masked, o.Mesh); err != nil {
 		t.Fatal(err)
-	} else if g.KT != g.KH {
-		t.Fatalf("35 µm copper on 0.2 mm under a mask drawn (top face index %d, plane %d): want a sheet", g.KT, g.KH)
+	} else if g.KT != g.KH+1 {
+		t.Fatalf("35 µm copper on 0.2 mm under a mask: top face index %d, plane %d: want it drawn", g.KT, g.KH)
 	}
 	for _, c := range []struct {
 		name string
@@ -91,4 +92,44 @@ func TestThinCopperChangesNothing(t *testing.T) {
 		t.Fatal("the conductor marks differ with thin copper")
 	}
 	sameSpectra(t, recs, "with thin copper")
+}
+
+// TestConformalMaskAgainstFieldSolver checks the solder mask that follows
+// thick copper on a uniform line: 35 µm copper on a 0.2 mm board of εr 4.1
+// (W/h 1.9) under 20 µm of εr 3.5, coarse mesh, against the 2-D field
+// solver (physical/fieldsolve, an independent electrostatic computation of
+// the cross-section with the 35 µm strip and the mask over the top face,
+// down the walls and on the substrate). The criterion is that of
+// TestThickCopperAgainstFieldSolver: the copper drawn under the conformal
+// mask must lie off the field solver by at most half what the sheet under
+// the layered mask is off, in εeff and in Z0.
+func TestConformalMaskAgainstFieldSolver(t *testing.T) {
+	const er, h, wh, tc, mt, mer = 4.1, 0.2e-3, 1.9, 35e-6, 20e-6, 3.5
+	w := wh * h
+	f := 1e9 * 1e-3 / h
+	cs := fieldsolve.CrossSection{Geometry: fieldsolve.Microstrip, Width: w, Height: h, Er: er, Thickness: tc, MaskThickness: mt, MaskEr: mer}
+	m, err := fieldsolve.NewLineModelOptions(cs, physical.Substrate{Er: er, Height: h}, nil, fieldsolve.Options{Tolerance: 0.001})
+	if err != nil {
+		t.Fatal(err)
+	}
+	zFS, _ := m.Static()
+	eeFS := m.At(f).EpsEff
+	var ee, z [2]float64
+	for i, th := range []float64{0, tc} {
+		s := straight(er, h, w, 2*h, []float64{0.5 * f, f, 1.5 * f})
+		s.CopperThickness, s.Mask = th, Mask{Thickness: mt, Er: mer}
+		z[i], ee[i] = measureLine(t, s, Coarse.Params())
+	}
+	t.Logf("field solver (35 µm, conformal mask): εeff %.4f, Z0 %.2f Ω; sheet: εeff %.4f (%+.2f %%), Z0 %.2f Ω (%+.2f %%); drawn: εeff %.4f (%+.2f %%), Z0 %.2f Ω (%+.2f %%)",
+		eeFS, zFS, ee[0], 100*(ee[0]/eeFS-1), z[0], 100*(z[0]/zFS-1), ee[1], 100*(ee[1]/eeFS-1), z[1], 100*(z[1]/zFS-1))
+	for _, c := range []struct {
+		name         string
+		sheet, thick float64
+		ref          float64
+	}{{"εeff", ee[0], ee[1], eeFS}, {"Z0", z[0], z[1], zFS}} {
+		es, et := math.Abs(c.sheet/c.ref-1), math.Abs(c.thick/c.ref-1)
+		if et > es/2 {
+			t.Errorf("%s: drawn copper under the conformal mask %.2f %% off the field solver, the sheet %.2f %%: want at most half", c.name, 100*et, 100*es)
+		}
+	}
 }

@@ -2,15 +2,16 @@
 // for microstrip circuits: a substrate of relative permittivity εr and loss
 // tangent tanδ on a perfectly conducting ground plane, perfectly
 // conducting copper on its top face (a zero-thickness sheet, or with its
-// thickness where that is no less than the substrate's z cell and there
-// is no solder mask: a z line
+// thickness where that is no less than the substrate's z cell: a z line
 // at h + t, tangential E zero on both faces inside the copper and vertical
 // E between them, so the time step is that of the sheet; checked against
 // the 2-D field solver physical/fieldsolve), optionally a solder mask
 // (a dielectric layer of its own εr, tanδ and thickness over the whole top
-// face), perfectly conducting via columns, and a microstrip port at each of
-// the board's two x edges. It returns the two-port scattering parameters
-// referenced at the board edges.
+// face; over copper drawn thick it follows the copper, on the substrate,
+// over the top face and down the walls), perfectly conducting via
+// columns, and a microstrip port at each of the board's two x edges. It
+// returns the two-port scattering parameters referenced at the board
+// edges.
 //
 // Methods, each from its paper:
 //   - the staggered-grid scheme of K. S. Yee, "Numerical solution of initial
@@ -33,7 +34,13 @@
 //     accuracy by subpixel smoothing in the finite-difference time
 //     domain", Optics Letters 31(20), 2006, from memory); the time step
 //     stays that of the mesh without a mask, and a zero-thickness mask
-//     leaves every field bitwise as without one. Checked against the 2-D
+//     leaves every field bitwise as without one. Over copper drawn thick
+//     the mask varies in x and y too, in the few z cells round the
+//     copper: the E components whose cell it or the band beside a copper
+//     wall cuts get the same average over their cell in three dimensions
+//     (series along the component, parallel across it; the copper left
+//     out), applied after the z-layered update as a correction, so that
+//     the kernel's loops stay as they are. Checked against the 2-D
 //     field solver physical/fieldsolve on the same cross-section;
 //   - the time-step bound of the non-uniform Yee grid,
 //     Δt ≤ 1/(c·√(Δx⁻²+Δy⁻²+Δz⁻²)) with the smallest spacings (Taflove and

@@ -214,14 +214,9 @@ func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, erro
 	// from h to h + t, and the air grading starts from it: the smallest
 	// z spacing, and with it the time step, stays that of the sheet.
 	// Thinner copper would shorten the step in proportion and stays a
-	// sheet at h. Under a solder mask it stays a sheet too: the mask is
-	// layered in z and cannot follow the copper's walls, and a uniform
-	// line of 35 µm copper on 0.2 mm under 20 µm of mask (coarse) came
-	// out 1.8–1.9 % low in εeff against the field solver with the copper
-	// drawn (the mask on the plane or over the top face) and 3.2 % high
-	// with the mask filling the copper's layer, against 1.5 % high as a
-	// sheet (DEVELOPERS.md).
-	if t := s.CopperThickness; t > 0 && t >= dz*(1-1e-9) && s.Mask.Thickness == 0 {
+	// sheet at h. A solder mask over thick copper follows it (on the
+	// substrate, over the top face and down the walls: conformalFixes).
+	if t := s.CopperThickness; t > 0 && t >= dz*(1-1e-9) {
 		z = append(z, h+t)
 		g.KT = nsub + 1
 		first = t

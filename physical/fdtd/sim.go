@@ -32,6 +32,7 @@ type sim struct {
 	caT, cbT, caZ, cbZ           []float32 // E coefficients by z index: tangential (Ex, Ey) and Ez
 	dtmu                         float32
 	pecX, pecY, pecZ             []int32
+	fixes                        [3]fixList // Ex, Ey, Ez whose coefficients differ from their z layer's (conformal mask)
 	pml                          [3]pmlAxis
 	xRow, yRow, zRow             []pmlRow // CPML coefficients by x, y and z index (p < 0 outside the layers)
 	zLo                          int      // the first z index of the top layer
@@ -211,6 +212,7 @@ func newSim(g *Grid, s Structure, workers int) *sim {
 		slices.Sort(*l)
 		*l = slices.Compact(*l)
 	}
+	m.fixes = conformalFixes(g, s, m.caT, m.cbT, m.caZ, m.cbZ, [3][]int32{m.pecX, m.pecY, m.pecZ}, coef)
 	return m
 }
 
@@ -499,7 +501,10 @@ func (m *sim) updateH(ia, ib int) {
 }
 
 // updateE advances E by one step over x slabs [ia, ib), the CPML included
-// as in updateH, then zeroes the slabs' copper and via components.
+// as in updateH, then turns the layer's update into their own for the
+// components a conformal mask gives other coefficients (m.fixes; their
+// values before the update are kept first) and zeroes the slabs' copper
+// and via components.
 func (m *sim) updateE(ia, ib int) {
 	ny, nz := m.ny, m.nz
 	sx := ny * nz
@@ -508,6 +513,14 @@ func (m *sim) updateE(ia, ib int) {
 	px, py, pz := &m.pml[0], &m.pml[1], &m.pml[2]
 	npy, npz := len(py.idx), len(pz.idx)
 	kz0, kz1 := max(m.zLo, 1), min(m.zLo+npz, nz-1) // the top layer's rows
+	var fixes [3]fixList
+	if m.fixes[0] != nil || m.fixes[1] != nil || m.fixes[2] != nil {
+		lo, hi := int32(ia*sx), int32(min(ib, m.nx)*sx)
+		for c, f := range [3][]float32{m.ex, m.ey, m.ez} {
+			fixes[c] = m.fixes[c].span(lo, hi)
+			fixes[c].save(f)
+		}
+	}
 	for i := ia; i < ib && i < m.nx-1; i++ {
 		ix := m.ixe[i]
 		xr := m.xRow[i]
@@ -621,6 +634,9 @@ func (m *sim) updateE(ia, ib int) {
 				}
 			}
 		}
+	}
+	for c, f := range [3][]float32{m.ex, m.ey, m.ez} {
+		fixes[c].apply(f)
 	}
 	m.zeroPEC(ia, ib)
 }

@@ -56,7 +56,9 @@ type Port struct {
 
 // Mask is a solder mask: a dielectric layer Thickness thick (m) over the
 // whole top face, copper and bare substrate alike, running on into the
-// absorbing layers like the substrate. The zero value is no mask.
+// absorbing layers like the substrate. Over copper drawn with its
+// thickness it is conformal: Thickness on the substrate, on the copper's
+// top face and beside its walls. The zero value is no mask.
 type Mask struct {
 	Thickness float64 // m; 0 for none
 	Er        float64 // relative permittivity
@@ -77,8 +79,9 @@ type Structure struct {
 	// CopperThickness is the copper's thickness, m (0: zero-thickness
 	// copper). The grid draws it, as a z line at H + CopperThickness,
 	// only where that costs no time step: when it is no thinner than the
-	// substrate's z cell, and only without a solder mask (see NewGrid);
-	// elsewhere the copper stays a sheet at H.
+	// substrate's z cell (see NewGrid); elsewhere the copper stays a
+	// sheet at H. A solder mask over copper drawn thick follows it: on
+	// the substrate beside it, over its top face and down its walls.
 	CopperThickness float64
 	Copper          []Polygon
 	Vias            []Via

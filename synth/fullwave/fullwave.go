@@ -6,10 +6,11 @@
 // What the full-wave model leaves out, and says so in Report.Notes: the
 // copper's conductivity (it is a perfect conductor; its thickness, the
 // stackup's, is drawn where the mesh's substrate cells are no taller, as
-// on thin boards, and there is no solder mask over the RF copper;
-// elsewhere it is a zero-thickness sheet), the solder mask's openings (a mask over the RF copper is one
-// layer over the whole top face, port pads included, as the circuit
-// model's masked lines are), and the board's outline (the substrate and
+// on thin boards, a solder mask then following it over its top and down
+// its walls; elsewhere it is a zero-thickness sheet), the solder mask's
+// openings (a mask over the RF copper is one layer over the whole top
+// face, port pads included, as the circuit model's masked lines are), and
+// the board's outline (the substrate and
 // the ground plane run on into the absorbing layers on every side).
 package fullwave
 
@@ -263,6 +264,9 @@ func compare(res *synth.Result, s [][2][2]complex128, drawn float64) (*Report, e
 	mask := "no solder mask over the RF copper"
 	if m := maskOf(res); m.Thickness > 0 {
 		mask = fmt.Sprintf("the %.3g µm solder mask (εr %.3g) over the whole top face, its openings at the port pads left out", m.Thickness*1e6, m.Er)
+		if drawn > 0 {
+			mask = fmt.Sprintf("the %.3g µm solder mask (εr %.3g) over the whole top face following the copper (on the substrate, over the copper and down its walls), its openings at the port pads left out", m.Thickness*1e6, m.Er)
+		}
 	}
 	copper := "perfect zero-thickness copper"
 	if drawn > 0 {
