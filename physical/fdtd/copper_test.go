@@ -133,3 +133,73 @@ func TestConformalMaskAgainstFieldSolver(t *testing.T) {
 		}
 	}
 }
+
+// TestConformalAverage checks the cell average of the conformal mask
+// against exact results: far from copper it must be zMaterials' layered
+// average (the same rule, so to rounding), and in a cell that the wall
+// band's vertical face cuts in half, between the mask's faces, the
+// components parallel to the face must see the arithmetic mean and the
+// one across it the harmonic mean (Farjadpour et al. 2006; exact for a
+// field uniform across the cell).
+func TestConformalAverage(t *testing.T) {
+	s := straight(4.1, 0.2e-3, 0.38e-3, 0.4e-3, []float64{2e9, 3e9})
+	s.CopperThickness, s.Mask = 35e-6, Mask{Thickness: 20e-6, Er: 3.5}
+	g, err := NewGrid(s, Normal.Params())
+	if err != nil {
+		t.Fatal(err)
+	}
+	h := g.Z[g.KH]
+	l := conformalLayers{h: h, t: g.Z[g.KT] - h, m: s.Mask.Thickness, sub: complex(s.Er, 0), msk: complex(s.Mask.Er, 0)}
+	erT, _, erZ, _ := zMaterials(g, s)
+	far := [][]int{{colFar}}
+	for k := g.KH; k < g.KT+3; k++ {
+		lo, hi := dualSpan(g.Z, k)
+		et, _ := l.average(far, 0, lo, hi)
+		ez, _ := l.average(far, 2, g.Z[k], g.Z[k+1])
+		if math.Abs(real(et)-erT[k]) > 1e-12 || math.Abs(real(ez)-erZ[k]) > 1e-12 {
+			t.Errorf("z index %d far from copper: tangential %.15g, normal %.15g; zMaterials %.15g, %.15g", k, real(et), real(ez), erT[k], erZ[k])
+		}
+	}
+	// A cell from h+m to h+t (mask in the band, air beyond it), the band's
+	// face across y at the middle.
+	n := conformalSamples
+	split := make([][]int, n) // [x][y]
+	for a := range split {
+		split[a] = make([]int, n)
+		for b := range split[a] {
+			split[a][b] = colFar
+			if b < n/2 {
+				split[a][b] = colNear
+			}
+		}
+	}
+	lo, hi := h+l.m, h+l.t
+	arith, harm := (3.5+1)/2, 2/(1/3.5+1)
+	for _, c := range []struct {
+		name  string
+		kinds [][]int
+		axis  int
+		want  float64
+	}{
+		{"Ex along the face", split, 0, arith},
+		{"Ey across the face", transpose(split), 1, harm},
+		{"Ez along the face", split, 2, arith},
+	} {
+		e, ok := l.average(c.kinds, c.axis, lo, hi)
+		if !ok || math.Abs(real(e)-c.want) > 1e-12 {
+			t.Errorf("%s: εr %.15g, want %.15g", c.name, real(e), c.want)
+		}
+	}
+}
+
+// transpose returns k with its two indices swapped.
+func transpose(k [][]int) [][]int {
+	out := make([][]int, len(k[0]))
+	for b := range out {
+		out[b] = make([]int, len(k))
+		for a := range k {
+			out[b][a] = k[a][b]
+		}
+	}
+	return out
+}
