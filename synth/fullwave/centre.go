@@ -367,8 +367,6 @@ func FitMap(ctx context.Context, res *synth.Result, rep *Report) (*Fit, error) {
 	if err != nil {
 		return nil, fmt.Errorf("fitting the mapping: %w", err)
 	}
-	z0 := complex(res.Design.Z0, 0)
-	gl := (res.LoadF0 - z0) / (res.LoadF0 + z0)
-	m.Residual = rep.MatchedF0 - terminate(s[0], gl)
+	m.Residual = rep.MatchedF0 - terminate(s[0], loadGamma(res.LoadF0, res.Design.Z0))
 	return &Fit{Mapping: m, RMSBefore: math.Sqrt(fx0), RMSAfter: math.Sqrt(fx)}, nil
 }

@@ -256,11 +256,11 @@ func compare(res *synth.Result, s [][2][2]complex128, drawn float64) (*Report, e
 		return nil, fmt.Errorf("fullwave: %d S-matrices for %d sweep frequencies", len(s), len(freqs))
 	}
 	z0 := res.Design.Z0
-	circuit, circuitF0, err := drawnCircuit(res, freqs)
+	dc, err := drawnCircuit(res, freqs)
 	if err != nil {
 		return nil, err
 	}
-	rep := &Report{Freqs: freqs, Network: s, Circuit: circuit, Zref: z0}
+	rep := &Report{Freqs: freqs, Network: s, Circuit: dc.network, CircuitMatched: dc.matched, Zref: z0}
 	mask := "no solder mask over the RF copper"
 	if m := maskOf(res); m.Thickness > 0 {
 		mask = fmt.Sprintf("the %.3g µm solder mask (εr %.3g) over the whole top face, its openings at the port pads left out", m.Thickness*1e6, m.Er)
@@ -276,18 +276,12 @@ func compare(res *synth.Result, s [][2][2]complex128, drawn float64) (*Report, e
 	if share, ok := ThicknessShare(res); ok && drawn == 0 {
 		rep.Notes = append(rep.Notes, fmt.Sprintf("the full-wave copper has zero thickness: with the stackup's %.1f µm copper the lines are %.2f %% electrically shorter (Hammerstad-Jensen thickness correction, weighted by electrical length), so the drawn board's best match lies about %.2f %% above the full-wave's on that account", res.Physical.Board.Sub.CopperThickness*1e6, 100*share, 100*share))
 	}
-	if trim := res.Design.Layout.Trim; trim > 0 {
-		rep.Notes = append(rep.Notes, fmt.Sprintf("the open stubs are drawn %.2f mm beyond their design length for trimming at the bench: the full-wave solves the copper as drawn, and the circuit figures here are the circuit model's of the same copper, so both best matches lie below f0 until the stubs are trimmed", trim*1e3))
+	if dc.note != "" {
+		rep.Notes = append(rep.Notes, dc.note)
 	}
 	for k := range freqs {
-		sc, zl := circuit[k], sw.ZLoad[k]
-		gl := (zl - complex(z0, 0)) / (zl + complex(z0, 0))
-		rep.Matched = append(rep.Matched, terminate(s[k], gl))
-		cm := sw.S11[k]
-		if res.Design.Layout.Trim > 0 {
-			cm = terminate(sc, gl)
-		}
-		rep.CircuitMatched = append(rep.CircuitMatched, cm)
+		sc := dc.network[k]
+		rep.Matched = append(rep.Matched, terminate(s[k], loadGamma(sw.ZLoad[k], z0)))
 		for i := 0; i < 2; i++ {
 			for j := 0; j < 2; j++ {
 				rep.MaxSDifference = math.Max(rep.MaxSDifference, cmplx.Abs(s[k][i][j]-sc[i][j]))
@@ -301,7 +295,7 @@ func compare(res *synth.Result, s [][2][2]complex128, drawn float64) (*Report, e
 	t := (f0 - freqs[ik-1]) / (freqs[ik] - freqs[ik-1])
 	rep.MatchedF0 = rep.Matched[ik-1] + complex(t, 0)*(rep.Matched[ik]-rep.Matched[ik-1])
 	rep.S11DBF0 = physical.MagDB(rep.MatchedF0)
-	rep.CircuitS11DBF0 = physical.MagDB(circuitF0)
+	rep.CircuitS11DBF0 = physical.MagDB(dc.s11F0)
 	rep.BestMatchHz = bestMatch(freqs, rep.Matched)
 	rep.CircuitBestMatchHz = bestMatch(freqs, rep.CircuitMatched)
 	return rep, nil
@@ -342,14 +336,22 @@ func ThicknessShare(res *synth.Result) (float64, bool) {
 	return sum / weight, true
 }
 
-// drawnCircuit returns the circuit model's network of res's copper as
-// drawn, at freqs, and its S11 with the load at f0: the build's own sweep
-// and S11 at f0, except that open stubs drawn with a trim allowance
-// ([layout] trim) carry it, as the full-wave's copper does.
-func drawnCircuit(res *synth.Result, freqs []float64) ([][2][2]complex128, complex128, error) {
+// drawnModel is the circuit model of a build's copper as drawn.
+type drawnModel struct {
+	network [][2][2]complex128 // the two-port at the sweep frequencies
+	matched []complex128       // its S11 with the load, at the same frequencies
+	s11F0   complex128         // its S11 with the load at f0
+	note    string             // how the copper differs from the build's model; "" when it does not
+}
+
+// drawnCircuit returns the circuit model of res's copper as drawn, at
+// freqs: the build's own sweep and S11 at f0, except that open stubs drawn
+// with a trim allowance ([layout] trim) carry it, as the full-wave's
+// copper does, which its note says.
+func drawnCircuit(res *synth.Result, freqs []float64) (drawnModel, error) {
 	trim := res.Design.Layout.Trim
 	if !(trim > 0) {
-		return res.Sweep.Network, res.S11F0, nil
+		return drawnModel{network: res.Sweep.Network, matched: append([]complex128(nil), res.Sweep.S11...), s11F0: res.S11F0}, nil
 	}
 	extra := make([]float64, len(res.Physical.Elements))
 	for i, e := range res.Physical.Elements {
@@ -359,11 +361,20 @@ func drawnCircuit(res *synth.Result, freqs []float64) ([][2][2]complex128, compl
 	}
 	net, err := res.ModelNetwork(extra, append(append([]float64(nil), freqs...), res.Design.Freq))
 	if err != nil {
-		return nil, 0, fmt.Errorf("fullwave: the circuit model of the drawn copper: %w", err)
+		return drawnModel{}, fmt.Errorf("fullwave: the circuit model of the drawn copper: %w", err)
 	}
-	z0 := complex(res.Design.Z0, 0)
-	gl := (res.LoadF0 - z0) / (res.LoadF0 + z0)
-	return net[:len(freqs)], terminate(net[len(freqs)], gl), nil
+	z0 := res.Design.Z0
+	m := drawnModel{network: net[:len(freqs)], s11F0: terminate(net[len(freqs)], loadGamma(res.LoadF0, z0)),
+		note: fmt.Sprintf("the open stubs are drawn %.2f mm beyond their design length for trimming at the bench: the full-wave solves the copper as drawn, and the circuit figures here are the circuit model's of the same copper, so both best matches lie below f0 until the stubs are trimmed", trim*1e3)}
+	for k, sc := range m.network {
+		m.matched = append(m.matched, terminate(sc, loadGamma(res.Sweep.ZLoad[k], z0)))
+	}
+	return m, nil
+}
+
+// loadGamma is the reflection of load zl against z0.
+func loadGamma(zl complex128, z0 float64) complex128 {
+	return (zl - complex(z0, 0)) / (zl + complex(z0, 0))
 }
 
 // terminate returns the input reflection at port 1 of s with port 2

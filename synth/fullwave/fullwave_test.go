@@ -157,12 +157,44 @@ func TestCompareTrimmedCopper(t *testing.T) {
 	if !(rep.CircuitS11DBF0 > -40) {
 		t.Errorf("circuit |S11| at f0 of the drawn copper %.1f dB: a 1.5 mm longer stub cannot still match at f0", rep.CircuitS11DBF0)
 	}
-	found := false
-	for _, n := range rep.Notes {
-		found = found || strings.Contains(n, "trimming")
+	if n := trimNotes(rep.Notes); n != 1 {
+		t.Errorf("%d notes on the trim allowance among %q, want 1", n, rep.Notes)
 	}
-	if !found {
-		t.Errorf("no note on the trim allowance among %q", rep.Notes)
+}
+
+// trimNotes counts the notes on a trim allowance.
+func trimNotes(notes []string) int {
+	n := 0
+	for _, s := range notes {
+		if strings.Contains(s, "trimming") {
+			n++
+		}
+	}
+	return n
+}
+
+// Without a trim allowance Compare's circuit figures are the build's own:
+// its S11 with the load at every sweep point, bit for bit, and no note on
+// trimming.
+func TestCompareUntrimmedCopper(t *testing.T) {
+	res := buildExample(t, "minimal")
+	if res.Design.Layout.Trim != 0 {
+		t.Fatalf("minimal draws a trim allowance of %g m, want none", res.Design.Layout.Trim)
+	}
+	rep, err := Compare(res, res.Sweep.Network)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rep.CircuitMatched) != len(res.Sweep.S11) {
+		t.Fatalf("%d circuit S11 for %d sweep points", len(rep.CircuitMatched), len(res.Sweep.S11))
+	}
+	for k, s := range res.Sweep.S11 {
+		if rep.CircuitMatched[k] != s {
+			t.Errorf("circuit S11 at %.6g GHz is %v, the build's %v", res.Sweep.Freqs[k]/1e9, rep.CircuitMatched[k], s)
+		}
+	}
+	if n := trimNotes(rep.Notes); n != 0 || rep.CircuitS11DBF0 != physical.MagDB(res.S11F0) {
+		t.Errorf("%d notes on trimming (want none), circuit |S11| at f0 %.3f dB, the build's %.3f dB", n, rep.CircuitS11DBF0, physical.MagDB(res.S11F0))
 	}
 }
 
