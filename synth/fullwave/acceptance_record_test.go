@@ -1,10 +1,7 @@
 package fullwave
 
 import (
-	"bufio"
 	"math"
-	"os"
-	"strconv"
 	"strings"
 	"testing"
 )
@@ -35,46 +32,15 @@ var trimmedDesigns = map[string]bool{"trim-allowance": true}
 // does not match at f0 (|S11| above −20 dB: a [[section]] network drawn
 // as worked by hand), where there is no match for the full-wave to confirm.
 func TestRecordedAcceptance(t *testing.T) {
-	f, err := os.Open("../../testdata/fdtd/acceptance.tsv")
-	if err != nil {
-		t.Fatalf("%v (testdata/fdtd/acceptance.sh writes it)", err)
-	}
-	defer f.Close()
-	sc := bufio.NewScanner(f)
-	made, demo := false, false
-	var cols map[string]int
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "# made by:") {
-			made = true
-		}
-		if line == "" || strings.HasPrefix(line, "#") {
+	rec := readRecord(t, "../../testdata/fdtd/acceptance.tsv", "testdata/fdtd/acceptance.sh")
+	demo := false
+	for _, row := range rec.rows {
+		if why, failed := row.failed(); failed {
+			t.Errorf("%s: the recorded verify failed: %s", row.cells[0], why)
 			continue
 		}
-		c := strings.Split(line, "\t")
-		if cols == nil {
-			cols = map[string]int{}
-			for i, name := range c {
-				cols[name] = i
-			}
-			continue
-		}
-		if len(c) == 2 && strings.HasPrefix(c[1], "failed") {
-			t.Errorf("%s: the recorded verify failed: %s", c[0], c[1])
-			continue
-		}
-		num := func(name string) float64 {
-			i, ok := cols[name]
-			if !ok || i >= len(c) {
-				t.Fatalf("acceptance.tsv: no column %q in %q", name, line)
-			}
-			v, err := strconv.ParseFloat(c[i], 64)
-			if err != nil {
-				t.Fatalf("acceptance.tsv: column %s of %q: %v", name, line, err)
-			}
-			return v
-		}
-		d := c[0]
+		num := func(name string) float64 { return row.num(t, name) }
+		d := row.cells[0]
 		f0, best, s11 := num("f0_hz"), num("fullwave_best_match_hz"), num("fullwave_s11_db_f0")
 		target, from := f0, "f0"
 		if trimmedDesigns[d] {
@@ -104,10 +70,7 @@ func TestRecordedAcceptance(t *testing.T) {
 			t.Errorf("%s: full-wave best match %+.2f %% from f0 and |S11| at f0 %.1f dB, want within ±1 %% and ≤ −20 dB", d, off, s11)
 		}
 	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
-	}
-	if !made {
+	if len(rec.made) == 0 {
 		t.Error("acceptance.tsv has no '# made by:' line with the command and date")
 	}
 	if !demo {

@@ -1,12 +1,9 @@
 package fullwave
 
 import (
-	"bufio"
 	"fmt"
 	"math"
 	"os"
-	"strconv"
-	"strings"
 	"testing"
 )
 
@@ -26,54 +23,33 @@ type recordedRun struct {
 // line starts one), in order.
 func readCentreRecord(t *testing.T) (map[string][]recordedRun, []string) {
 	t.Helper()
-	f, err := os.Open("../../testdata/fdtd/centre.tsv")
-	if os.IsNotExist(err) {
+	const path = "../../testdata/fdtd/centre.tsv"
+	if _, err := os.Stat(path); os.IsNotExist(err) {
 		t.Skip("no record testdata/fdtd/centre.tsv yet: run testdata/fdtd/centre.sh")
 	}
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
+	rec := readRecord(t, path, "testdata/fdtd/centre.sh")
 	runs := map[string][]recordedRun{}
 	var order []string
-	sc := bufio.NewScanner(f)
-	made := 0
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "# made by:") {
-			made++
-		}
-		if line == "" || strings.HasPrefix(line, "#") || strings.HasPrefix(line, "design\t") {
-			continue
-		}
-		c := strings.Split(line, "\t")
-		key := fmt.Sprintf("%s (record %d)", c[0], made)
-		if len(c) == 2 && strings.HasPrefix(c[1], "failed") {
+	for _, row := range rec.rows {
+		c := row.cells
+		key := fmt.Sprintf("%s (record %d)", c[0], row.made)
+		if _, failed := row.failed(); failed {
 			runs[key] = append(runs[key], recordedRun{design: key, name: c[0], failed: true})
 			order = append(order, key)
 			continue
 		}
 		if len(c) != 15 {
-			t.Fatalf("centre.tsv: %d columns in %q, want 15", len(c), line)
+			t.Fatalf("centre.tsv: %d columns in %q, want 15", len(c), row.line)
 		}
-		num := func(i int) float64 {
-			v, err := strconv.ParseFloat(c[i], 64)
-			if err != nil {
-				t.Fatalf("centre.tsv: column %d of %q: %v", i+1, line, err)
-			}
-			return v
-		}
-		r := recordedRun{design: key, name: c[0], f0: num(2), run: int(num(3)), best: num(4), offPct: num(5),
-			converged: c[13] == "true", kept: int(num(14))}
+		num := func(name string) float64 { return row.num(t, name) }
+		r := recordedRun{design: key, name: c[0], f0: num("f0_hz"), run: int(num("run")), best: num("best_match_hz"), offPct: num("best_match_offset_pct"),
+			converged: row.text(t, "converged") == "true", kept: int(num("kept_run"))}
 		if _, ok := runs[r.design]; !ok {
 			order = append(order, r.design)
 		}
 		runs[r.design] = append(runs[r.design], r)
 	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
-	}
-	if made == 0 {
+	if len(rec.made) == 0 {
 		t.Error("centre.tsv has no '# made by:' line with the command and date")
 	}
 	return runs, order

@@ -1,10 +1,8 @@
 package fullwave
 
 import (
-	"bufio"
 	"math"
 	"math/cmplx"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -28,43 +26,31 @@ const fenceGap = "recorded on the coarse mesh (a3fcb36): the fence moves S21 by 
 // (|S11|² + |S21|² ≤ 1 within 0.01, the solver's lossless check) and holds
 // the fence's change of S21 within ±10 % of f0 to fenceS21Limit.
 func TestRecordedFence(t *testing.T) {
-	f, err := os.Open("../../testdata/fdtd/fence.tsv")
-	if err != nil {
-		t.Fatalf("%v (testdata/fdtd/fence.sh writes it)", err)
-	}
-	defer f.Close()
-	sc := bufio.NewScanner(f)
+	rec := readRecord(t, "../../testdata/fdtd/fence.tsv", "testdata/fdtd/fence.sh")
 	var f0 float64
 	var worst, worstF, worst11, worstPhase float64
-	header, made, rows := false, false, 0
-	for sc.Scan() {
-		line := sc.Text()
-		switch {
-		case strings.HasPrefix(line, "# made by:"):
-			made = true
-			t.Log(line)
-			continue
-		case strings.HasPrefix(line, "# f0_hz\t"):
-			if f0, err = strconv.ParseFloat(strings.TrimPrefix(line, "# f0_hz\t"), 64); err != nil {
+	for _, line := range rec.made {
+		t.Log(line)
+	}
+	for _, line := range rec.comments {
+		if v, ok := strings.CutPrefix(line, "# f0_hz\t"); ok {
+			var err error
+			if f0, err = strconv.ParseFloat(v, 64); err != nil {
 				t.Fatalf("fence.tsv: %q: %v", line, err)
 			}
 			continue
-		case strings.HasPrefix(line, "#"):
-			t.Log(line)
-			continue
-		case !header:
-			header = true
-			continue
 		}
-		var v [9]float64
-		c := strings.Split(line, "\t")
-		if len(c) != len(v) {
-			t.Fatalf("fence.tsv: %q: want %d columns", line, len(v))
+		t.Log(line)
+	}
+	made, rows := len(rec.made) > 0, 0
+	columns := [...]string{"f_hz", "s11_fence_re", "s11_fence_im", "s21_fence_re", "s21_fence_im", "s11_bare_re", "s11_bare_im", "s21_bare_re", "s21_bare_im"}
+	for _, r := range rec.rows {
+		var v [len(columns)]float64
+		if len(r.cells) != len(v) {
+			t.Fatalf("fence.tsv: %q: want %d columns", r.line, len(v))
 		}
-		for i := range v {
-			if v[i], err = strconv.ParseFloat(c[i], 64); err != nil {
-				t.Fatalf("fence.tsv: %q: %v", line, err)
-			}
+		for i, name := range columns {
+			v[i] = r.num(t, name)
 		}
 		rows++
 		s11f, s21f := complex(v[1], v[2]), complex(v[3], v[4])

@@ -1,14 +1,12 @@
 package fullwave
 
 import (
-	"bufio"
 	"context"
 	"fmt"
 	"math"
 	"os"
 	"os/exec"
 	"sort"
-	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -134,46 +132,24 @@ func thicknessShift(t *testing.T, res *synth.Result) (solver, closedForm float64
 //     thickness's share lies within ±0.5 % of f0, half the criterion;
 //   - the normal row is the acceptance record's demo row (same solver).
 func TestRecordedDemoOffset(t *testing.T) {
-	f, err := os.Open(offsetRecord)
-	if err != nil {
-		t.Fatalf("%v (testdata/fdtd/offset.sh writes it)", err)
-	}
-	defer f.Close()
+	rec := readRecord(t, offsetRecord, "testdata/fdtd/offset.sh")
 	type row struct {
 		variant          string
 		ref, offset, s11 float64
 	}
 	var rows, variants []row
-	made := false
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "# made by:") {
-			made = true
+	for _, r := range rec.rows {
+		if len(r.cells) != 12 {
+			t.Fatalf("offset.tsv: %d columns in %q, want 12", len(r.cells), r.line)
 		}
-		if line == "" || strings.HasPrefix(line, "#") || strings.HasPrefix(line, "variant") {
-			continue
-		}
-		c := strings.Split(line, "\t")
-		if len(c) != 12 {
-			t.Fatalf("offset.tsv: %d columns in %q, want 12", len(c), line)
-		}
-		var v [3]float64
-		for i, j := range []int{1, 8, 9} {
-			if v[i], err = strconv.ParseFloat(c[j], 64); err != nil {
-				t.Fatalf("offset.tsv: %q: %v", line, err)
-			}
-		}
-		if c[0] == "refined" {
-			rows = append(rows, row{c[0], v[0], v[1], v[2]})
+		v := row{r.cells[0], r.num(t, "refinement"), r.num(t, "best_match_offset_pct"), r.num(t, "s11_db_f0")}
+		if v.variant == "refined" {
+			rows = append(rows, v)
 		} else {
-			variants = append(variants, row{c[0], v[0], v[1], v[2]})
+			variants = append(variants, v)
 		}
 	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
-	}
-	if !made || len(rows) < 3 {
+	if len(rec.made) == 0 || len(rows) < 3 {
 		t.Fatalf("offset.tsv: want a '# made by:' line and at least 3 meshes, got %d rows", len(rows))
 	}
 	var normal *row
@@ -212,19 +188,13 @@ func TestRecordedDemoOffset(t *testing.T) {
 		t.Errorf("the finest mesh's best match %+.2f %%, with the thickness's share %+.2f %%, leaves %+.2f %% unexplained, want within ±0.5 %%", finest.offset, 100*solver/2, rest)
 	}
 
-	acc, err := os.ReadFile("../../testdata/fdtd/acceptance.tsv")
-	if err != nil {
-		t.Fatal(err)
-	}
 	demoRows := 0
-	for _, line := range strings.Split(string(acc), "\n") {
-		c := strings.Split(line, "\t")
-		if c[0] != "demo" || len(c) < 6 {
+	for _, r := range readRecord(t, "../../testdata/fdtd/acceptance.tsv", "testdata/fdtd/acceptance.sh").rows {
+		if r.cells[0] != "demo" || len(r.cells) < 6 {
 			continue
 		}
 		demoRows++
-		f0, _ := strconv.ParseFloat(c[1], 64)
-		best, _ := strconv.ParseFloat(c[5], 64)
+		f0, best := r.num(t, "f0_hz"), r.num(t, "fullwave_best_match_hz")
 		if off := 100 * (best/f0 - 1); math.Abs(off-normal.offset) > 0.01 {
 			t.Errorf("acceptance.tsv's demo %+.3f %% and offset.tsv's normal mesh %+.3f %% differ: one of the records is stale", off, normal.offset)
 		}
