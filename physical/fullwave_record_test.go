@@ -1,16 +1,16 @@
 package physical
 
 import (
-	"bufio"
 	"math"
 	"math/cmplx"
 	"os"
 	"path/filepath"
-	"strconv"
 	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/optimize"
+
+	"stubcraft/physical/fdtd/records"
 )
 
 // The full-wave records of testdata/discontinuities (made by run.sh there
@@ -32,36 +32,18 @@ type discRow struct {
 // the first, which is an index read as text too) and the rest numbers.
 func readDiscRecord(t *testing.T, name string, ntext int) []discRow {
 	t.Helper()
-	f, err := os.Open(filepath.Join(discRecordDir, name))
-	if os.IsNotExist(err) {
+	path := filepath.Join(discRecordDir, name)
+	if _, err := os.Stat(path); os.IsNotExist(err) {
 		t.Fatalf("no record %s: run testdata/discontinuities/run.sh", name)
 	}
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
+	rec := records.Read(t, path, "testdata/discontinuities/run.sh")
 	var rows []discRow
-	sc := bufio.NewScanner(f)
-	header := true
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || line == "" {
-			continue
+	for _, r := range rec.Rows {
+		d := discRow{text: r.Cells[:ntext]}
+		for _, c := range rec.Header[ntext:] {
+			d.num = append(d.num, r.Num(t, c))
 		}
-		if header {
-			header = false
-			continue
-		}
-		cols := strings.Split(line, "\t")
-		r := discRow{text: cols[:ntext]}
-		for _, c := range cols[ntext:] {
-			v, err := strconv.ParseFloat(c, 64)
-			if err != nil {
-				t.Fatalf("%s: %q: %v", name, line, err)
-			}
-			r.num = append(r.num, v)
-		}
-		rows = append(rows, r)
+		rows = append(rows, d)
 	}
 	return rows
 }

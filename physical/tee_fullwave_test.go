@@ -1,12 +1,10 @@
 package physical
 
 import (
-	"bufio"
 	"math"
-	"os"
-	"strconv"
-	"strings"
 	"testing"
+
+	"stubcraft/physical/fdtd/records"
 )
 
 // teeRecord is the full-wave T-junction sweep of testdata/tee/sweep.sh:
@@ -27,43 +25,11 @@ func readTeeRecord(t *testing.T) []fullWaveTee {
 
 func readTeeFile(t *testing.T, teeRecord string) []fullWaveTee {
 	t.Helper()
-	f, err := os.Open(teeRecord)
-	if err != nil {
-		t.Fatalf("%s: %v (testdata/tee/sweep.sh writes it)", teeRecord, err)
-	}
-	defer f.Close()
 	var rows []fullWaveTee
-	var cols map[string]int
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || line == "" {
-			continue
-		}
-		cells := strings.Split(line, "\t")
-		if cols == nil {
-			cols = map[string]int{}
-			for i, c := range cells {
-				cols[c] = i
-			}
-			continue
-		}
-		get := func(name string) float64 {
-			i, ok := cols[name]
-			if !ok {
-				t.Fatalf("%s: no column %q", teeRecord, name)
-			}
-			v, err := strconv.ParseFloat(cells[i], 64)
-			if err != nil {
-				t.Fatalf("%s: column %s: %v", teeRecord, name, err)
-			}
-			return v
-		}
+	for _, r := range records.Read(t, teeRecord, "testdata/tee/sweep.sh").Rows {
+		get := func(name string) float64 { return r.Num(t, name) }
 		rows = append(rows, fullWaveTee{er: get("er"), h: get("h_mm") * 1e-3, wt: get("wt_mm") * 1e-3, ws: get("ws_mm") * 1e-3,
 			f: get("f_hz"), d1: get("d1_mm") * 1e-3, d2: get("d2_mm") * 1e-3, k: get("k"), b: get("b_ms") * 1e-3, resid: get("resid_ms") * 1e-3})
-	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
 	}
 	if len(rows) == 0 {
 		t.Fatalf("%s has no rows", teeRecord)

@@ -10,6 +10,8 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"stubcraft/physical/fdtd/records"
 )
 
 // The discontinuity records of testdata/discontinuities (width step, via,
@@ -54,19 +56,13 @@ func writeDiscRecord(t *testing.T, name, header string, rows []string) {
 	// With CASES set, the rows of the other cases already recorded stay,
 	// under their own "made by" lines.
 	var keep, made []string
-	if os.Getenv("CASES") != "" {
-		if old, err := os.ReadFile(path); err == nil {
-			for _, l := range strings.Split(strings.TrimRight(string(old), "\n"), "\n") {
-				switch {
-				case strings.HasPrefix(l, "# made by"):
-					made = append(made, l)
-				case strings.HasPrefix(l, "#") || l == header:
-				default:
-					var ci int
-					if _, err := fmt.Sscan(strings.SplitN(l, "\t", 2)[0], &ci); err == nil && !caseSelected(ci) {
-						keep = append(keep, l)
-					}
-				}
+	if _, err := os.Stat(path); err == nil && os.Getenv("CASES") != "" {
+		old := records.Read(t, path, "testdata/discontinuities/run.sh")
+		made = old.Made
+		for _, r := range old.Rows {
+			var ci int
+			if _, err := fmt.Sscan(r.Cells[0], &ci); err == nil && !caseSelected(ci) {
+				keep = append(keep, r.Line)
 			}
 		}
 	}

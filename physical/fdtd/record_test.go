@@ -1,15 +1,15 @@
 package fdtd
 
 import (
-	"bufio"
 	"fmt"
 	"math"
 	"os"
 	"path/filepath"
-	"strconv"
 	"strings"
 	"testing"
 	"time"
+
+	"stubcraft/physical/fdtd/records"
 )
 
 // The long validations run from testdata/fdtd/validate.sh, which sets
@@ -42,30 +42,21 @@ func writeRecord(t *testing.T, name, header string, rows []string) {
 	}
 }
 
+// readRecord returns the rows of testdata/fdtd/NAME, which
+// testdata/fdtd/validate.sh writes, as numbers (every column is one); the
+// test is skipped when it has not run yet.
 func readRecord(t *testing.T, name string) [][]float64 {
 	t.Helper()
-	f, err := os.Open(filepath.Join(recordDir, name))
-	if os.IsNotExist(err) {
+	path := filepath.Join(recordDir, name)
+	if _, err := os.Stat(path); os.IsNotExist(err) {
 		t.Skipf("no record %s yet: run testdata/fdtd/validate.sh", name)
 	}
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
+	rec := records.Read(t, path, "testdata/fdtd/validate.sh")
 	var rows [][]float64
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || strings.HasPrefix(line, "er") || strings.HasPrefix(line, "mesh") || line == "" {
-			continue
-		}
+	for _, r := range rec.Rows {
 		var row []float64
-		for _, c := range strings.Split(line, "\t") {
-			v, err := strconv.ParseFloat(c, 64)
-			if err != nil {
-				t.Fatalf("%s: %q: %v", name, line, err)
-			}
-			row = append(row, v)
+		for _, name := range rec.Header {
+			row = append(row, r.Num(t, name))
 		}
 		rows = append(rows, row)
 	}

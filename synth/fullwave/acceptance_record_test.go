@@ -4,6 +4,8 @@ import (
 	"math"
 	"strings"
 	"testing"
+
+	"stubcraft/physical/fdtd/records"
 )
 
 // acceptanceGaps are the designs known to miss issue 11 §5, each with its
@@ -32,15 +34,15 @@ var trimmedDesigns = map[string]bool{"trim-allowance": true}
 // does not match at f0 (|S11| above −20 dB: a [[section]] network drawn
 // as worked by hand), where there is no match for the full-wave to confirm.
 func TestRecordedAcceptance(t *testing.T) {
-	rec := readRecord(t, "../../testdata/fdtd/acceptance.tsv", "testdata/fdtd/acceptance.sh")
+	rec := records.Read(t, "../../testdata/fdtd/acceptance.tsv", "testdata/fdtd/acceptance.sh")
 	demo := false
-	for _, row := range rec.rows {
-		if why, failed := row.failed(); failed {
-			t.Errorf("%s: the recorded verify failed: %s", row.cells[0], why)
+	for _, row := range rec.Rows {
+		if why, failed := row.Failed(); failed {
+			t.Errorf("%s: the recorded verify failed: %s", row.Cells[0], why)
 			continue
 		}
-		num := func(name string) float64 { return row.num(t, name) }
-		d := row.cells[0]
+		num := func(name string) float64 { return row.Num(t, name) }
+		d := row.Cells[0]
 		f0, best, s11 := num("f0_hz"), num("fullwave_best_match_hz"), num("fullwave_s11_db_f0")
 		target, from := f0, "f0"
 		if trimmedDesigns[d] {
@@ -70,7 +72,7 @@ func TestRecordedAcceptance(t *testing.T) {
 			t.Errorf("%s: full-wave best match %+.2f %% from f0 and |S11| at f0 %.1f dB, want within ±1 %% and ≤ −20 dB", d, off, s11)
 		}
 	}
-	if len(rec.made) == 0 {
+	if len(rec.Made) == 0 {
 		t.Error("acceptance.tsv has no '# made by:' line with the command and date")
 	}
 	if !demo {

@@ -5,6 +5,8 @@ import (
 	"math"
 	"os"
 	"testing"
+
+	"stubcraft/physical/fdtd/records"
 )
 
 // recordedRun is one row of testdata/fdtd/centre.tsv: one full-wave run
@@ -27,29 +29,29 @@ func readCentreRecord(t *testing.T) (map[string][]recordedRun, []string) {
 	if _, err := os.Stat(path); os.IsNotExist(err) {
 		t.Skip("no record testdata/fdtd/centre.tsv yet: run testdata/fdtd/centre.sh")
 	}
-	rec := readRecord(t, path, "testdata/fdtd/centre.sh")
+	rec := records.Read(t, path, "testdata/fdtd/centre.sh")
 	runs := map[string][]recordedRun{}
 	var order []string
-	for _, row := range rec.rows {
-		c := row.cells
-		key := fmt.Sprintf("%s (record %d)", c[0], row.made)
-		if _, failed := row.failed(); failed {
+	for _, row := range rec.Rows {
+		c := row.Cells
+		key := fmt.Sprintf("%s (record %d)", c[0], row.Made)
+		if _, failed := row.Failed(); failed {
 			runs[key] = append(runs[key], recordedRun{design: key, name: c[0], failed: true})
 			order = append(order, key)
 			continue
 		}
 		if len(c) != 15 {
-			t.Fatalf("centre.tsv: %d columns in %q, want 15", len(c), row.line)
+			t.Fatalf("centre.tsv: %d columns in %q, want 15", len(c), row.Line)
 		}
-		num := func(name string) float64 { return row.num(t, name) }
+		num := func(name string) float64 { return row.Num(t, name) }
 		r := recordedRun{design: key, name: c[0], f0: num("f0_hz"), run: int(num("run")), best: num("best_match_hz"), offPct: num("best_match_offset_pct"),
-			converged: row.text(t, "converged") == "true", kept: int(num("kept_run"))}
+			converged: row.Text(t, "converged") == "true", kept: int(num("kept_run"))}
 		if _, ok := runs[r.design]; !ok {
 			order = append(order, r.design)
 		}
 		runs[r.design] = append(runs[r.design], r)
 	}
-	if len(rec.made) == 0 {
+	if len(rec.Made) == 0 {
 		t.Error("centre.tsv has no '# made by:' line with the command and date")
 	}
 	return runs, order

@@ -6,6 +6,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"stubcraft/physical/fdtd/records"
 )
 
 // fenceS21Limit is how far the via fence may move the network's S21 near
@@ -26,13 +28,13 @@ const fenceGap = "recorded on the coarse mesh (a3fcb36): the fence moves S21 by 
 // (|S11|² + |S21|² ≤ 1 within 0.01, the solver's lossless check) and holds
 // the fence's change of S21 within ±10 % of f0 to fenceS21Limit.
 func TestRecordedFence(t *testing.T) {
-	rec := readRecord(t, "../../testdata/fdtd/fence.tsv", "testdata/fdtd/fence.sh")
+	rec := records.Read(t, "../../testdata/fdtd/fence.tsv", "testdata/fdtd/fence.sh")
 	var f0 float64
 	var worst, worstF, worst11, worstPhase float64
-	for _, line := range rec.made {
+	for _, line := range rec.Made {
 		t.Log(line)
 	}
-	for _, line := range rec.comments {
+	for _, line := range rec.Comments {
 		if v, ok := strings.CutPrefix(line, "# f0_hz\t"); ok {
 			var err error
 			if f0, err = strconv.ParseFloat(v, 64); err != nil {
@@ -42,15 +44,15 @@ func TestRecordedFence(t *testing.T) {
 		}
 		t.Log(line)
 	}
-	made, rows := len(rec.made) > 0, 0
+	made, rows := len(rec.Made) > 0, 0
 	columns := [...]string{"f_hz", "s11_fence_re", "s11_fence_im", "s21_fence_re", "s21_fence_im", "s11_bare_re", "s11_bare_im", "s21_bare_re", "s21_bare_im"}
-	for _, r := range rec.rows {
+	for _, r := range rec.Rows {
 		var v [len(columns)]float64
-		if len(r.cells) != len(v) {
-			t.Fatalf("fence.tsv: %q: want %d columns", r.line, len(v))
+		if len(r.Cells) != len(v) {
+			t.Fatalf("fence.tsv: %q: want %d columns", r.Line, len(v))
 		}
 		for i, name := range columns {
-			v[i] = r.num(t, name)
+			v[i] = r.Num(t, name)
 		}
 		rows++
 		s11f, s21f := complex(v[1], v[2]), complex(v[3], v[4])

@@ -13,6 +13,7 @@ import (
 
 	"stubcraft/physical"
 	"stubcraft/physical/fdtd"
+	"stubcraft/physical/fdtd/records"
 	"stubcraft/physical/fieldsolve"
 	"stubcraft/synth"
 )
@@ -132,24 +133,24 @@ func thicknessShift(t *testing.T, res *synth.Result) (solver, closedForm float64
 //     thickness's share lies within ±0.5 % of f0, half the criterion;
 //   - the normal row is the acceptance record's demo row (same solver).
 func TestRecordedDemoOffset(t *testing.T) {
-	rec := readRecord(t, offsetRecord, "testdata/fdtd/offset.sh")
+	rec := records.Read(t, offsetRecord, "testdata/fdtd/offset.sh")
 	type row struct {
 		variant          string
 		ref, offset, s11 float64
 	}
 	var rows, variants []row
-	for _, r := range rec.rows {
-		if len(r.cells) != 12 {
-			t.Fatalf("offset.tsv: %d columns in %q, want 12", len(r.cells), r.line)
+	for _, r := range rec.Rows {
+		if len(r.Cells) != 12 {
+			t.Fatalf("offset.tsv: %d columns in %q, want 12", len(r.Cells), r.Line)
 		}
-		v := row{r.cells[0], r.num(t, "refinement"), r.num(t, "best_match_offset_pct"), r.num(t, "s11_db_f0")}
+		v := row{r.Cells[0], r.Num(t, "refinement"), r.Num(t, "best_match_offset_pct"), r.Num(t, "s11_db_f0")}
 		if v.variant == "refined" {
 			rows = append(rows, v)
 		} else {
 			variants = append(variants, v)
 		}
 	}
-	if len(rec.made) == 0 || len(rows) < 3 {
+	if len(rec.Made) == 0 || len(rows) < 3 {
 		t.Fatalf("offset.tsv: want a '# made by:' line and at least 3 meshes, got %d rows", len(rows))
 	}
 	var normal *row
@@ -189,12 +190,12 @@ func TestRecordedDemoOffset(t *testing.T) {
 	}
 
 	demoRows := 0
-	for _, r := range readRecord(t, "../../testdata/fdtd/acceptance.tsv", "testdata/fdtd/acceptance.sh").rows {
-		if r.cells[0] != "demo" || len(r.cells) < 6 {
+	for _, r := range records.Read(t, "../../testdata/fdtd/acceptance.tsv", "testdata/fdtd/acceptance.sh").Rows {
+		if r.Cells[0] != "demo" || len(r.Cells) < 6 {
 			continue
 		}
 		demoRows++
-		f0, best := r.num(t, "f0_hz"), r.num(t, "fullwave_best_match_hz")
+		f0, best := r.Num(t, "f0_hz"), r.Num(t, "fullwave_best_match_hz")
 		if off := 100 * (best/f0 - 1); math.Abs(off-normal.offset) > 0.01 {
 			t.Errorf("acceptance.tsv's demo %+.3f %% and offset.tsv's normal mesh %+.3f %% differ: one of the records is stale", off, normal.offset)
 		}
