@@ -174,20 +174,16 @@ func Solve(ctx context.Context, s Structure, o Options) (*Result, error) {
 // impedance (ohm) at the sweep frequencies.
 type lineData struct{ gamma, z0 []complex128 }
 
-// calibrate simulates a short straight line of the port's width on the same
+// calibrateOn simulates a short straight line of the port's width on the same
 // substrate and mesh density and measures its γ and Z0 between the two
 // front probe pairs: for a uniform line between planes 1 and 2 carrying
 // any mix of waves, cosh(γL) = (V1·I1 + V2·I2)/(V1·I2 + V2·I1) (from the
 // line's ABCD matrix with A = D and AD − BC = 1), and Z0 is V/I averaged
 // over both planes (the line is matched at both ends, so one wave
 // dominates).
-// It returns the line data, the run's steps and its grid's cells.
-func calibrate(ctx context.Context, s Structure, width int64, edge float64, o Options, q, runs int, start time.Time) (lineData, int, int, error) {
-	return calibrateOn(ctx, s, width, edge, nil, o, q, runs, start)
-}
-
-// calibrateOn is calibrate on the y grid lines ys (the line centred on
-// y = 0, absorbing layers included) when ys is not nil.
+// It returns the line data, the run's steps and its grid's cells. The
+// line is meshed on the y grid lines ys (the line centred on y = 0,
+// absorbing layers included) when ys is not nil, else on its own.
 func calibrateOn(ctx context.Context, s Structure, width int64, edge float64, ys []float64, o Options, q, runs int, start time.Time) (lineData, int, int, error) {
 	// The two planes are about 0.35 of the shortest guided wavelength apart
 	// (taken with εr, so shorter than the truth): long enough that the

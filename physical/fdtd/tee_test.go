@@ -211,7 +211,7 @@ func extractTee(t *testing.T, c teeCase, mesh MeshParams, meshName string) []tee
 	// The stub line on the same mesh (the tee grid's edge cell).
 	line := TeeBoard{Er: c.er, H: c.h, ThroughW: c.wt, StubW: c.ws, StubLen: lengths[0], ArmLen: arm, Freqs: freqs}.Structure()
 	o := Options{Mesh: mesh}.withDefaults()
-	ld, steps, _, err := calibrate(context.Background(), line, int64(math.Round(c.ws*1e9)), runs[0].edge, o, 0, 1, time.Now())
+	ld, steps, _, err := calibrateOn(context.Background(), line, int64(math.Round(c.ws*1e9)), runs[0].edge, nil, o, 0, 1, time.Now())
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -47,7 +47,7 @@ func measureLine(t *testing.T, s Structure, mesh MeshParams) (z0, epsEff float64
 	if err != nil {
 		t.Fatal(err)
 	}
-	ld, _, _, err := calibrate(context.Background(), s, s.Ports[0].Width, g.EdgeCell, o, 0, 1, time.Now())
+	ld, _, _, err := calibrateOn(context.Background(), s, s.Ports[0].Width, g.EdgeCell, nil, o, 0, 1, time.Now())
 	if err != nil {
 		t.Fatal(err)
 	}
