@@ -3,6 +3,8 @@ package export
 import (
 	"strings"
 	"unicode"
+
+	"stubcraft/synth"
 )
 
 // Minus writes the minus signs of s as U+2212, as every figure of the
@@ -26,6 +28,13 @@ func Minus(s string) string {
 	}
 	return b.String()
 }
+
+// BodeFanoNote is the Bode-Fano limit of a band match in words, as every
+// output writes it (report.json's bode_fano_note, the build's summary
+// through it, solve --band's listing and its JSON): the figure with what
+// it rests on or why there is none (synth.BodeFanoLimit.String), its
+// minus signs U+2212.
+func BodeFanoNote(bf synth.BodeFanoLimit) string { return Minus(bf.String()) }
 
 // startsNumber reports whether the hyphen at rs[i] starts a number.
 func startsNumber(rs []rune, i int) bool {

@@ -1,6 +1,11 @@
 package export
 
-import "testing"
+import (
+	"math"
+	"testing"
+
+	"stubcraft/synth"
+)
 
 // A minus sign is U+2212 where a hyphen-minus starts a number, and a
 // hyphen stays a hyphen in words, names, exponents, dates and impedances
@@ -28,6 +33,26 @@ func TestMinus(t *testing.T) {
 	for _, c := range cases {
 		if got := Minus(c.in); got != c.want {
 			t.Errorf("Minus(%q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+}
+
+// The Bode-Fano note every output writes: the limit's figure or the
+// reason none is quoted, a minus sign U+2212 where a number starts and
+// hyphens kept in words (the rows' own figures and text).
+func TestBodeFanoNote(t *testing.T) {
+	cases := []struct {
+		bf   synth.BodeFanoLimit
+		want string
+	}{
+		{synth.BodeFanoLimit{Status: synth.LimitQuoted, S11DB: -12.345}, "−12.35 dB"},
+		{synth.BodeFanoLimit{Status: synth.LimitBelowFloor, S11DB: -75}, "below −60 dB: over this band the fitted load's reactance sets no practical limit"},
+		{synth.BodeFanoLimit{Status: synth.LimitNoReactance, S11DB: math.NaN()}, "none: the load has no reactance across the band"},
+		{synth.BodeFanoLimit{Status: synth.LimitPoorFit, S11DB: math.NaN(), Why: "the series-RC fit misses by -3.5 dB"}, "not quoted: the series-RC fit misses by −3.5 dB"},
+	}
+	for _, c := range cases {
+		if got := BodeFanoNote(c.bf); got != c.want {
+			t.Errorf("%v: %q, want %q", c.bf.Status, got, c.want)
 		}
 	}
 }

@@ -368,7 +368,7 @@ func NewReport(r *synth.Result, version string) Report {
 	if b := r.Band; b != nil {
 		bf := b.BodeFano
 		rep.Band = &ReportBand{StartHz: b.Start, StopHz: b.Stop, WorstS11DB: b.WorstS11DB,
-			BodeFanoStatus: bf.Status.String(), BodeFanoNote: Minus(bf.String()),
+			BodeFanoStatus: bf.Status.String(), BodeFanoNote: BodeFanoNote(bf),
 			LoadFit: bf.FitText(), LoadFitCircuit: bf.FitCircuit(), LoadFitMisfitPct: 100 * bf.Fit.MaxRelErr,
 			Topology: b.Topology, Objective: b.Objective}
 		if b.GoalDB != 0 {

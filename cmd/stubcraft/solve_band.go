@@ -103,7 +103,7 @@ func runSolveBand(w io.Writer, o solveOptions, b solveBandOptions) error {
 	}
 	fmt.Fprintf(w, "band %s (f0 %s) on %g Ω\n", units.FormatFrequencyRange(f1, f2, 6), units.FormatFrequency(res.F0, 6), z0)
 	fmt.Fprintf(w, "load: %s\n", res.BodeFano.FitText())
-	fmt.Fprintf(w, "Bode-Fano limit (lossless network, Fano 1950): %s\n\n", export.Minus(res.BodeFano.String()))
+	fmt.Fprintf(w, "Bode-Fano limit (lossless network, Fano 1950): %s\n\n", export.BodeFanoNote(res.BodeFano))
 	var table strings.Builder
 	tw := tabwriter.NewWriter(&table, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "candidate\tworst |S11| in band (dB)\ttotal electrical length (°)\t")
@@ -164,7 +164,7 @@ func solveBandJSON(res synth.BandSolve, z0 float64) solveBandResult {
 	bf := res.BodeFano
 	out := solveBandResult{StartHz: res.Start, StopHz: res.Stop, F0Hz: res.F0, Z0Ohm: z0,
 		LoadFit: bf.FitText(), LoadFitCircuit: bf.FitCircuit(), LoadFitMisfitPct: 100 * bf.Fit.MaxRelErr,
-		BodeFanoStatus: bf.Status.String(), BodeFanoNote: export.Minus(bf.String()), Candidates: []solveCandidate{}}
+		BodeFanoStatus: bf.Status.String(), BodeFanoNote: export.BodeFanoNote(bf), Candidates: []solveCandidate{}}
 	if v, ok := bf.Quoted(); ok {
 		out.BodeFanoS11DB = &v
 	}
