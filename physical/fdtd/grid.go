@@ -31,9 +31,12 @@ type Grid struct {
 	KT       int // index of the copper's top face z = h + t; KH when the copper is drawn as a sheet
 	NPML     int
 	ports    [2]portPlan
-	EdgeCell float64   // the edge cell size used for the 1/3–2/3 rule, m
-	ext      Structure // the structure with the port lines drawn out into the absorbing layers
-	walls    []wall    // ground walls: the structure's own and those of coplanar port lines
+	EdgeCell float64    // the edge cell size used for the 1/3–2/3 rule, m
+	ext      Structure  // the structure with the port lines drawn out into the absorbing layers
+	walls    []wall     // ground walls: the structure's own and those of coplanar port lines
+	wires    []wireLink // the thin-wire links of the vias drawn on the board's grid
+	viaCols  [][][2]int // the grid nodes (i, j) each via of ext is drawn with; nil: those within its radius
+	notes    []string   // what the solve should warn about the drawing (vias too wide for the thin-wire model)
 }
 
 // Cells returns the number of Yee cells.
@@ -227,6 +230,9 @@ func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, erro
 	}
 	g.Z = withPML(z, p.PMLCells, false, true)
 	g.ext = ext
+	if !p.NodeVias {
+		g.wires, g.viaCols, g.notes = wireLinks(g, s.Vias, p.ViaDivisions)
+	}
 	return g, nil
 }
 

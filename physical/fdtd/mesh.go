@@ -50,6 +50,12 @@ type MeshParams struct {
 	// lines that other features (a via column's divisions above all) put
 	// through the port strip's cross-section change its Z0 and εeff.
 	PortLinesOnBoardGrid bool
+	// NodeVias draws every via on the board's grid as its grid nodes
+	// alone, without the thin-wire correction that gives the column the
+	// drill's radius (thinwire.go): a post of the nodes' own effective
+	// radius (0.1985 of the cell for one node). For comparisons with the
+	// drawing before the thin-wire model; the mesh levels leave it off.
+	NodeVias bool
 }
 
 // Params returns the level's mesh numbers.

@@ -33,6 +33,7 @@ type sim struct {
 	dtmu                         float32
 	pecX, pecY, pecZ             []int32
 	fixes                        [3]fixList // Ex, Ey, Ez whose coefficients differ from their z layer's (conformal mask)
+	wireX, wireY                 []wireFix  // thin-wire corrections of Hx and Hy (thinwire.go)
 	pml                          [3]pmlAxis
 	xRow, yRow, zRow             []pmlRow // CPML coefficients by x, y and z index (p < 0 outside the layers)
 	zLo                          int      // the first z index of the top layer
@@ -208,6 +209,7 @@ func newSim(g *Grid, s Structure, workers int) *sim {
 		m.caT[k], m.cbT[k] = coef(erT[k], sgT[k])
 	}
 	m.markPEC(g)
+	m.wireX, m.wireY = m.wireFixes(g)
 	for _, l := range []*[]int32{&m.pecX, &m.pecY, &m.pecZ} {
 		slices.Sort(*l)
 		*l = slices.Compact(*l)
@@ -259,24 +261,14 @@ func (m *sim) markPEC(g *Grid) {
 		}
 	}
 	m.markWalls(g)
-	for _, v := range s.Vias {
-		cx, cy := float64(v.Center.X)*1e-9, float64(v.Center.Y)*1e-9
-		r := float64(v.Diameter) * 1e-9 / 2
-		found := false
-		for i := 0; i < m.nx; i++ {
-			for j := 0; j < m.ny; j++ {
-				if math.Hypot(g.X[i]-cx, g.Y[j]-cy) <= r {
-					found = true
-					for k := 0; k < kh; k++ {
-						m.pecZ = append(m.pecZ, at(i, j, k))
-					}
-				}
-			}
+	for vi, v := range s.Vias {
+		col := viaColumn(g, v)
+		if g.viaCols != nil {
+			col = g.viaCols[vi]
 		}
-		if !found {
-			i, j := nearest(g.X, cx), nearest(g.Y, cy)
+		for _, c := range col {
 			for k := 0; k < kh; k++ {
-				m.pecZ = append(m.pecZ, at(i, j, k))
+				m.pecZ = append(m.pecZ, at(c[0], c[1], k))
 			}
 		}
 	}
@@ -406,7 +398,8 @@ func (m *sim) rowPML(a, n int) []pmlRow {
 	return out
 }
 
-// updateH advances H by one step over x slabs [ia, ib), the CPML included:
+// updateH advances H by one step over x slabs [ia, ib), the CPML included,
+// then applies the slabs' thin-wire via corrections:
 // each z-row gets its curl update, then, while the row is in cache, the
 // ψ recursions of the layers it lies in (x, then y, then z: the order in
 // which the corrections were always added, so the sums round the same).
@@ -498,6 +491,7 @@ func (m *sim) updateH(ia, ib int) {
 			}
 		}
 	}
+	m.thinWire(ia, ib)
 }
 
 // updateE advances E by one step over x slabs [ia, ib), the CPML included

@@ -124,7 +124,8 @@ func Solve(ctx context.Context, s Structure, o Options) (*Result, error) {
 	if need := EstimateBytes(g); need > o.MemoryLimit {
 		return nil, &MemoryError{Cells: g.Cells(), Bytes: need, Limit: o.MemoryLimit}
 	}
-	res := &Result{Freqs: append([]float64(nil), s.Freqs...), Zref: s.Zref, Cells: g.Cells(), Grid: g}
+	res := &Result{Freqs: append([]float64(nil), s.Freqs...), Zref: s.Zref, Cells: g.Cells(), Grid: g,
+		Warnings: append([]string(nil), g.notes...)}
 	if res.Zref == 0 {
 		res.Zref = 50
 	}

@@ -55,7 +55,7 @@ func lowFreqL(r *Result) float64 {
 }
 
 // viaColumnDivisions are the via drawings of the column study: 0 is the
-// centre node alone (what verify draws), k > 0 puts grid lines at the
+// centre node alone (what verify drew before the thin-wire model), k > 0 puts grid lines at the
 // centre and at i/k of the radius on each side, so that the column is
 // every node within the radius on a locally uniform grid of r/k.
 var viaColumnDivisions = []int{0, 1, 2, 4, 8}
@@ -93,6 +93,10 @@ func TestRecordViaColumn(t *testing.T) {
 			// (seen as a drift of the open-ended port 2's S22 of up to 2° at
 			// 1 GHz with a 0.8 mm drill in a 1 mm strip).
 			vm.PortLinesOnBoardGrid = true
+			// 0 divisions is the column drawn as its grid nodes alone, as
+			// recorded before the thin-wire model (which verify now adds,
+			// TestThinWireVia).
+			vm.NodeVias = true
 			r, err := Solve(context.Background(), s, Options{Mesh: vm})
 			if err != nil {
 				t.Fatal(err)
