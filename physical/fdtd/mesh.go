@@ -42,7 +42,8 @@ type MeshParams struct {
 	// locally uniform grid (1: lines through the centre and the rim). 0,
 	// the mesh levels' setting, draws the column as the nodes within its
 	// radius on the grid the rest of the board gives (often the centre node
-	// alone). See the via column study in DEVELOPERS.md.
+	// alone), with the thin-wire correction to the drill's radius unless
+	// NodeVias. See the via column study in DEVELOPERS.md.
 	ViaDivisions int
 	// PortLinesOnBoardGrid calibrates each port line on the board's own y
 	// grid lines (moved to the line's centre) instead of the line's own,

@@ -17,10 +17,13 @@ type Polygon []Point
 // top face, centre and diameter in nm. A via that carries the circuit's
 // current (a shorted stub's) is drawn with MeshParams.ViaDivisions grid
 // lines across it; a ground-stitching via (a fence, a landing's ground
-// pads, a coplanar pour), Stitch, is drawn as the grid node at its centre
-// alone (a thinner post, about 0.2 of the local cell: see the via column
-// study in DEVELOPERS.md), which keeps the grid from refining at every
-// stitch.
+// pads, a coplanar pour), Stitch, is drawn on the board's grid, which
+// keeps the grid from refining at every stitch. A via drawn on the board's
+// grid (every via at ViaDivisions 0, the mesh levels' setting) is the
+// grid nodes within its radius with the thin-wire correction that gives
+// the column the drill's radius (thinwire.go; without it, with
+// MeshParams.NodeVias, one node is a post of about 0.2 of the local cell:
+// see the via column study in DEVELOPERS.md).
 type Via struct {
 	Center   Point
 	Diameter int64
