@@ -157,7 +157,11 @@ func (d *doc) landingSheet(b boardModel) {
 			break
 		}
 	}
+	pour := b.pourIn(reg)
 	need := viewCaptionH + (reg.y1-reg.y0)*scale + 2*room
+	if pour {
+		need += landingKeyH
+	}
 	title := "Edge-launch landing and via fence"
 	if l == nil {
 		title = "Via fence"
@@ -179,7 +183,9 @@ func (d *doc) landingSheet(b boardModel) {
 	v := view{scale, ox - scale*reg.x0, oy + scale*reg.y1}
 	f := d.pdf
 	k := &ink{f: f, pl: newPlacer(pdfWidth(f), rect{x, top + viewCaptionH, x + w, oy + (reg.y1-reg.y0)*scale + room})}
+	f.RawWriteStr("/LandingDetail BMC\n")
 	d.landingArt(k, b, v, reg)
+	f.RawWriteStr("EMC\n")
 	if l != nil {
 		d.landingDims(k, b, v, reg)
 	}
@@ -193,6 +199,44 @@ func (d *doc) landingSheet(b boardModel) {
 	}
 	k.flush()
 	d.tailPage, d.tailY = f.PageNo(), oy+(reg.y1-reg.y0)*scale+room
+	if pour {
+		d.landingKey(x, d.tailY+3)
+		d.tailY += landingKeyH
+	}
+}
+
+// landingKeyH is the height (paper mm) of the landing detail's key.
+const landingKeyH = 7.0
+
+// landingKey draws the key of the landing detail's fills at (x, y), paper
+// mm: the copper of the line, stubs and pads, and a coplanar ground pour,
+// which sheet 1 and layout.svg fill alike.
+func (d *doc) landingKey(x, y float64) {
+	f := d.pdf
+	f.SetFont(fontSans, "", 6.5)
+	f.SetLineWidth(0.12)
+	for _, e := range []struct {
+		fill rgb
+		what string
+	}{{colCopper, "copper (line, stubs, pads)"}, {colPour, "coplanar ground pour (GND)"}} {
+		setFill(f, e.fill)
+		setDraw(f, colCopperEdg)
+		f.Rect(x, y, 5, 3, "FD")
+		setText(f, colInk)
+		f.Text(x+6.5, y+2.5, e.what)
+		x += 6.5 + f.GetStringWidth(e.what) + 6
+	}
+}
+
+// pourIn says whether a coplanar ground pour shows in the part reg of the
+// board.
+func (b boardModel) pourIn(reg rect) bool {
+	for i, poly := range b.copper {
+		if b.pour[i] && len(clipPolygon(poly, reg)) >= 3 {
+			return true
+		}
+	}
+	return false
 }
 
 // landingDims dimensions the landing in view v: the signal pad's length
@@ -226,8 +270,9 @@ func (d *doc) landingDims(k *ink, b boardModel, v view, reg rect) {
 }
 
 // landingArt draws the part reg of the board in view v: the board, the
-// copper cut at reg's edges, the pads and the vias, and registers the
-// copper and the board edges with k's placer.
+// copper cut at reg's edges (a coplanar ground pour in its own fill), the
+// pads and the vias, and registers the copper and the board edges with
+// k's placer.
 func (d *doc) landingArt(k *ink, b boardModel, v view, reg rect) {
 	f := d.pdf
 	setFill(f, colBoard)
@@ -250,12 +295,15 @@ func (d *doc) landingArt(k *ink, b boardModel, v view, reg rect) {
 	setDraw(f, colCopperEdg)
 	f.SetLineWidth(0.12)
 	f.RawWriteStr("/Copper BMC\n")
-	for _, poly := range b.copper {
+	for i, poly := range b.copper {
 		cut := clipPolygon(poly, reg)
 		if len(cut) < 3 {
 			continue
 		}
 		setFill(f, colCopper)
+		if b.pour[i] {
+			setFill(f, colPour) // a coplanar ground pour, as on sheet 1
+		}
 		copperPolygon(f, k, v, cut)
 	}
 	var outlines []rect
