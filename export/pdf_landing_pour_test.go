@@ -2,12 +2,9 @@ package export
 
 import (
 	"bytes"
-	"compress/zlib"
 	"fmt"
-	"io"
 	"os"
 	"path/filepath"
-	"regexp"
 	"strings"
 	"testing"
 
@@ -75,28 +72,15 @@ func TestLandingDetailPourFill(t *testing.T) {
 // detail's content stream, the one after its caption.
 func detailCopper(t *testing.T, pdf []byte) string {
 	t.Helper()
-	re := regexp.MustCompile(`(?s)stream\r?\n(.*?)\r?\nendstream`)
-	for _, m := range re.FindAllSubmatch(pdf, -1) {
-		zr, err := zlib.NewReader(bytes.NewReader(m[1]))
-		if err != nil {
-			continue
-		}
-		b, err := io.ReadAll(zr)
-		if err != nil {
-			continue
-		}
-		s := string(b)
-		i := strings.Index(s, "/LandingDetail BMC")
-		if i < 0 {
-			continue
-		}
-		s = s[i:]
+	for _, s := range markedStreams(t, pdf, "/LandingDetail BMC") {
+		s = s[strings.Index(s, "/LandingDetail BMC"):]
 		j := strings.Index(s, "/Copper BMC")
-		k := strings.Index(s[max(j, 0):], "EMC")
-		if j < 0 || k < 0 {
+		if j < 0 {
 			continue
 		}
-		return s[j : j+k]
+		if k := strings.Index(s[j:], "EMC"); k >= 0 {
+			return s[j : j+k]
+		}
 	}
 	return ""
 }

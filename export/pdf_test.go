@@ -165,6 +165,13 @@ func pageCount(t *testing.T, info string) int {
 // the pages in order).
 func contentStreams(t *testing.T, pdf []byte) []string {
 	t.Helper()
+	return markedStreams(t, pdf, "/ScaleBar BMC")
+}
+
+// markedStreams is contentStreams for the streams that hold marked
+// content tag (a "/Name BMC" line).
+func markedStreams(t *testing.T, pdf []byte, tag string) []string {
+	t.Helper()
 	var out []string
 	re := regexp.MustCompile(`(?s)stream\r?\n(.*?)\r?\nendstream`)
 	for _, m := range re.FindAllSubmatch(pdf, -1) {
@@ -176,7 +183,7 @@ func contentStreams(t *testing.T, pdf []byte) []string {
 		if err != nil {
 			continue
 		}
-		if s := string(b); strings.Contains(s, "/ScaleBar BMC") {
+		if s := string(b); strings.Contains(s, tag) {
 			out = append(out, s)
 		}
 	}
