@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -83,4 +84,42 @@ func detailCopper(t *testing.T, pdf []byte) string {
 		}
 	}
 	return ""
+}
+
+// Sheet 1 of a grounded-coplanar board fills its pads (the shorted stub's
+// via pad, the stitching vias' pads) in copper, as layout.svg does, and
+// not in the pour's fill, which the last copper polygon drawn (the pour)
+// had left set: every circle in the board views' copper sections is drawn
+// while the copper colour is the fill (PDF 32000-1 §8.5.2: "c" appends a
+// Bézier curve, from memory; the drawing's circles are made of them).
+func TestSheet1PadsInCopper(t *testing.T) {
+	copper := fmt.Sprintf("%.3f %.3f %.3f rg", 0xc9/255.0, 0x8a/255.0, 0x3e/255.0) // colCopper
+	lay, err := geom.Build(coplanarSpec())
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := WritePDF(&buf, fixtureReport(openStub()), lay, fixtureOptions("a4", "scale")); err != nil {
+		t.Fatal(err)
+	}
+	fill := regexp.MustCompile(`[\d.]+ [\d.]+ [\d.]+ rg|\sc\n`)
+	circles := 0
+	for _, s := range markedStreams(t, buf.Bytes(), "/Copper BMC") {
+		for _, sec := range regexp.MustCompile(`(?s)/Copper BMC\n(.*?)EMC`).FindAllStringSubmatch(s, -1) {
+			now := ""
+			for _, op := range fill.FindAllString(sec[1], -1) {
+				if strings.HasSuffix(op, "rg") {
+					now = op
+					continue
+				}
+				circles++
+				if now != copper {
+					t.Fatalf("a pad's curve drawn with fill %q, want the copper's %q", now, copper)
+				}
+			}
+		}
+	}
+	if circles == 0 {
+		t.Fatal("no round pads drawn in the board views' copper")
+	}
 }

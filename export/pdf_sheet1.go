@@ -261,6 +261,9 @@ func (d *doc) drawBoard(b boardModel, v view, measured bool, bounds rect, option
 		}
 		copperPolygon(f, k, v, poly)
 	}
+	if n := len(b.pour); n > 0 && b.pour[n-1] {
+		setFill(f, colCopper) // the pads in copper, as in layout.svg, not in the pour's fill
+	}
 	for _, p := range b.pads {
 		if p.round {
 			f.Circle(v.X(p.c.x), v.Y(p.c.y), v.s*p.w/2, "FD")
