@@ -478,3 +478,33 @@ func TestBandSolveErrorsWrap(t *testing.T) {
 		}
 	}
 }
+
+// A band double stub with no start that keeps two stubs, even with the
+// feed kept, is built from its solution at f0 with a warning that names
+// the single stub: 200+j30 Ω, open, 2.4–2.4835 GHz on fr4-1.6mm with the
+// default 5 mm feed (26.73°), where the band optimisation of both starts
+// shrinks open stub 2 to 0° (or leaves the stubs in parallel), as
+// TestChooseDoubleStubStart's last row does with starts of its own.
+func TestBuildBandDoubleStubWarnsWithoutTwoStubs(t *testing.T) {
+	d := decodeTestDesign(t, `name = "b"
+z0 = 50
+stackup = "fr4-1.6mm"
+[load]
+impedance = "200+j30"
+[match]
+topology = "double-stub"
+stub = "open"
+band = ["2.4GHz", "2.4835GHz"]
+`)
+	r, err := Simulate(context.Background(), BuildInput{Design: d, Stackup: preset(t, "fr4-1.6mm"), Load: ConstantLoad(d.Load.Impedance), SkipTolerance: true, SkipSensitivity: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	warned := false
+	for _, w := range r.Warnings {
+		warned = warned || strings.HasPrefix(w, "no double stub: from each solution at f0 the band optimisation shrank") && strings.Contains(w, "at f0 all the same")
+	}
+	if !warned {
+		t.Errorf("no warning that no start keeps two stubs among %q", r.Warnings)
+	}
+}
