@@ -219,7 +219,7 @@ func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, erro
 	// Thinner copper would shorten the step in proportion and stays a
 	// sheet at h. A solder mask over thick copper follows it (on the
 	// substrate, over the top face and down the walls: conformalFixes).
-	if t := s.CopperThickness; t > 0 && t >= dz*(1-1e-9) {
+	if t := s.CopperThickness; t > 0 && (t >= dz*(1-1e-9) || p.ThinCopper) {
 		z = append(z, h+t)
 		g.KT = nsub + 1
 		first = t
