@@ -79,14 +79,15 @@ func TestCoplanarLineAgainstFieldSolver(t *testing.T) {
 	}
 }
 
-// TestThinCopperOnCoplanarLine checks MeshParams.ThinCopper on gcpw-probe's
-// section (35 µm copper on 0.51 mm, gaps 0.25 mm; the coarse mesh's 85 µm
-// substrate cells would leave it a sheet): drawn with its thickness, the
-// line's εeff and Z0 must lie nearer the 2-D field solver with the 35 µm
-// copper (physical/fieldsolve, an independent electrostatic solution of
-// the cross-section) than the sheet's. Recorded: sheet εeff +4.35 %, Z0
-// +7.56 %; drawn +2.30 %, +4.98 % (normal mesh: +4.23/+7.46 % and
-// +1.77/+4.36 %, one-off): with two or three cells across a gap the
+// TestThinCopperOnCoplanarLine checks the copper a grounded-coplanar
+// board draws with its thickness even where it is thinner than the
+// substrate's z cell, on gcpw-probe's section (35 µm on 0.51 mm, gaps
+// 0.25 mm; the coarse mesh's substrate cells are 85 µm): the line's εeff
+// and Z0 must lie nearer the 2-D field solver with the 35 µm copper
+// (physical/fieldsolve, an independent electrostatic solution of the
+// cross-section) than the zero-thickness sheet's. Recorded: sheet εeff
+// +4.35 %, Z0 +7.56 %; drawn +2.30 %, +4.98 % (normal mesh: +4.23/+7.46 %
+// and +1.77/+4.36 %, one-off): with two or three cells across a gap the
 // copper's facing walls carry about half the field solver's thickness
 // effect, so the coarse mesh misses the at-most-half of the thin board's
 // TestThickCopperAgainstFieldSolver by a hair (0.53) and the normal mesh
@@ -101,19 +102,17 @@ func TestThinCopperOnCoplanarLine(t *testing.T) {
 	zFS, _ := m.Static()
 	eeFS := m.At(f).EpsEff
 	var z, ee [2]float64
-	for i, thin := range []bool{false, true} {
+	for i, th := range []float64{0, tc} {
 		s := gcpwLine(er, h, w, gap, 1.5e-3, f)
-		s.CopperThickness = tc
-		p := Coarse.Params()
-		p.ThinCopper = thin
-		g, err := NewGrid(s, p)
+		s.CopperThickness = th
+		g, err := NewGrid(s, Coarse.Params())
 		if err != nil {
 			t.Fatal(err)
 		}
-		if drawn := g.KT != g.KH; drawn != thin {
-			t.Fatalf("ThinCopper %v: copper drawn %v", thin, drawn)
+		if drawn := g.KT != g.KH; drawn != (th > 0) {
+			t.Fatalf("copper %.0f µm on a coplanar line: drawn %v", th*1e6, drawn)
 		}
-		z[i], ee[i] = measureLine(t, s, p)
+		z[i], ee[i] = measureLine(t, s, Coarse.Params())
 	}
 	t.Logf("field solver (35 µm): εeff %.4f, Z0 %.2f Ω; sheet %+.2f %%, %+.2f %%; drawn %+.2f %%, %+.2f %%",
 		eeFS, zFS, 100*(ee[0]/eeFS-1), 100*(z[0]/zFS-1), 100*(ee[1]/eeFS-1), 100*(z[1]/zFS-1))

@@ -2,9 +2,11 @@
 // for microstrip circuits: a substrate of relative permittivity εr and loss
 // tangent tanδ on a perfectly conducting ground plane, perfectly
 // conducting copper on its top face (a zero-thickness sheet, or with its
-// thickness where that is no less than the substrate's z cell: a z line
+// thickness where that is no less than the substrate's z cell, and on a
+// grounded-coplanar board whatever its thickness: a z line
 // at h + t, tangential E zero on both faces inside the copper and vertical
-// E between them, so the time step is that of the sheet; checked against
+// E between them, the time step that of the sheet (shorter on a coplanar
+// board, where the copper's cell is the smallest); checked against
 // the 2-D field solver physical/fieldsolve), optionally a solder mask
 // (a dielectric layer of its own εr, tanδ and thickness over the whole top
 // face; over copper drawn thick it follows the copper, on the substrate,

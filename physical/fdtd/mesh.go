@@ -58,7 +58,8 @@ type MeshParams struct {
 	// drawing before the thin-wire model; the mesh levels leave it off.
 	NodeVias bool
 	// ThinCopper draws the copper's thickness (Structure.CopperThickness)
-	// even where it is thinner than the substrate's z cell: a z cell of
+	// even where it is thinner than the substrate's z cell, on any board
+	// (a grounded-coplanar board's is drawn anyway: NewGrid): a z cell of
 	// the copper's own thickness, which shortens the time step (gcpw-probe's
 	// 35 µm on its 64 µm cells of the normal mesh: 0.70× the step). The
 	// mesh levels leave it off.

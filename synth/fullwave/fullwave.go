@@ -6,8 +6,9 @@
 // What the full-wave model leaves out, and says so in Report.Notes: the
 // copper's conductivity (it is a perfect conductor; its thickness, the
 // stackup's, is drawn where the mesh's substrate cells are no taller, as
-// on thin boards, a solder mask then following it over its top and down
-// its walls; elsewhere it is a zero-thickness sheet), the solder mask's
+// on thin boards, and on a grounded-coplanar board, a solder mask then
+// following it over its top and down its walls; elsewhere it is a
+// zero-thickness sheet), the solder mask's
 // openings (a mask over the RF copper is one layer over the whole top
 // face, port pads included, as the circuit model's masked lines are), and
 // the board's outline (the substrate and
