@@ -89,11 +89,12 @@ type copperTop struct {
 	polys [][]edgeSeg
 	boxes [][4]float64 // each polygon's bounding box: x0, y0, x1, y1
 	edges []edgeSeg
-	m     float64 // mask thickness: the wall band's width
 }
 
-func newCopperTop(s Structure, m float64) *copperTop {
-	c := &copperTop{m: m}
+// newCopperTop returns the copper of s as edges, by polygon and all
+// together.
+func newCopperTop(s Structure) *copperTop {
+	c := &copperTop{}
 	for _, p := range s.Copper {
 		var es []edgeSeg
 		b := [4]float64{math.Inf(1), math.Inf(1), math.Inf(-1), math.Inf(-1)}
@@ -189,9 +190,10 @@ func dualSpan(lines []float64, i int) (lo, hi float64) {
 	return lo, hi
 }
 
-// conformalLayers is the layering of one column kind: the complex
-// relative permittivity at F0 of each z piece, and whether a piece is
-// copper.
+// conformalLayers holds what the column kinds' layering is made of: the
+// plane's height h, the copper's thickness t and the mask's m (m), and
+// the complex relative permittivities ε − jσ/(ω0·ε0) of the substrate and
+// the mask at F0.
 type conformalLayers struct {
 	h, t, m  float64
 	sub, msk complex128
@@ -302,7 +304,7 @@ func conformalFixes(g *Grid, s Structure, caT, cbT, caZ, cbZ []float32, pec [3][
 		return complex(er, -er*tand)
 	}
 	l := conformalLayers{h: h, t: t, m: m, sub: perm(s.Er, s.TanD), msk: perm(s.Mask.Er, s.Mask.TanD)}
-	top := newCopperTop(g.ext, m)
+	top := newCopperTop(g.ext)
 	at := func(i, j, k int) int32 { return int32((i*ny+j)*nz + k) }
 	for axis := 0; axis < 3; axis++ {
 		// The component's cell across x and y, and the z indices whose
@@ -419,15 +421,12 @@ func conformalFixes(g *Grid, s Structure, caT, cbT, caZ, cbZ []float32, pec [3][
 					}
 					zlo, zhi := zspan(k)
 					e, ok := l.average(cell, axis, zlo, zhi)
-					if !ok {
+					if !ok || cmplx.IsNaN(e) {
 						continue
 					}
 					sg := 0.0
 					if w > 0 {
 						sg = -imag(e) * w * eps0
-					}
-					if cmplx.IsNaN(e) {
-						continue
 					}
 					ca, cb := coef(real(e), sg)
 					ca0, cb0 := caT[k], cbT[k]
