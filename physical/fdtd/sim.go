@@ -157,6 +157,15 @@ func timeStep(g *Grid) float64 {
 	return 0.9 / (c0 * math.Sqrt(1/(dx*dx)+1/(dy*dy)+1/(dz*dz)))
 }
 
+// eCoef returns the E update coefficients ca and cb of a medium of
+// relative permittivity er and conductivity sg (S/m) at time step dt
+// (the semi-implicit loss term of Taflove and Hagness, ch. 3).
+func eCoef(er, sg, dt float64) (ca, cb float32) {
+	e := eps0 * er
+	q := sg * dt / (2 * e)
+	return float32((1 - q) / (1 + q)), float32(dt / e / (1 + q))
+}
+
 // newSim allocates the fields and coefficients for grid g.
 func newSim(g *Grid, s Structure, workers int) *sim {
 	if workers <= 0 {
@@ -196,11 +205,7 @@ func newSim(g *Grid, s Structure, workers int) *sim {
 	}
 	m.dtmu = float32(dt / mu0)
 	// Materials by z (substrate, mask, air; see zMaterials).
-	coef := func(er, sg float64) (float32, float32) {
-		e := eps0 * er
-		q := sg * dt / (2 * e)
-		return float32((1 - q) / (1 + q)), float32(dt / e / (1 + q))
-	}
+	coef := func(er, sg float64) (float32, float32) { return eCoef(er, sg, dt) }
 	m.caT, m.cbT = make([]float32, nz), make([]float32, nz)
 	m.caZ, m.cbZ = make([]float32, nz), make([]float32, nz)
 	erT, sgT, erZ, sgZ := zMaterials(g, s)
