@@ -183,3 +183,69 @@ func TestNodeViasIsTheRecordedDrawing(t *testing.T) {
 		t.Errorf("single node: %.1f pH, want the recorded 264 pH", L)
 	}
 }
+
+// TestColumnLatticePotentials checks the node potentials columnLattice
+// solves, which the factor of every link is taken from (α_l = u_l/(u_l +
+// I·c)), beyond the one figure TestColumnLattice holds: round a lone node
+// of the infinite square lattice of unit conductances the potential drop
+// to node (p, q) per unit current is half the two-point resistance R(p,
+// q), exactly R(1,0) = 1/2, R(1,1) = 2/π and R(2,0) = 2 − 4/π (G. Venezian,
+// Am. J. Phys. 62(11), 1994, and J. Cserti, Am. J. Phys. 68(10), 2000;
+// from memory). The circle held at 1 cell 14 out changes them by less
+// than the tolerance.
+func TestColumnLatticePotentials(t *testing.T) {
+	n := wireWindow
+	xs := uniformLines(n)
+	_, current, u, ok := columnLattice(xs, xs, 0, 0, [][2]int{{n, n}})
+	if !ok {
+		t.Fatal("one node: no network")
+	}
+	ny := len(xs)
+	for _, c := range []struct {
+		p, q int
+		r    float64 // two-point resistance, exact
+	}{
+		{1, 0, 0.5},
+		{0, -1, 0.5},
+		{1, 1, 2 / math.Pi},
+		{-1, 1, 2 / math.Pi},
+		{2, 0, 2 - 4/math.Pi},
+		{0, -2, 2 - 4/math.Pi},
+	} {
+		got := u[(n+c.p)*ny+n+c.q] / current
+		if want := c.r / 2; math.Abs(got/want-1) > 1e-3 {
+			t.Errorf("node (%d, %d): potential %.5f per unit current, want %.5f (exact)", c.p, c.q, got, want)
+		}
+	}
+}
+
+// TestSquareConformalRadius checks the 1.0787 that columnRadius holds its
+// square border to (recalled from the round conductor in a square screen)
+// against its exact value: the Schwarz–Christoffel map of the unit disc
+// onto a square, z ↦ C∫dz/√(1 + z⁴), sends e^(iπ/4) to the corner at
+// C·∫₀¹dt/√(1 − t⁴), so a square of half side m has the conformal radius
+// C = √2·m/∫₀¹dt/√(1 − t⁴) = 1.07870·m (exact; the integral is half the
+// lemniscate constant, 1.31103). The integral is taken here with t = 1 −
+// v², which leaves a smooth integrand.
+func TestSquareConformalRadius(t *testing.T) {
+	f := func(v float64) float64 {
+		w := 1 - v*v
+		return 2 / math.Sqrt((2-v*v)*(1+w*w))
+	}
+	const n = 2000 // Simpson intervals on [0, 1]
+	sum := f(0) + f(1)
+	for i := 1; i < n; i++ {
+		w := 2.0
+		if i%2 == 1 {
+			w = 4
+		}
+		sum += w * f(float64(i)/n)
+	}
+	integral := sum / (3 * n)
+	if math.Abs(integral-1.3110287771461) > 1e-9 {
+		t.Fatalf("∫₀¹dt/√(1 − t⁴) = %.12f, want half the lemniscate constant 1.311028777146", integral)
+	}
+	if r := math.Sqrt2 / integral; math.Abs(r-1.0787) > 5e-5 {
+		t.Errorf("conformal radius of the square %.5f of its half side; columnRadius uses 1.0787", r)
+	}
+}
