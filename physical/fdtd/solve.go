@@ -66,6 +66,11 @@ type Result struct {
 // result.
 var ErrNotConverged = errors.New("fdtd: run did not converge")
 
+// ErrUnstable is returned when a run's fields grew without bound (their
+// energy no longer finite): the update was numerically unstable, and the
+// S-parameters are not a result.
+var ErrUnstable = errors.New("fdtd: fields grew without bound")
+
 // MemoryError says that a grid would need more memory than allowed.
 type MemoryError struct {
 	Cells int
@@ -113,7 +118,8 @@ type probeSet struct {
 }
 
 // Solve runs the two excitations of s and returns its S-parameters. It
-// returns ErrNotConverged (wrapped) when a run hits the step limit, a
+// returns ErrNotConverged (wrapped) when a run hits the step limit,
+// ErrUnstable (wrapped) when a run's fields grow without bound, a
 // *MemoryError when the grid is too big, and ctx's error when cancelled.
 func Solve(ctx context.Context, s Structure, o Options) (*Result, error) {
 	o = o.withDefaults()
@@ -399,6 +405,11 @@ func runOnce(ctx context.Context, g *Grid, s Structure, o Options, p, runIdx, ru
 				return out, n + 1, err
 			}
 			e := m.energy()
+			if math.IsInf(e, 0) || math.IsNaN(e) {
+				// An unstable run's energy overflows long before its fields
+				// do: as the peak it would pass the decay test below.
+				return out, n + 1, fmt.Errorf("%w: run %d of %d, step %d: the field energy is %v", ErrUnstable, runIdx+1, runs, n+1, e)
+			}
 			peak = math.Max(peak, e)
 			if peak > 0 {
 				energyDB = 10 * math.Log10(math.Max(e/peak, 1e-30))

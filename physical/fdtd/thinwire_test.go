@@ -2,8 +2,10 @@ package fdtd
 
 import (
 	"context"
+	"errors"
 	"math"
 	"testing"
+	"time"
 
 	"stubcraft/physical"
 )
@@ -247,5 +249,32 @@ func TestSquareConformalRadius(t *testing.T) {
 	}
 	if r := math.Sqrt2 / integral; math.Abs(r-1.0787) > 5e-5 {
 		t.Errorf("conformal radius of the square %.5f of its half side; columnRadius uses 1.0787", r)
+	}
+}
+
+// TestUnstableRunIsAnError: a run whose fields grow without bound (here
+// a thin-wire factor of 10⁵ on a lone via's links, far past their Courant
+// bound, coarse) is an error, ErrUnstable, found at the first energy
+// check. Before, a NaN energy passed no test and the run went on to its
+// step limit (ErrNotConverged, 0.0 dB), and an energy that overflowed to
+// +Inf before the fields did became its own peak and passed the decay
+// test: a blown-up run returned as converged (seen with the thin-wire
+// factors of viaCases[3] run to −70 dB).
+func TestUnstableRunIsAnError(t *testing.T) {
+	s := viaBoard(viaCases[3])
+	g, err := NewGrid(s, Coarse.Params())
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(g.wires) == 0 {
+		t.Fatal("no thin-wire links on the lone via")
+	}
+	for n := range g.wires {
+		g.wires[n].alpha = 1e5
+	}
+	o := Options{MaxSteps: 20000, Workers: 1}.withDefaults()
+	_, steps, err := runOnce(context.Background(), g, s, o, 0, 0, 1, time.Now())
+	if !errors.Is(err, ErrUnstable) {
+		t.Errorf("after %d steps: error %v, want ErrUnstable", steps, err)
 	}
 }
