@@ -46,7 +46,7 @@ func (r *Result) GeomSpec() geom.Spec {
 		Mask:          d.Layout.Mask.String(),
 		MaskExpansion: MaskExpansion,
 	}
-	var portWidth float64
+	var portWidth, sourceWidth float64
 	for _, e := range r.Physical.Elements {
 		if e.Role == RoleStub {
 			st := geom.Stub{ID: e.ID, At: e.At, Width: e.Width, Length: e.Drawn(), Side: side}
@@ -64,6 +64,7 @@ func (r *Result) GeomSpec() geom.Spec {
 		if portWidth == 0 {
 			portWidth = e.Width
 		}
+		sourceWidth = e.Width
 		s.Segments = append(s.Segments, geom.Segment{ID: e.ID, Width: e.Width, Length: e.Drawn()})
 	}
 	if r.Stackup.Line == stackups.GCPW {
@@ -77,7 +78,9 @@ func (r *Result) GeomSpec() geom.Spec {
 		s.StitchPitch = min(geom.StitchMaxPitch(epsEff, d.Freq), geom.DefaultStitchPitch)
 	}
 	if d.Layout.FeedLength >= PortPadLength {
-		s.PortPad = geom.PadSpec{Width: portWidth, Length: PortPadLength}
+		// Each pad is its port line's width: the two differ where the
+		// feeds do (a transformer from a low load impedance).
+		s.PortPad = geom.PadSpec{Width: portWidth, SourceWidth: sourceWidth, Length: PortPadLength}
 	}
 	if d.Layout.Port == PortEdge {
 		g := d.Layout.Launch.Resolve(d.Layout, portWidth)

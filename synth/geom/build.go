@@ -33,6 +33,11 @@ func Build(s Spec) (Layout, error) {
 		if err := checkLaunch(*s.Launch); err != nil {
 			return Layout{}, err
 		}
+		if n := len(s.Segments); n > 1 {
+			if a, b := Nanometres(s.Segments[0].Width), Nanometres(s.Segments[n-1].Width); a != b {
+				return Layout{}, specErr("Launch", ErrRange, "an edge launch lands one connector at each end, but the load's port line is %s mm wide and the source's %s mm: draw port pads, or end both feeds in lines of one impedance", mm(a), mm(b))
+			}
+		}
 		s.PortPad = PadSpec{Width: s.Launch.PadWidth, Length: s.Launch.PadLength}
 	}
 	if err := check(s); err != nil {
@@ -58,7 +63,8 @@ func Build(s Spec) (Layout, error) {
 		x += l
 	}
 	boardX := x
-	padW, padL := Nanometres(s.PortPad.Width), Nanometres(s.PortPad.Length)
+	padWs, padL := s.PortPad.widths(), Nanometres(s.PortPad.Length)
+	padW := padWs[0] // the launch's pad (one width at both ends)
 	hasPad := padW > 0
 	// landX is how far from each board edge the port's copper keeps the
 	// stubs away: the port pad, or the edge-launch landing with its gap.
@@ -72,7 +78,9 @@ func Build(s Spec) (Layout, error) {
 		up, down = maxI(up, g.hi), maxI(down, -g.lo)
 	}
 	if hasPad {
-		up, down = maxI(up, -(padW/2)+padW), maxI(down, padW/2)
+		for _, w := range padWs {
+			up, down = maxI(up, -(w/2)+w), maxI(down, w/2)
+		}
 	}
 	if s.Launch != nil {
 		e := landingExtent(*s.Launch, padW)
@@ -240,9 +248,9 @@ func Build(s Spec) (Layout, error) {
 	if hasPad {
 		for i, cx := range []int64{padL / 2, boardX - padL + padL/2} {
 			c := Point{cx, yc}
-			pin := [2]string{PinLoad, PinSource}[i]
-			l.Pads = append(l.Pads, Pad{Net: NetRF, Function: SMDPad, Center: c, W: padL, H: padW, Pin: pin})
-			padRects = append(padRects, Rect{Point{cx - padL/2, yc - padW/2}, Point{cx - padL/2 + padL, yc - padW/2 + padW}})
+			pin, w := [2]string{PinLoad, PinSource}[i], padWs[i]
+			l.Pads = append(l.Pads, Pad{Net: NetRF, Function: SMDPad, Center: c, W: padL, H: w, Pin: pin})
+			padRects = append(padRects, Rect{Point{cx - padL/2, yc - w/2}, Point{cx - padL/2 + padL, yc - w/2 + w}})
 		}
 	}
 	mask = append(mask, padRects...)
@@ -474,6 +482,9 @@ func check(s Spec) error {
 			return err
 		}
 		if err := pos("PortPad.Length", p.Length); err != nil {
+			return err
+		}
+		if err := nonNeg("PortPad.SourceWidth", p.SourceWidth); err != nil {
 			return err
 		}
 		var total float64

@@ -133,6 +133,7 @@ func TestBuildRefuses(t *testing.T) {
 		{"unknown mask", func(s *Spec) { s.Mask = "half" }, "Mask", ErrRange},
 		{"pad without length", func(s *Spec) { s.PortPad.Length = 0 }, "PortPad.Length", ErrSize},
 		{"port pads longer than the line", func(s *Spec) { s.PortPad.Length = 9e-3 }, "PortPad.Length", ErrOverlap},
+		{"negative source pad width", func(s *Spec) { s.PortPad.SourceWidth = -1e-3 }, "PortPad.SourceWidth", ErrSize},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
@@ -204,5 +205,40 @@ func BenchmarkBuild(b *testing.B) {
 		if _, err := Build(s); err != nil {
 			b.Fatal(err)
 		}
+	}
+}
+
+// TestPortPadsPerEnd checks that each port pad is drawn at its own width
+// (PadSpec.SourceWidth) and that the board's extent follows the wider: a
+// transformer's load and source port lines differ (a 16.7 mm pad at the
+// source of a 3 mm line is a large shunt capacitance the circuit model
+// does not have).
+func TestPortPadsPerEnd(t *testing.T) {
+	for _, tt := range []struct {
+		name         string
+		load, source float64  // PadSpec.Width, SourceWidth, m
+		want         [2]int64 // pad heights at the load and source, nm
+	}{
+		{"one width", 2e-3, 0, [2]int64{2000000, 2000000}},
+		{"wider source", 2e-3, 3e-3, [2]int64{2000000, 3000000}},
+		{"narrower source", 3e-3, 1.5e-3, [2]int64{3000000, 1500000}},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			s := refSpec()
+			s.PortPad.Width, s.PortPad.SourceWidth = tt.load, tt.source
+			l, err := Build(s)
+			if err != nil {
+				t.Fatal(err)
+			}
+			got := map[string]int64{}
+			for _, p := range l.Pads {
+				if p.Function == SMDPad && p.Net == NetRF {
+					got[p.Pin] = p.H
+				}
+			}
+			if got[PinLoad] != tt.want[0] || got[PinSource] != tt.want[1] {
+				t.Errorf("pad heights load %d nm, source %d nm; want %d, %d", got[PinLoad], got[PinSource], tt.want[0], tt.want[1])
+			}
+		})
 	}
 }

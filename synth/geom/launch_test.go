@@ -131,6 +131,8 @@ func TestLaunchRefused(t *testing.T) {
 	near.Stubs[1].At, near.Segments[0].Length = 0, 2.9e-3 // s2 at x 2.4..3.4 mm
 	touching := launchSpec()
 	touching.Launch.ViaPitch = 0.3e-3
+	unequal := launchSpec()
+	unequal.Segments[3].Width = 1.5e-3 // the source's feed narrower than the load's
 	for _, tt := range []struct {
 		name string
 		s    Spec
@@ -139,6 +141,7 @@ func TestLaunchRefused(t *testing.T) {
 		{"pad narrower than the feed", narrow, ErrOverlap},
 		{"stub in the landing", near, ErrOverlap},
 		{"holes touch", touching, ErrVia},
+		{"port lines of two widths", unequal, ErrRange},
 	} {
 		if _, err := Build(tt.s); !errors.Is(err, tt.want) {
 			t.Errorf("%s: err %v, want %v", tt.name, err, tt.want)

@@ -130,8 +130,20 @@ func (v ViaSpec) offsets() []int64 {
 	return o
 }
 
-// PadSpec is a rectangular port pad: Length along the line (x) from the
-// board edge, Width across it (y).
+// PadSpec is the rectangular port pad on each end of the through line:
+// Length along the line (x) from the board edge, Width across it (y) at the
+// load port (x = 0), SourceWidth at the source port (0: Width). The two
+// differ when the port lines do (a transformer from a low load impedance).
 type PadSpec struct {
 	Width, Length float64
+	SourceWidth   float64
+}
+
+// widths returns the load and source pads' widths, nm.
+func (p PadSpec) widths() [2]int64 {
+	w := [2]int64{Nanometres(p.Width), Nanometres(p.SourceWidth)}
+	if p.SourceWidth == 0 {
+		w[1] = w[0]
+	}
+	return w
 }
