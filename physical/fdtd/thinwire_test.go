@@ -61,11 +61,11 @@ func TestThinWireFactorUniform(t *testing.T) {
 	for _, x := range uniformLines(30) {
 		ls = append(ls, x*d)
 	}
-	// Thin z cells: a short time step, so that every factor here keeps
-	// the local Courant bound (wireStable).
-	g := &Grid{X: ls, Y: ls, Z: []float64{0, 20e-6, 40e-6, 60e-6}, KH: 3}
+	g := &Grid{X: ls, Y: ls, Z: []float64{0, 0.1e-3, 0.2e-3, 0.3e-3}, KH: 3}
 	a0 := math.Exp(-0.5772156649015329) / (2 * math.Sqrt2) * d
-	for _, r0 := range []float64{0.05e-3, 0.08e-3, 0.12e-3} {
+	// Drills thinner than the node's 0.0397 mm: factors below 1 (a drill
+	// wider gets more nodes, maxWireFactor).
+	for _, r0 := range []float64{0.01e-3, 0.02e-3, 0.035e-3} {
 		links, _, _ := wireLinks(g, []Via{{Diameter: int64(math.Round(2 * r0 * 1e9))}}, 0)
 		want := 1 / (1 + 2/math.Pi*math.Log(a0/r0))
 		if len(links) != 4 {
