@@ -62,11 +62,19 @@ import (
 
 // maxWireFactor is the largest thin-wire factor α applied to a link: 1.
 // A factor below 1 raises the link's μ (a series inductance), which can
-// only slow the waves, so the scheme stays within the Courant bound of the
-// plain grid whatever the factors; a factor above 1 is a faster link. With
-// factors up to 4 kept within a local Courant bound, a lone via
-// (viaCases[3], factors 2.5–3.7) run on to −70 dB grew back past its peak.
-// So a via whose drill is wider than its drawn column's effective radius
+// only slow the waves (the symmetric operator ε^−½·Cᵀ·μ⁻¹·C·ε^−½ of the
+// update only decreases, so its largest eigenvalue does not grow and the
+// plain grid's Courant bound holds whatever the factors); a factor above 1
+// is a faster link, and no local bound was found safe: the form
+// c·Δt·√(α/d² + 1/w² + 1/Δz²) ≤ 1 leaves out that the link's Δz term is
+// scaled too, and a one-off Yee box in vacuum (square cells in x, y, Δz =
+// Δ/2, 0.9 of the Courant step, α on the four links of a column) grew
+// without bound at α = 2.2, which that form allows (up to 2.42 there),
+// and stayed bounded at 1.7 (a substrate's εr widens the margin: 4 stayed
+// bounded at εr 2.2). The lone via of viaCases[3] (factors 2.5–3.7) that grew back
+// past its peak run on to −70 dB (37e2164) had the factor on the Ez term
+// alone (8bf2300); with the link's μ divided it ran clean to −80 dB. So a
+// via whose drill is wider than its drawn column's effective radius
 // gets more nodes (wireLinks) until the column is at least as fat as the
 // drill, and its links are then slowed to the drill's radius.
 const maxWireFactor = 1.0
