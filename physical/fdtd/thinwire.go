@@ -320,6 +320,35 @@ func wireLinks(g *Grid, vias []Via, divisions int) (links []wireLink, cols [][][
 			}
 		}
 	}
+	// Columns of neighbouring vias may touch (a row's pitch is about two
+	// cells): a link whose free node is another via's is not a link (its
+	// Ez is zero too), and a link two vias share gets one factor, the
+	// larger, so that no H component is corrected twice.
+	inAny := map[[2]int]bool{}
+	for _, c := range cols {
+		for _, q := range c {
+			inAny[q] = true
+		}
+	}
+	type hKey struct {
+		i, j   int
+		alongX bool
+	}
+	keep := map[hKey]int{}
+	var merged []wireLink
+	for _, l := range links {
+		if inAny[[2]int{l.fi, l.fj}] {
+			continue
+		}
+		k := hKey{l.i, l.j, l.alongX}
+		if n, ok := keep[k]; ok {
+			merged[n].alpha = math.Max(merged[n].alpha, l.alpha)
+			continue
+		}
+		keep[k] = len(merged)
+		merged = append(merged, l)
+	}
+	links = merged
 	if wide > 0 {
 		notes = append(notes, fmt.Sprintf("%d via(s) too wide for the thin-wire model on this mesh: drawn as the grid nodes within the drill, a thinner post than drilled", wide))
 	}
