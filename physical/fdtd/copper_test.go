@@ -205,11 +205,12 @@ func transpose(k [][]int) [][]int {
 }
 
 // TestFixesAreTheirOwnUpdate checks the kernel's corrections against an
-// exact statement of what they must do: giving every tangential E
-// component of one z index (absorbing layers included) the coefficients
-// of another material through fixes must give the fields of a run whose
-// z layer itself has those coefficients, to float32 rounding, on two
-// workers (the corrections are split by slab like the update).
+// exact statement of what they must do: giving every E component of one
+// z index (absorbing layers included; Ex, Ey and Ez, which have their own
+// layer coefficients and CPML terms) the coefficients of another material
+// through fixes must give the fields of a run whose z layer itself has
+// those coefficients, to float32 rounding, on two workers (the
+// corrections are split by slab like the update).
 func TestFixesAreTheirOwnUpdate(t *testing.T) {
 	s := straight(4.35, 0.8e-3, 1.5e-3, 4e-3, []float64{5e9, 10e9, 15e9})
 	g, err := NewGrid(s, Coarse.Params())
@@ -222,6 +223,7 @@ func TestFixesAreTheirOwnUpdate(t *testing.T) {
 	k := g.KH + 1
 	ca, cb := eCoef(2.5, 0.3, layer.dt)
 	layer.caT[k], layer.cbT[k] = ca, cb
+	layer.caZ[k], layer.cbZ[k] = ca, cb
 	for i := 0; i < fixed.nx-1; i++ {
 		for j := 1; j < fixed.ny-1; j++ {
 			c := int32((i*fixed.ny+j)*fixed.nz + k)
@@ -229,6 +231,7 @@ func TestFixesAreTheirOwnUpdate(t *testing.T) {
 			fixed.fixes[0] = append(fixed.fixes[0], f)
 			if i >= 1 {
 				fixed.fixes[1] = append(fixed.fixes[1], f)
+				fixed.fixes[2] = append(fixed.fixes[2], fix{cell: c, ca: ca, cbr: cb / fixed.cbZ[k], ca0: fixed.caZ[k]})
 			}
 		}
 	}
