@@ -341,3 +341,55 @@ func TestThinWireLeavesStaticFieldsStatic(t *testing.T) {
 		}
 	}
 }
+
+// TestThinWireTouchingColumns: two vias two cells apart whose drills
+// (0.9 of a cell) make each column grow to its four neighbours, so the
+// columns share a node. No H component may be corrected twice (twice
+// corrected, one got α1 + α2 − 1 < 0 and every verify of a via row blew
+// up), no link may end on another via's node, and every factor lies in
+// (0, 1].
+func TestThinWireTouchingColumns(t *testing.T) {
+	const d = 0.2e-3
+	var ls []float64
+	for _, x := range uniformLines(30) {
+		ls = append(ls, x*d)
+	}
+	g := &Grid{X: ls, Y: ls, Z: []float64{0, 0.1e-3, 0.2e-3, 0.3e-3}, KH: 3}
+	dia := int64(math.Round(2 * 0.9 * d * 1e9))
+	vias := []Via{{Center: Point{X: 0, Y: 0}, Diameter: dia}, {Center: Point{X: int64(math.Round(2 * d * 1e9)), Y: 0}, Diameter: dia}}
+	links, cols, notes := wireLinks(g, vias, 0)
+	if len(notes) > 0 {
+		t.Fatalf("notes %v", notes)
+	}
+	shared := false
+	inCol := map[[2]int]int{}
+	for vi, c := range cols {
+		for _, q := range c {
+			if w, ok := inCol[q]; ok && w != vi {
+				shared = true
+			}
+			inCol[q] = vi
+		}
+	}
+	if !shared {
+		t.Fatalf("columns %v share no node: the case does not test what it should", cols)
+	}
+	type hKey struct {
+		i, j   int
+		alongX bool
+	}
+	seen := map[hKey]bool{}
+	for _, l := range links {
+		k := hKey{l.i, l.j, l.alongX}
+		if seen[k] {
+			t.Errorf("H component %+v corrected twice", k)
+		}
+		seen[k] = true
+		if _, ok := inCol[[2]int{l.fi, l.fj}]; ok {
+			t.Errorf("link %+v ends on a via's node", l)
+		}
+		if !(l.alpha > 0 && l.alpha <= 1) {
+			t.Errorf("link %+v: factor %.3f outside (0, 1]", l, l.alpha)
+		}
+	}
+}
