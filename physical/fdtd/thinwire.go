@@ -276,13 +276,22 @@ func columnLattice(xs, ys []float64, cx, cy float64, col [][2]int) (a, current f
 //
 // A via is drawn as the nodes within its radius, as without the model.
 // When a link would then need a factor above maxWireFactor (the drawn
-// column thinner than the drill), the free node of every such link and
-// its mirror through the centre node are drawn too (the column stays
-// centred), ring by ring, until every link fits: the drawn column is then
-// at least as fat as the drill, and its links get factors below 1 (a
-// series resistance, which costs no stability). A via that fits with no
-// ring of up to maxWireRings is drawn as its nodes within the radius,
-// uncorrected, with a warning.
+// column thinner than the drill), the failing links' free nodes nearest
+// the via's centre are drawn too, each with the node nearest its mirror
+// image through the centre, step by step, until every link fits: the
+// drawn column is then at least as fat as the drill, and its links get
+// factors below 1 (a series resistance, which costs no stability). The
+// column grows as a disc round the drill, by distance, not by grid index:
+// the grid round a via is often graded differently on its sides (fine
+// toward a pad's far edge, coarse back along the stub the via ends), and
+// growing whole rings mirrored by index drew sensor-antenna-by-hand's
+// 0.3 mm via 0.79 mm back along its 0.246 mm stub (coarse mesh), shorting
+// the stub early: best match +2.05 % from f0 (coarse), +0.62 % with the
+// column a disc. So a mirror node more than maxMirrorReach times farther
+// from the centre than the node it mirrors is left out (the column is
+// then a little off-centre). A via that does not fit within maxWireNodes
+// nodes is drawn as its nodes within the radius, uncorrected, with a
+// warning.
 func wireLinks(g *Grid, vias []Via, divisions int) (links []wireLink, cols [][][2]int, notes []string) {
 	wide := 0
 	cols = make([][][2]int, len(vias))
@@ -297,24 +306,38 @@ func wireLinks(g *Grid, vias []Via, divisions int) (links []wireLink, cols [][][
 		ia, ib := max(i0-wireWindow, 0), min(i0+wireWindow, len(g.X)-1)
 		ja, jb := max(j0-wireWindow, 0), min(j0+wireWindow, len(g.Y)-1)
 		col := cols[vi]
-		for ring := 0; ; ring++ {
+		for {
 			mine, failed := columnLinks(g, col, cx, cy, r0, ia, ib, ja, jb)
 			if len(failed) == 0 && mine != nil {
 				links = append(links, mine...)
 				cols[vi] = col
 				break
 			}
-			if ring == maxWireRings || mine == nil {
+			if len(col) >= maxWireNodes || mine == nil {
 				wide++
 				break
 			}
-			// Draw the free node of every failing link and its mirror
-			// through the centre node, so the column stays centred.
-			col = append([][2]int(nil), col...)
+			// Draw the failing links' free nodes nearest the via's centre
+			// (those within a part in a thousand of the nearest one's
+			// distance), so the column grows as a disc round the drill
+			// whatever the grading on each side.
+			dist := func(q [2]int) float64 { return math.Hypot(g.X[q[0]]-cx, g.Y[q[1]]-cy) }
+			dmin := math.Inf(1)
 			for _, f := range failed {
-				for _, q := range [][2]int{f, {2*i0 - f[0], 2*j0 - f[1]}} {
-					if q[0] > ia && q[0] < ib && q[1] > ja && q[1] < jb && !slices.Contains(col, q) {
-						col = append(col, q)
+				dmin = math.Min(dmin, dist(f))
+			}
+			col = append([][2]int(nil), col...)
+			for _, q := range failed {
+				if dist(q) > dmin*(1+1e-3) {
+					continue
+				}
+				m := [2]int{nearest(g.X, 2*cx-g.X[q[0]]), nearest(g.Y, 2*cy-g.Y[q[1]])}
+				for _, p := range [][2]int{q, m} {
+					if p == m && dist(m) > maxMirrorReach*dist(q) {
+						continue
+					}
+					if p[0] > ia && p[0] < ib && p[1] > ja && p[1] < jb && !slices.Contains(col, p) {
+						col = append(col, p)
 					}
 				}
 			}
@@ -355,9 +378,18 @@ func wireLinks(g *Grid, vias []Via, divisions int) (links []wireLink, cols [][][
 	return links, cols, notes
 }
 
-// maxWireRings is how many rings of nodes wireLinks adds to a via's column
-// at most.
-const maxWireRings = 3
+// maxWireNodes is how many nodes wireLinks draws a via's column with at
+// most.
+const maxWireNodes = 64
+
+// maxMirrorReach is how many times farther from a via's centre than a
+// node the node drawn as its mirror may lie. Chosen here: the lone vias
+// of TestThinWireVia need their mirrors at 1.25 and 1.30 times (a grid
+// graded 311/388 µm and 233/302 µm on the two sides; without them the
+// column is off-centre and 40 pH high against Goldfarb-Pucel), and
+// sensor-antenna-by-hand's coarse grid must not take the one at 1.65
+// (208 µm toward the pad's edge, 344 µm back along the stub).
+const maxMirrorReach = 1.5
 
 // columnLinks returns the thin-wire links of the column col of a via of
 // radius r0 centred at (cx, cy), solved on the grid lines [ia, ib] ×
