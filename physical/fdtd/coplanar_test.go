@@ -4,7 +4,6 @@ import (
 	"math"
 	"testing"
 
-	"stubcraft/physical"
 	"stubcraft/physical/fieldsolve"
 )
 
@@ -64,12 +63,7 @@ func TestCoplanarLineAgainstFieldSolver(t *testing.T) {
 	const er, h, w, gap, f = 3.5, 0.51e-3, 0.8467e-3, 0.25e-3, 5.8e9
 	z, ee := measureLine(t, gcpwLine(er, h, w, gap, 1.5e-3, f), Coarse.Params())
 	cs := fieldsolve.CrossSection{Geometry: fieldsolve.GCPW, Width: w, Height: h, Er: er, Gap: gap}
-	m, err := fieldsolve.NewLineModelOptions(cs, physical.Substrate{Er: er, Height: h}, nil, fieldsolve.Options{Tolerance: 0.002})
-	if err != nil {
-		t.Fatal(err)
-	}
-	zFS, _ := m.Static()
-	eeFS := m.At(f).EpsEff
+	zFS, eeFS := fieldSolverLine(t, cs, f, 0.002)
 	t.Logf("coplanar line: Z0 %.2f Ω (field solver %.2f), εeff %.4f (%.4f)", z, zFS, ee, eeFS)
 	if e := ee/eeFS - 1; math.Abs(e) > 0.005 {
 		t.Errorf("εeff %.4f, field solver %.4f: off by %+.2f %%, want within 0.5 %%", ee, eeFS, 100*e)
@@ -95,12 +89,7 @@ func TestCoplanarLineAgainstFieldSolver(t *testing.T) {
 func TestThinCopperOnCoplanarLine(t *testing.T) {
 	const er, h, w, gap, f, tc = 3.5, 0.51e-3, 0.8467e-3, 0.25e-3, 5.8e9, 35e-6
 	cs := fieldsolve.CrossSection{Geometry: fieldsolve.GCPW, Width: w, Height: h, Er: er, Gap: gap, Thickness: tc}
-	m, err := fieldsolve.NewLineModelOptions(cs, physical.Substrate{Er: er, Height: h}, nil, fieldsolve.Options{Tolerance: 0.002})
-	if err != nil {
-		t.Fatal(err)
-	}
-	zFS, _ := m.Static()
-	eeFS := m.At(f).EpsEff
+	zFS, eeFS := fieldSolverLine(t, cs, f, 0.002)
 	var z, ee [2]float64
 	for i, th := range []float64{0, tc} {
 		s := gcpwLine(er, h, w, gap, 1.5e-3, f)

@@ -23,12 +23,7 @@ func TestThickCopperAgainstFieldSolver(t *testing.T) {
 	w := wh * h
 	f := 1e9 * 1e-3 / h
 	cs := fieldsolve.CrossSection{Geometry: fieldsolve.Microstrip, Width: w, Height: h, Er: er, Thickness: tc}
-	m, err := fieldsolve.NewLineModelOptions(cs, physical.Substrate{Er: er, Height: h}, nil, fieldsolve.Options{Tolerance: 0.001})
-	if err != nil {
-		t.Fatal(err)
-	}
-	zFS, _ := m.Static()
-	eeFS := m.At(f).EpsEff
+	zFS, eeFS := fieldSolverLine(t, cs, f, 0.001)
 	var ee, z [2]float64
 	for i, th := range []float64{0, tc} {
 		s := straight(er, h, w, 2*h, []float64{0.5 * f, f, 1.5 * f})
@@ -46,16 +41,7 @@ func TestThickCopperAgainstFieldSolver(t *testing.T) {
 	}
 	t.Logf("field solver (35 µm): εeff %.4f, Z0 %.2f Ω; sheet: εeff %.4f (%+.2f %%), Z0 %.2f Ω (%+.2f %%); drawn: εeff %.4f (%+.2f %%), Z0 %.2f Ω (%+.2f %%)",
 		eeFS, zFS, ee[0], 100*(ee[0]/eeFS-1), z[0], 100*(z[0]/zFS-1), ee[1], 100*(ee[1]/eeFS-1), z[1], 100*(z[1]/zFS-1))
-	for _, c := range []struct {
-		name         string
-		sheet, thick float64
-		ref          float64
-	}{{"εeff", ee[0], ee[1], eeFS}, {"Z0", z[0], z[1], zFS}} {
-		es, et := math.Abs(c.sheet/c.ref-1), math.Abs(c.thick/c.ref-1)
-		if et > es/2 {
-			t.Errorf("%s: drawn copper %.2f %% off the field solver, the sheet %.2f %%: want at most half", c.name, 100*et, 100*es)
-		}
-	}
+	atMostHalfTheSheet(t, "drawn copper", [2]float64{eeFS, zFS}, ee, z)
 }
 
 // TestThinCopperChangesNothing checks that copper thinner than the
@@ -108,12 +94,7 @@ func TestConformalMaskAgainstFieldSolver(t *testing.T) {
 	w := wh * h
 	f := 1e9 * 1e-3 / h
 	cs := fieldsolve.CrossSection{Geometry: fieldsolve.Microstrip, Width: w, Height: h, Er: er, Thickness: tc, MaskThickness: mt, MaskEr: mer}
-	m, err := fieldsolve.NewLineModelOptions(cs, physical.Substrate{Er: er, Height: h}, nil, fieldsolve.Options{Tolerance: 0.001})
-	if err != nil {
-		t.Fatal(err)
-	}
-	zFS, _ := m.Static()
-	eeFS := m.At(f).EpsEff
+	zFS, eeFS := fieldSolverLine(t, cs, f, 0.001)
 	var ee, z [2]float64
 	for i, th := range []float64{0, tc} {
 		s := straight(er, h, w, 2*h, []float64{0.5 * f, f, 1.5 * f})
@@ -122,16 +103,7 @@ func TestConformalMaskAgainstFieldSolver(t *testing.T) {
 	}
 	t.Logf("field solver (35 µm, conformal mask): εeff %.4f, Z0 %.2f Ω; sheet: εeff %.4f (%+.2f %%), Z0 %.2f Ω (%+.2f %%); drawn: εeff %.4f (%+.2f %%), Z0 %.2f Ω (%+.2f %%)",
 		eeFS, zFS, ee[0], 100*(ee[0]/eeFS-1), z[0], 100*(z[0]/zFS-1), ee[1], 100*(ee[1]/eeFS-1), z[1], 100*(z[1]/zFS-1))
-	for _, c := range []struct {
-		name         string
-		sheet, thick float64
-		ref          float64
-	}{{"εeff", ee[0], ee[1], eeFS}, {"Z0", z[0], z[1], zFS}} {
-		es, et := math.Abs(c.sheet/c.ref-1), math.Abs(c.thick/c.ref-1)
-		if et > es/2 {
-			t.Errorf("%s: drawn copper under the conformal mask %.2f %% off the field solver, the sheet %.2f %%: want at most half", c.name, 100*et, 100*es)
-		}
-	}
+	atMostHalfTheSheet(t, "drawn copper under the conformal mask", [2]float64{eeFS, zFS}, ee, z)
 }
 
 // TestConformalAverage checks the cell average of the conformal mask
@@ -253,5 +225,35 @@ func TestFixesAreTheirOwnUpdate(t *testing.T) {
 	t.Logf("largest field %.3g, largest difference %.3g", peak, diff)
 	if !(peak > 0) || diff > 1e-4*peak {
 		t.Errorf("fixes against the layer's own coefficients: largest difference %.3g of a largest field %.3g, want within 1e-4", diff, peak)
+	}
+}
+
+// fieldSolverLine returns the 2-D field solver's static Z0 (ohm) and its
+// εeff at f for cross-section cs (physical/fieldsolve, an independent
+// electrostatic computation), solved to the relative tolerance tol.
+func fieldSolverLine(t *testing.T, cs fieldsolve.CrossSection, f, tol float64) (z0, epsEff float64) {
+	t.Helper()
+	m, err := fieldsolve.NewLineModelOptions(cs, physical.Substrate{Er: cs.Er, Height: cs.Height}, nil, fieldsolve.Options{Tolerance: tol})
+	if err != nil {
+		t.Fatal(err)
+	}
+	z0, _ = m.Static()
+	return z0, m.At(f).EpsEff
+}
+
+// atMostHalfTheSheet fails t unless the full-wave εeff and Z0 of the copper
+// drawn (ee[1], z[1]) lie off the field solver's (ref: εeff, Z0) by at most
+// half what those of the copper as a sheet (ee[0], z[0]) do.
+func atMostHalfTheSheet(t *testing.T, drawn string, ref, ee, z [2]float64) {
+	t.Helper()
+	for _, c := range []struct {
+		name         string
+		sheet, thick float64
+		ref          float64
+	}{{"εeff", ee[0], ee[1], ref[0]}, {"Z0", z[0], z[1], ref[1]}} {
+		es, et := math.Abs(c.sheet/c.ref-1), math.Abs(c.thick/c.ref-1)
+		if et > es/2 {
+			t.Errorf("%s: %s %.2f %% off the field solver, the sheet %.2f %%: want at most half", c.name, drawn, 100*et, 100*es)
+		}
 	}
 }

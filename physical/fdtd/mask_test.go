@@ -8,7 +8,6 @@ import (
 	"testing"
 	"time"
 
-	"stubcraft/physical"
 	"stubcraft/physical/fieldsolve"
 )
 
@@ -54,12 +53,8 @@ func maskedLineCase(t *testing.T, er, h, wh, mt, mer float64, mesh MeshParams) (
 		cs.MaskThickness, cs.MaskEr = mt, mer
 	}
 	z, ee = measureLine(t, s, mesh)
-	m, err := fieldsolve.NewLineModelOptions(cs, physical.Substrate{Er: er, Height: h}, nil, fieldsolve.Options{Tolerance: 0.001})
-	if err != nil {
-		t.Fatal(err)
-	}
-	zFS, _ = m.Static()
-	return ee, z, m.At(f).EpsEff, zFS
+	zFS, eeFS = fieldSolverLine(t, cs, f, 0.001)
+	return ee, z, eeFS, zFS
 }
 
 // TestZeroMaskChangesNothing checks that a mask of zero thickness, whatever
