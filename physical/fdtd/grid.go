@@ -230,8 +230,9 @@ func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, erro
 	// where the copper's walls face each other across the gaps and the
 	// thickness matters most: gcpw-probe's zero-thickness line is 4.3 %
 	// high in εeff against the field solver with its 35 µm, the copper
-	// drawn 2.3 % (coarse; TestThinCopperOnCoplanarLine), for 0.54× the
-	// time step there (0.70× on the normal mesh). MeshParams.ThinCopper
+	// drawn 1.3 % (coarse; TestThinCopperOnCoplanarLine), its 35 µm cell
+	// under the coarse mesh's 39 µm substrate cells (the normal mesh's
+	// 30 µm cells, set by the gap, are thinner). MeshParams.ThinCopper
 	// draws it on any board. A solder mask over thick copper follows it (on
 	// the substrate, over the top face and down the walls: conformalFixes).
 	coplanar := s.Ports[0].Gap > 0 || s.Ports[1].Gap > 0

@@ -33,7 +33,7 @@ func (m MeshLevel) String() string {
 type MeshParams struct {
 	SubstrateCells int     // cells across the substrate height
 	PerWavelength  float64 // largest cell is λ/PerWavelength at the highest sweep frequency, in the medium
-	EdgeDivisions  float64 // the edge cell is at most the narrowest strip width / EdgeDivisions
+	EdgeDivisions  float64 // the edge cell is at most the narrowest strip width or coplanar gap / EdgeDivisions
 	Grading        float64 // largest ratio of neighbouring cells
 	PMLCells       int     // cells in each absorbing layer
 	// ViaDivisions, when positive, puts grid lines at the via centre and
@@ -60,9 +60,8 @@ type MeshParams struct {
 	// ThinCopper draws the copper's thickness (Structure.CopperThickness)
 	// even where it is thinner than the substrate's z cell, on any board
 	// (a grounded-coplanar board's is drawn anyway: NewGrid): a z cell of
-	// the copper's own thickness, which shortens the time step (gcpw-probe's
-	// 35 µm on its 64 µm cells of the normal mesh: 0.70× the step). The
-	// mesh levels leave it off.
+	// the copper's own thickness, which shortens the time step (35 µm on
+	// 64 µm substrate cells: 0.70× the step). The mesh levels leave it off.
 	ThinCopper bool
 }
 

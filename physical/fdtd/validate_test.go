@@ -42,12 +42,22 @@ func lineCase(t *testing.T, er, h, wh float64, mesh MeshParams) (z, zHJ, ee, eeK
 // εeff at s.Freqs[1].
 func measureLine(t *testing.T, s Structure, mesh MeshParams) (z0, epsEff float64) {
 	t.Helper()
+	return measureLineEdge(t, s, mesh, 0)
+}
+
+// measureLineEdge is measureLine with the edge cell forced to edge (m)
+// when edge > 0.
+func measureLineEdge(t *testing.T, s Structure, mesh MeshParams, edge float64) (z0, epsEff float64) {
+	t.Helper()
 	o := Options{Mesh: mesh}.withDefaults()
-	g, err := NewGrid(s, o.Mesh)
-	if err != nil {
-		t.Fatal(err)
+	if edge <= 0 {
+		g, err := NewGrid(s, o.Mesh)
+		if err != nil {
+			t.Fatal(err)
+		}
+		edge = g.EdgeCell
 	}
-	ld, _, _, err := calibrateOn(context.Background(), s, s.Ports[0].Width, g.EdgeCell, nil, o, 0, 1, time.Now())
+	ld, _, _, err := calibrateOn(context.Background(), s, s.Ports[0].Width, edge, nil, o, 0, 1, time.Now())
 	if err != nil {
 		t.Fatal(err)
 	}

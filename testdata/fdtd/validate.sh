@@ -5,7 +5,9 @@
 # the command and the date; go test ./physical/fdtd checks the records.
 # ONLY=Lines (or Convergence, Patch) runs one of them. ONLY=MaskedLines runs
 # the solder-mask check (masked lines against the 2-D field solver, coarse
-# and normal mesh) into mask.tsv; it is not in the default set.
+# and normal mesh) into mask.tsv, and ONLY=CoplanarLines gcpw-probe's
+# thick-copper line with the edge cell refined across its gap (normal
+# mesh) into coplanar.tsv; they are not in the default set.
 # Usage: testdata/fdtd/validate.sh   (from anywhere; slow, runs at low priority)
 set -euo pipefail
 cd "$(dirname "$0")/../.."
