@@ -225,7 +225,9 @@ func newSim(g *Grid, s Structure, workers int) *sim {
 
 // markPEC lists the E components forced to zero: tangential E on the copper
 // plane inside copper (on both faces of thick copper, with Ez between
-// them), and Ez (with Ex, Ey) inside via columns.
+// them), and Ez at every node of a via column from the ground plane to the
+// copper plane. The Ex and Ey between two nodes of a column are left free:
+// a column of several nodes is a bundle of posts, not a solid barrel.
 func (m *sim) markPEC(g *Grid) {
 	s := g.ext
 	kh := g.KH

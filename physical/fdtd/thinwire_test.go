@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"slices"
+	"strings"
 	"testing"
 	"time"
 
@@ -390,6 +391,41 @@ func TestThinWireTouchingColumns(t *testing.T) {
 		}
 		if !(l.alpha > 0 && l.alpha <= 1) {
 			t.Errorf("link %+v: factor %.3f outside (0, 1]", l, l.alpha)
+		}
+	}
+}
+
+// TestThinWireTooWideWarns: a via whose drill spans more grid nodes than
+// the thin-wire model grows a column to (a 1 mm drill on 50 µm cells: some
+// 300 nodes within it, against maxWireNodes) is drawn as its nodes within
+// the drill without a correction, and wireLinks says so in a note, which
+// verify passes on as a warning. A via that fits on the same grid gives
+// no note.
+func TestThinWireTooWideWarns(t *testing.T) {
+	const d = 50e-6
+	var ls []float64
+	for _, x := range uniformLines(30) {
+		ls = append(ls, x*d)
+	}
+	g := &Grid{X: ls, Y: ls, Z: []float64{0, 0.1e-3, 0.2e-3, 0.3e-3}, KH: 3}
+	for _, c := range []struct {
+		drill float64
+		warns bool
+	}{{1.0e-3, true}, {0.3e-3, false}} {
+		via := Via{Center: Point{X: 0, Y: 0}, Diameter: int64(math.Round(c.drill * 1e9))}
+		links, cols, notes := wireLinks(g, []Via{via}, 0)
+		t.Logf("drill %.1f mm: %d nodes, %d links, notes %q", c.drill*1e3, len(cols[0]), len(links), notes)
+		if warned := len(notes) == 1 && strings.Contains(notes[0], "too wide for the thin-wire model"); warned != c.warns {
+			t.Errorf("drill %.1f mm on %.0f µm cells: notes %q, want a too-wide warning: %v", c.drill*1e3, d*1e6, notes, c.warns)
+		}
+		if !c.warns {
+			continue
+		}
+		if within := viaColumn(g, via); !slices.Equal(cols[0], within) {
+			t.Errorf("drill %.1f mm: drawn with %d nodes, want its %d nodes within the drill", c.drill*1e3, len(cols[0]), len(within))
+		}
+		if len(links) != 0 {
+			t.Errorf("drill %.1f mm: %d thin-wire links, want none (uncorrected)", c.drill*1e3, len(links))
 		}
 	}
 }
