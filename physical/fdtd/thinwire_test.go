@@ -21,6 +21,17 @@ func uniformLines(n int) []float64 {
 	return l
 }
 
+// planeTestGrid returns a grid of square cells of side d (m), 61 lines
+// each way centred on the origin, with the copper plane 0.3 mm up on three
+// z cells: the plane in which the thin-wire tests draw their vias.
+func planeTestGrid(d float64) *Grid {
+	var ls []float64
+	for _, x := range uniformLines(30) {
+		ls = append(ls, x*d)
+	}
+	return &Grid{X: ls, Y: ls, Z: []float64{0, 0.1e-3, 0.2e-3, 0.3e-3}, KH: 3}
+}
+
 // TestColumnLattice checks the plane network of a via column that the
 // thin-wire factors come from against what is known of it.
 func TestColumnLattice(t *testing.T) {
@@ -59,11 +70,7 @@ func TestColumnLattice(t *testing.T) {
 // (derived in thinwire.go; an independent path through the network).
 func TestThinWireFactorUniform(t *testing.T) {
 	const d = 0.2e-3 // cell, m
-	var ls []float64
-	for _, x := range uniformLines(30) {
-		ls = append(ls, x*d)
-	}
-	g := &Grid{X: ls, Y: ls, Z: []float64{0, 0.1e-3, 0.2e-3, 0.3e-3}, KH: 3}
+	g := planeTestGrid(d)
 	a0 := math.Exp(-0.5772156649015329) / (2 * math.Sqrt2) * d
 	// Drills thinner than the node's 0.0397 mm: factors below 1 (a drill
 	// wider gets more nodes, maxWireFactor).
@@ -351,11 +358,7 @@ func TestThinWireLeavesStaticFieldsStatic(t *testing.T) {
 // (0, 1].
 func TestThinWireTouchingColumns(t *testing.T) {
 	const d = 0.2e-3
-	var ls []float64
-	for _, x := range uniformLines(30) {
-		ls = append(ls, x*d)
-	}
-	g := &Grid{X: ls, Y: ls, Z: []float64{0, 0.1e-3, 0.2e-3, 0.3e-3}, KH: 3}
+	g := planeTestGrid(d)
 	dia := int64(math.Round(2 * 0.9 * d * 1e9))
 	vias := []Via{{Center: Point{X: 0, Y: 0}, Diameter: dia}, {Center: Point{X: int64(math.Round(2 * d * 1e9)), Y: 0}, Diameter: dia}}
 	links, cols, notes := wireLinks(g, vias, 0)
@@ -403,11 +406,7 @@ func TestThinWireTouchingColumns(t *testing.T) {
 // no note.
 func TestThinWireTooWideWarns(t *testing.T) {
 	const d = 50e-6
-	var ls []float64
-	for _, x := range uniformLines(30) {
-		ls = append(ls, x*d)
-	}
-	g := &Grid{X: ls, Y: ls, Z: []float64{0, 0.1e-3, 0.2e-3, 0.3e-3}, KH: 3}
+	g := planeTestGrid(d)
 	for _, c := range []struct {
 		drill float64
 		warns bool
