@@ -35,10 +35,12 @@ func newVerifyCmd() *cobra.Command {
 		Use:   "verify [DESIGN.toml]",
 		Short: "Check the drawn copper with a full-wave (3-D FDTD) solve",
 		Long: `Build the design with the same checks as build, then solve the drawn copper
-full-wave (three-dimensional FDTD: perfect copper, its thickness drawn
-where the substrate's cells are no taller and there is no solder mask, a
-sheet elsewhere, the substrate and its loss tangent, the ground plane and the vias), attach the
-load by network math and compare with the circuit model. It writes
+full-wave (three-dimensional FDTD: perfect copper, drawn with its
+thickness where the substrate's cells are no thinner than it and always on
+a grounded-coplanar board, a sheet elsewhere; a solder mask over the
+copper, following it where the copper is drawn thick; the substrate with
+its loss tangent, the ground plane, and the vias with their drill radius),
+attach the load by network math and compare with the circuit model. It writes
 fullwave.s2p (the network alone, port 1 the source side, port 2 the load
 port, as network.s2p), fullwave-matched.s1p, fullwave.json and plots that
 overlay the full-wave and circuit |S11|. Without a design it checks the
