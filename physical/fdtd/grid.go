@@ -87,9 +87,6 @@ func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, erro
 	wport := math.Inf(1)
 	for _, pt := range s.Ports {
 		wport = math.Min(wport, float64(pt.Width)*1e-9)
-	}
-	narrow = math.Min(narrow, wport)
-	for _, pt := range s.Ports {
 		// A coplanar gap is meshed like a strip of its width: the field
 		// crowds into it, and with the gap in two or three cells a
 		// grounded-coplanar line came out high in εeff against the field
@@ -98,6 +95,7 @@ func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, erro
 			narrow = math.Min(narrow, float64(pt.Gap)*1e-9)
 		}
 	}
+	narrow = math.Min(narrow, wport)
 	d := math.Min(h/float64(p.SubstrateCells), narrow/p.EdgeDivisions)
 	d = math.Min(d, dmaxSub)
 	if edge > 0 {
