@@ -36,7 +36,7 @@ func newVerifyCmd() *cobra.Command {
 		Short: "Check the drawn copper with a full-wave (3-D FDTD) solve",
 		Long: `Build the design with the same checks as build, then solve the drawn copper
 full-wave (three-dimensional FDTD: perfect copper, drawn with its
-thickness where the substrate's cells are no thinner than it and always on
+thickness where it is no thinner than the substrate's cells and always on
 a grounded-coplanar board, a sheet elsewhere; a solder mask over the
 copper, following it where the copper is drawn thick; the substrate with
 its loss tangent, the ground plane, and the vias with their drill radius),

@@ -90,7 +90,7 @@ func newGrid(s Structure, p MeshParams, edge float64, ys []float64) (*Grid, erro
 		// A coplanar gap is meshed like a strip of its width: the field
 		// crowds into it, and with the gap in two or three cells a
 		// grounded-coplanar line came out high in εeff against the field
-		// solver (TestCoplanarGapResolved).
+		// solver (TestThinCopperOnCoplanarLine, TestRecordedCoplanarLines).
 		if pt.Gap > 0 {
 			narrow = math.Min(narrow, float64(pt.Gap)*1e-9)
 		}
