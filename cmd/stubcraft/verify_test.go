@@ -1,11 +1,15 @@
 package main
 
 import (
+	"bytes"
+	"context"
 	"encoding/json"
+	"errors"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+	"time"
 )
 
 // TestVerifyRefusals checks verify's refusals before any full-wave run: an
@@ -45,5 +49,26 @@ func TestVerifyReportKeys(t *testing.T) {
 		if _, ok := m[k]; !ok {
 			t.Errorf("key %q missing from %s", k, b)
 		}
+	}
+}
+
+// TestVerifyCancelledWritesNothing: a verify stopped before its full-wave
+// runs finish (here by a deadline of 1.5 s on the demo's coarse solve of
+// about 5 s; on a slow machine it may stop in the build instead) returns
+// the context's error and leaves no output directory behind.
+func TestVerifyCancelledWritesNothing(t *testing.T) {
+	out := filepath.Join(t.TempDir(), "fw")
+	ctx, cancel := context.WithTimeout(context.Background(), 1500*time.Millisecond)
+	defer cancel()
+	cmd := newRootCmd()
+	var buf bytes.Buffer
+	cmd.SetArgs([]string{"verify", "-o", out, "--mesh", "coarse"})
+	cmd.SetOut(&buf)
+	cmd.SetErr(&buf)
+	if err := cmd.ExecuteContext(ctx); !errors.Is(err, context.DeadlineExceeded) {
+		t.Errorf("error %v, want the deadline's", err)
+	}
+	if _, err := os.Stat(out); !os.IsNotExist(err) {
+		t.Errorf("output directory exists after a cancelled verify (stat: %v)", err)
 	}
 }
