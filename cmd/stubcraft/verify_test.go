@@ -53,16 +53,17 @@ func TestVerifyReportKeys(t *testing.T) {
 }
 
 // TestVerifyCancelledWritesNothing: a verify stopped before its full-wave
-// runs finish (here by a deadline of 1.5 s on the demo's coarse solve of
-// about 5 s; on a slow machine it may stop in the build instead) returns
-// the context's error and leaves no output directory behind.
+// runs finish (here by a deadline of 1.5 s on the demo's normal-mesh solve
+// of about 7 s on two cores; on a slow machine it may stop in the build
+// instead) returns the context's error and leaves no output directory
+// behind.
 func TestVerifyCancelledWritesNothing(t *testing.T) {
 	out := filepath.Join(t.TempDir(), "fw")
 	ctx, cancel := context.WithTimeout(context.Background(), 1500*time.Millisecond)
 	defer cancel()
 	cmd := newRootCmd()
 	var buf bytes.Buffer
-	cmd.SetArgs([]string{"verify", "-o", out, "--mesh", "coarse"})
+	cmd.SetArgs([]string{"verify", "-o", out, "--mesh", "normal"})
 	cmd.SetOut(&buf)
 	cmd.SetErr(&buf)
 	if err := cmd.ExecuteContext(ctx); !errors.Is(err, context.DeadlineExceeded) {
